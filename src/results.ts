@@ -186,4 +186,6 @@ export interface Results {
   };
   series: SeriesResult[];
   problems: Problem[];
+  /** Run-wide notes, e.g. that a pull request's base commit was not in the clone. */
+  notes?: string[];
 }
