@@ -5,7 +5,10 @@ import type { CheckedObservation } from '../../src/results.js';
 // Benjamini & Hochberg (1995), J. R. Statist. Soc. B 57(1), section 4.1: the 15 p-values of their
 // worked example (from memory of the paper). At q = 0.05 the step-up procedure rejects the four
 // smallest; Bonferroni (p <= 0.05/15) rejects the three smallest.
-const BH_EXAMPLE = [0.0001, 0.0004, 0.0019, 0.0095, 0.0201, 0.0278, 0.0298, 0.0344, 0.0459, 0.324, 0.4262, 0.5719, 0.6528, 0.759, 1.0];
+const BH_EXAMPLE = [
+  0.0001, 0.0004, 0.0019, 0.0095, 0.0201, 0.0278, 0.0298, 0.0344, 0.0459, 0.324, 0.4262, 0.5719, 0.6528,
+  0.759, 1.0,
+];
 
 function obs(p: number): CheckedObservation {
   return {
@@ -60,7 +63,12 @@ describe('run-wide false-alarm control', () => {
     const shuffled = [...BH_EXAMPLE].reverse();
     const all = shuffled.map((p) => ({ obs: obs(p), alpha: 0.05, direction: 'both' as const }));
     adjustAlarms(all, 'fdr');
-    expect(all.filter((a) => a.obs.alarm).map((a) => a.obs.pValue).sort()).toEqual(BH_EXAMPLE.slice(0, 4));
+    expect(
+      all
+        .filter((a) => a.obs.alarm)
+        .map((a) => a.obs.pValue)
+        .sort(),
+    ).toEqual(BH_EXAMPLE.slice(0, 4));
   });
 
   it('never raises an alarm on the side that is not watched, whatever the p-value', () => {

@@ -1,0 +1,155 @@
+// Command-line arguments -> a typed settings object. Nothing else reads argv.
+import { parseArgs } from 'node:util';
+import { LeadlineError } from '../errors.js';
+import type { FailOn } from '../results.js';
+
+export type PrintMode = 'summary' | 'markdown' | 'json' | 'none';
+
+export interface CliSettings {
+  command: 'run' | 'help' | 'version';
+  /** Config path, relative to cwd. */
+  config: string;
+  /** Working directory for config and metric files. */
+  cwd: string;
+  /** Where to write the results JSON, or null. */
+  json: string | null;
+  /** Where to write the markdown report, or null. */
+  markdown: string | null;
+  /** Where to write the HTML report, or null. */
+  html: string | null;
+  /** A handlebars template for the markdown report, or null for the built-in one. */
+  template: string | null;
+  failOn: FailOn;
+  /** What goes to stdout. */
+  print: PrintMode;
+  /** Colour on stdout (TTY and NO_COLOR unset, unless forced). */
+  color: boolean;
+  /** Progress lines on stderr. */
+  progress: boolean;
+}
+
+export const HELP = `leadline — judge metric CSVs against their forecasts and warn before limits are crossed
+
+Usage:
+  leadline run [options]
+  leadline --help | --version
+
+Options for run:
+  --config FILE        config file, relative to --cwd (default .github/leadline.yml)
+  --cwd DIR            working directory for the config and metric files (default: current directory)
+  --json FILE          write the results JSON (version 1) to FILE
+  --markdown FILE      write the markdown report to FILE
+  --html FILE          write the self-contained HTML report to FILE
+  --template FILE      render the markdown report with this handlebars template instead of the built-in one
+  --fail-on LIST       what fails the run: alarm, limit, alarm,limit (or both), never (default alarm,limit)
+  --print MODE         what to print on stdout: summary (default), markdown, json, none
+  --color / --no-color force colour on or off (default: on for a terminal, off when NO_COLOR is set)
+  --quiet              no progress lines on stderr
+  -h, --help           show this help
+  -V, --version        show the version
+
+Output files are written whole or not at all (a temporary file renamed into place); the metric
+CSVs and the config are never written. An output path that names an input file is refused.
+
+Exit codes:
+  0  the gate passed
+  1  the gate failed (alarms or limits at risk, per --fail-on)
+  2  usage, config or data errors (results are still written when the config could be read)
+
+Forecasts are estimates with stated uncertainty, not guarantees.
+`;
+
+export function parseFailOn(value: string): FailOn {
+  const parts = value
+    .split(',')
+    .map((p) => p.trim())
+    .filter(Boolean);
+  const set = new Set(parts);
+  for (const p of set) {
+    if (!['alarm', 'limit', 'both', 'never'].includes(p))
+      throw new LeadlineError(
+        'usage',
+        `--fail-on: "${value}" is not valid; expected alarm, limit, alarm,limit, both or never.`,
+      );
+  }
+  if (set.has('never')) {
+    if (set.size > 1)
+      throw new LeadlineError(
+        'usage',
+        `--fail-on: "never" cannot be combined with other values (got "${value}").`,
+      );
+    return 'never';
+  }
+  if (set.has('both') || (set.has('alarm') && set.has('limit'))) return 'both';
+  if (set.has('alarm')) return 'alarm';
+  if (set.has('limit')) return 'limit';
+  throw new LeadlineError(
+    'usage',
+    `--fail-on: expected alarm, limit, alarm,limit, both or never; got an empty value.`,
+  );
+}
+
+export function parseCli(argv: string[], env: NodeJS.ProcessEnv, cwd: string, isTTY: boolean): CliSettings {
+  let parsed;
+  try {
+    parsed = parseArgs({
+      args: argv,
+      allowPositionals: true,
+      strict: true,
+      options: {
+        config: { type: 'string' },
+        cwd: { type: 'string' },
+        json: { type: 'string' },
+        markdown: { type: 'string' },
+        html: { type: 'string' },
+        template: { type: 'string' },
+        'fail-on': { type: 'string' },
+        print: { type: 'string' },
+        color: { type: 'boolean' },
+        'no-color': { type: 'boolean' },
+        quiet: { type: 'boolean' },
+        help: { type: 'boolean', short: 'h' },
+        version: { type: 'boolean', short: 'V' },
+      },
+    });
+  } catch (e) {
+    throw new LeadlineError('usage', `${(e as Error).message}. Run "leadline --help" for the options.`);
+  }
+  const v = parsed.values;
+  const base = {
+    config: v.config ?? '.github/leadline.yml',
+    cwd: v.cwd ?? cwd,
+    json: v.json ?? null,
+    markdown: v.markdown ?? null,
+    html: v.html ?? null,
+    template: v.template ?? null,
+    failOn: parseFailOn(v['fail-on'] ?? 'alarm,limit'),
+    print: parsePrint(v.print ?? 'summary'),
+    color: v['no-color'] ? false : v.color ? true : isTTY && !env.NO_COLOR,
+    progress: !v.quiet,
+  };
+  if (v.help) return { ...base, command: 'help' };
+  if (v.version) return { ...base, command: 'version' };
+  const [command, ...rest] = parsed.positionals;
+  if (command === undefined)
+    throw new LeadlineError(
+      'usage',
+      'No command given. Usage: leadline run [options]; see "leadline --help".',
+    );
+  if (command !== 'run')
+    throw new LeadlineError(
+      'usage',
+      `Unknown command "${command}". The command is "run"; see "leadline --help".`,
+    );
+  if (rest.length > 0)
+    throw new LeadlineError('usage', `Unexpected argument "${rest[0]}". See "leadline --help".`);
+  return { ...base, command: 'run' };
+}
+
+function parsePrint(value: string): PrintMode {
+  if (value === 'summary' || value === 'markdown' || value === 'json' || value === 'none') return value;
+  throw new LeadlineError(
+    'usage',
+    `--print: "${value}" is not valid; expected summary, markdown, json or none.`,
+  );
+}

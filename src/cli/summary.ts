@@ -1,0 +1,67 @@
+// The concise terminal summary: one line for the run, one per series that needs a look.
+import type { Results, SeriesResult, Verdict } from '../results.js';
+
+const CODES = { red: 31, green: 32, yellow: 33, blue: 34, dim: 2, bold: 1 } as const;
+type Paint = (c: keyof typeof CODES, s: string) => string;
+
+const LABEL: Record<Verdict, string> = {
+  ok: 'ok',
+  alarm: 'ALARM',
+  'at-risk': 'AT RISK',
+  'insufficient-data': 'too little data',
+  error: 'ERROR',
+};
+const COLOUR: Record<Verdict, keyof typeof CODES> = {
+  ok: 'green',
+  alarm: 'red',
+  'at-risk': 'yellow',
+  'insufficient-data': 'dim',
+  error: 'red',
+};
+
+/** Control characters in metric names or cells must not reach the terminal as escapes. */
+function clean(s: string): string {
+  // eslint-disable-next-line no-control-regex
+  return s.replace(/[\u0000-\u001f\u007f-\u009f]/g, ' ');
+}
+
+function fmt(x: number): string {
+  if (!Number.isFinite(x)) return String(x);
+  const a = Math.abs(x);
+  return a !== 0 && (a >= 1e6 || a < 1e-3) ? x.toExponential(3) : Number(x.toPrecision(5)).toString();
+}
+
+function line(s: SeriesResult, paint: Paint): string {
+  const tag = paint(COLOUR[s.verdict], LABEL[s.verdict].padEnd(15));
+  const method = s.method ? paint('dim', ` [${s.method}, ${s.intervalKind}]`) : '';
+  const last = s.checked[s.checked.length - 1];
+  const judged = last
+    ? ` last ${fmt(last.value)} vs ${last.level}% interval ${fmt(last.lower)} … ${fmt(last.upper)}`
+    : '';
+  return `  ${tag} ${clean(s.name)}${method}${judged}${s.reason ? paint('dim', ` — ${clean(s.reason)}`) : ''}`;
+}
+
+export function renderSummary(r: Results, color: boolean): string {
+  const paint: Paint = (c, s) => (color ? `\u001b[${CODES[c]}m${s}\u001b[0m` : s);
+  const out: string[] = [];
+  const s = r.summary;
+  out.push(
+    `${paint('bold', 'Leadline')}: ${paint(COLOUR[r.verdict], LABEL[r.verdict])} — ${s.series} series, ${s.checkedObservations} checked, ` +
+      `${s.alarms} alarm${s.alarms === 1 ? '' : 's'} (about ${s.expectedFalseAlarms.toFixed(2)} expected by chance), ` +
+      `${s.atRisk} limit${s.atRisk === 1 ? '' : 's'} at risk`,
+  );
+  const order: Verdict[] = ['error', 'alarm', 'at-risk', 'insufficient-data', 'ok'];
+  const sorted = [...r.series].sort((a, b) => order.indexOf(a.verdict) - order.indexOf(b.verdict));
+  const shown = sorted.length > 40 ? sorted.filter((x) => x.verdict !== 'ok') : sorted;
+  for (const x of shown) out.push(line(x, paint));
+  if (shown.length < sorted.length)
+    out.push(paint('dim', `  … and ${sorted.length - shown.length} series that are ok`));
+  for (const p of r.problems) {
+    const where = [p.file, p.line, p.column].filter((v) => v !== null).join(':');
+    out.push(`  ${paint('red', 'problem')} ${clean(where ? `${where}: ` : '')}${clean(p.message)}`);
+  }
+  for (const n of r.notes ?? []) out.push(`  ${paint('blue', 'note')} ${clean(n)}`);
+  out.push(paint(r.gate.passed ? 'green' : 'red', r.gate.reason));
+  out.push(paint('dim', 'Forecasts are estimates with stated uncertainty, not guarantees.'));
+  return out.join('\n') + '\n';
+}

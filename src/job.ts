@@ -1,0 +1,461 @@
+// The one pipeline both entries call: config + files -> Results.
+// Reading the config and the CSVs happens here (through src/config and src/ingest); everything
+// after ingestion is pure and goes through buildResults, which tests call directly.
+import { durationToSteps, loadPlan } from './config/index.js';
+import type { MetricPlan, Plan } from './config/types.js';
+import {
+  analyse,
+  type Analysis,
+  type EngineOptions,
+  type MethodBacktest,
+  type ResidualChecks,
+} from './engine/index.js';
+import { autoSeason, ingest, type IngestOutcome } from './ingest/index.js';
+import type { Series } from './ingest/types.js';
+import { adjustAlarms, assessLimit, checkObservations, checkedIndices, sideAlpha } from './alarms/index.js';
+import type {
+  BacktestSummary,
+  CheckedObservation,
+  FailOn,
+  ForecastPoint,
+  LevelMap,
+  MeasureSet,
+  Problem,
+  ResidualCheckSummary,
+  Results,
+  SeriesResult,
+  Verdict,
+} from './results.js';
+import { timeAfterLast, timeAtIndex } from './time.js';
+import { VERSION } from './version.js';
+
+export interface JobOptions {
+  /** Working directory: config paths and metric files are relative to it. */
+  cwd: string;
+  /** Config path relative to cwd (or absolute). */
+  configPath: string;
+  failOn: FailOn;
+  /**
+   * Pull-request mode: CSV path (relative to cwd, forward slashes) -> number of lines the file had at
+   * the base commit. Rows after that are the checked observations; files not listed are not checked.
+   */
+  newRows?: Record<string, number>;
+  /** A note for the whole run, e.g. that the base commit was missing. */
+  baseNote?: string;
+  /** Called after each series, for progress reporting. */
+  onProgress?: (done: number, total: number) => void;
+  /** Fixed clock for reproducible output. */
+  now?: Date;
+}
+
+/** Points of history (and residuals) kept per series in the results, for charts. */
+export const HISTORY_CAP = 500;
+
+export async function runJob(o: JobOptions): Promise<Results> {
+  const plan = await loadPlan(o.configPath, o.cwd);
+  const outcome = await ingest(plan, o.cwd);
+  return buildResults(plan, outcome, o);
+}
+
+type BuildOptions = Pick<JobOptions, 'failOn' | 'newRows' | 'baseNote' | 'onProgress' | 'now'>;
+
+/** Pure: the plan and what ingestion produced -> Results. */
+export function buildResults(plan: Plan, outcome: IngestOutcome, o: BuildOptions): Results {
+  const results: SeriesResult[] = [];
+  const problems: Problem[] = [];
+  const total = outcome.series.length;
+  const byName = new Map(plan.metrics.map((m) => [m.name, m]));
+
+  outcome.series.forEach((s, i) => {
+    const metric = byName.get(s.metric);
+    if (!metric) throw new Error(`internal: series ${s.name} has no metric in the plan`);
+    results.push(analyseOne(s, metric, o));
+    o.onProgress?.(i + 1, total);
+  });
+
+  for (const f of outcome.failures) {
+    const e = f.error;
+    problems.push({
+      kind: e.kind === 'config' ? 'config' : 'data',
+      message: e.message,
+      file: e.file,
+      line: e.line,
+      column: e.column,
+      keyPath: e.keyPath,
+      metric: f.metric.name,
+    });
+    results.push(failedSeries(f.metric, f.column, f.key, f.verdict, e.describe()));
+  }
+
+  // Run-wide false-alarm control across every checked observation.
+  const everyChecked: { obs: CheckedObservation; alpha: number; direction: SeriesResult['direction'] }[] = [];
+  for (const r of results) {
+    const alpha = sideAlpha(r.alarmLevel, r.direction);
+    for (const obs of r.checked) everyChecked.push({ obs, alpha, direction: r.direction });
+  }
+  adjustAlarms(everyChecked, plan.falseAlarms);
+  for (const r of results) settleVerdict(r);
+
+  const summary = {
+    metrics: plan.metrics.length,
+    series: results.length,
+    alarms: everyChecked.filter((c) => c.obs.alarm).length,
+    atRisk: results.filter((r) => r.limit?.atRisk).length,
+    insufficient: results.filter((r) => r.verdict === 'insufficient-data').length,
+    errors: results.filter((r) => r.verdict === 'error').length,
+    checkedObservations: everyChecked.length,
+    expectedFalseAlarms: everyChecked.reduce((acc, c) => acc + c.alpha, 0),
+    falseAlarms: plan.falseAlarms,
+  };
+  const verdict = runVerdict(results);
+  const gate = decideGate(o.failOn, summary);
+  const out: Results = {
+    version: 1,
+    generator: { name: 'leadline', version: VERSION },
+    generatedAt: (o.now ?? new Date()).toISOString(),
+    config: plan.configPath,
+    verdict,
+    gate,
+    summary,
+    series: results,
+    problems,
+  };
+  if (o.baseNote) out.notes = [o.baseNote];
+  return out;
+}
+
+function analyseOne(s: Series, m: MetricPlan, o: BuildOptions): SeriesResult {
+  const notes = [...s.notes];
+  const observations = countObserved(s.values);
+  const seasonSource = m.season === 'auto' ? 'auto' : 'config';
+  const season = m.season === 'auto' ? autoSeason(s.spacing, observations, s.stepMs) : m.season;
+  if (m.season === 'auto')
+    notes.push(
+      `Season chosen from the ${s.spacing === 'row' ? 'row order' : `${s.spacing}ly spacing`}: ${season === 1 ? 'none' : season}.`,
+    );
+  const methods = season > 1 ? m.methods : m.methods.filter((x) => x !== 'seasonal-naive');
+  if (methods.length < m.methods.length)
+    notes.push('Seasonal naive left out: the series has no season (season 1), where it equals naive.');
+  const base = emptySeries(s, m, season, seasonSource, observations, notes);
+  if (methods.length === 0)
+    return {
+      ...base,
+      verdict: 'error',
+      reason: 'No method left to fit: seasonal naive needs a season above 1.',
+    };
+
+  let within: number | null = null;
+  if (m.limit) {
+    within = durationToSteps(m.limit.within, s.spacing, s.stepMs);
+    if (within === null)
+      notes.push(
+        `The limit window "${m.limit.withinLabel}" is a duration but the series is in row order; give it in steps.`,
+      );
+  }
+  const horizon = Math.max(m.horizon, within ?? 0);
+  const engine: EngineOptions = {
+    season,
+    methods,
+    horizon,
+    levels: m.levels,
+    intervals: m.intervals,
+    backtest: m.backtest,
+    score: m.score,
+    paths: m.paths,
+    seed: m.seed,
+  };
+  const a = analyse(s.values, engine);
+  if (!a.ok) {
+    return { ...base, notes: [...notes, ...a.notes], verdict: 'insufficient-data', reason: a.reason };
+  }
+  notes.push(...a.notes.filter((n) => !notes.includes(n)));
+
+  const newFrom = o.newRows ? o.newRows[s.file] : undefined;
+  const indices =
+    o.newRows && newFrom === undefined ? [] : checkedIndices(s.values, s.rows, m.check.last, newFrom);
+  if (o.newRows && newFrom === undefined)
+    notes.push('This file is unchanged in the pull request: no row was checked.');
+  if (o.newRows && newFrom !== undefined && indices.length === 0)
+    notes.push('The pull request adds no observation to this series.');
+  const { checked, notes: checkNotes } = checkObservations({
+    values: s.values,
+    rows: s.rows,
+    timeAt: (i) => timeAtIndex(s, i),
+    analysis: a,
+    options: m,
+    season,
+    indices,
+  });
+  notes.push(...checkNotes);
+
+  const limit =
+    m.limit && within !== null
+      ? assessLimit({
+          fit: a.chosen,
+          forecast: a.forecast,
+          lastValue: lastObserved(s.values),
+          limit: m.limit,
+          within,
+          paths: m.paths,
+          seed: m.seed,
+          timeAtStep: (h) => timeAfterLast(s, h),
+        })
+      : null;
+
+  return {
+    ...base,
+    method: a.chosen.method,
+    intervalKind: a.forecast.kind,
+    sigma: finiteOrNull(a.chosen.sigma),
+    sigmaDf: a.chosen.sigmaDf,
+    forecast: forecastPoints(a, s, m.horizon),
+    residualChecks: summariseChecks(a.checks),
+    backtest: summariseBacktest(a),
+    checked,
+    limit,
+    residuals: tail(Array.from(a.chosen.residuals, (r) => (Number.isFinite(r) ? r : null))),
+    notes,
+  };
+}
+
+function emptySeries(
+  s: Series,
+  m: MetricPlan,
+  season: number,
+  seasonSource: 'config' | 'auto',
+  observations: number,
+  notes: string[],
+): SeriesResult {
+  const history = [];
+  const start = Math.max(0, s.values.length - HISTORY_CAP);
+  for (let i = start; i < s.values.length; i++) {
+    const v = s.values[i]!;
+    history.push({
+      index: i,
+      row: s.rows[i]! > 0 ? s.rows[i]! : null,
+      time: timeAtIndex(s, i),
+      value: Number.isNaN(v) ? null : v,
+    });
+  }
+  if (start > 0)
+    notes.push(
+      `Charts show the last ${HISTORY_CAP} of ${s.values.length} points; the analysis used all of them.`,
+    );
+  return {
+    name: s.name,
+    metric: m.name,
+    file: s.file,
+    column: s.column,
+    key: s.key,
+    observations,
+    missing: s.values.length - observations,
+    spacing: s.spacing,
+    season,
+    seasonSource,
+    method: null,
+    intervalKind: null,
+    sigma: null,
+    sigmaDf: null,
+    levels: m.levels,
+    alarmLevel: m.alarmLevel,
+    direction: m.direction,
+    forecast: [],
+    residualChecks: null,
+    backtest: null,
+    checked: [],
+    limit: null,
+    history,
+    residuals: [],
+    verdict: 'ok',
+    reason: '',
+    notes,
+  };
+}
+
+function failedSeries(
+  m: MetricPlan,
+  column: string | null,
+  key: string | null,
+  verdict: Verdict,
+  reason: string,
+): SeriesResult {
+  const name = [
+    m.name,
+    column && m.values.length > 1 ? `/${column}` : '',
+    key !== null ? `[${key}]` : '',
+  ].join('');
+  return {
+    name,
+    metric: m.name,
+    file: m.file,
+    column: column ?? m.values.join(', '),
+    key,
+    observations: 0,
+    missing: 0,
+    spacing: 'row',
+    season: m.season === 'auto' ? 1 : m.season,
+    seasonSource: m.season === 'auto' ? 'auto' : 'config',
+    method: null,
+    intervalKind: null,
+    sigma: null,
+    sigmaDf: null,
+    levels: m.levels,
+    alarmLevel: m.alarmLevel,
+    direction: m.direction,
+    forecast: [],
+    residualChecks: null,
+    backtest: null,
+    checked: [],
+    limit: null,
+    history: [],
+    residuals: [],
+    verdict,
+    reason,
+    notes: [],
+  };
+}
+
+/** Sets verdict and reason once alarms are final. Insufficient data and errors keep theirs. */
+function settleVerdict(r: SeriesResult): void {
+  if (r.verdict === 'insufficient-data' || r.verdict === 'error') return;
+  const alarms = r.checked.filter((c) => c.alarm);
+  const parts: string[] = [];
+  if (alarms.length > 0) {
+    const first = alarms[0]!;
+    parts.push(
+      `${alarms.length} of ${r.checked.length} checked observation${r.checked.length === 1 ? '' : 's'} outside the ${first.level}% interval` +
+        ` (${first.value} ${first.side} ${first.side === 'above' ? first.upper.toPrecision(4) : first.lower.toPrecision(4)}${first.row ? `, line ${first.row}` : ''})`,
+    );
+  }
+  if (r.limit?.atRisk) {
+    parts.push(
+      r.limit.alreadyCrossed
+        ? `already ${r.limit.side} the limit ${r.limit.value}`
+        : `${(r.limit.probability * 100).toFixed(1)}% chance of crossing ${r.limit.value} within ${r.limit.withinLabel} (risk allowed ${(r.limit.risk * 100).toFixed(1)}%)`,
+    );
+  }
+  r.verdict = alarms.length > 0 ? 'alarm' : r.limit?.atRisk ? 'at-risk' : 'ok';
+  if (parts.length > 0) r.reason = parts.join('; ');
+  else if (r.checked.length > 0)
+    r.reason = `${r.checked.length} checked observation${r.checked.length === 1 ? '' : 's'} within the ${r.alarmLevel}% interval`;
+  else r.reason = 'No observation was checked.';
+}
+
+const SEVERITY: Verdict[] = ['error', 'alarm', 'at-risk', 'ok', 'insufficient-data'];
+
+/** The run's verdict: the most severe series verdict; insufficient data only when nothing else ran. */
+export function runVerdict(series: SeriesResult[]): Verdict {
+  if (series.length === 0) return 'ok';
+  for (const v of SEVERITY) if (series.some((s) => s.verdict === v)) return v;
+  return 'ok';
+}
+
+/** Whether the gate passes under `failOn`, with one line saying why. Data errors fail any gate but `never`. */
+export function decideGate(failOn: FailOn, s: Results['summary']): Results['gate'] {
+  if (failOn === 'never') return { failOn, passed: true, reason: 'The gate is off (fail-on: never).' };
+  const why: string[] = [];
+  if (s.errors > 0) why.push(`${s.errors} series could not be analysed`);
+  if ((failOn === 'alarm' || failOn === 'both') && s.alarms > 0)
+    why.push(`${s.alarms} alarm${s.alarms === 1 ? '' : 's'}`);
+  if ((failOn === 'limit' || failOn === 'both') && s.atRisk > 0)
+    why.push(`${s.atRisk} limit${s.atRisk === 1 ? '' : 's'} at risk`);
+  if (why.length === 0)
+    return { failOn, passed: true, reason: `Nothing fails the gate (fail-on: ${failOn}).` };
+  return { failOn, passed: false, reason: `Gate failed (fail-on: ${failOn}): ${why.join(', ')}.` };
+}
+
+function forecastPoints(a: Analysis, s: Series, horizon: number): ForecastPoint[] {
+  const out: ForecastPoint[] = [];
+  const fc = a.forecast;
+  for (let h = 1; h <= Math.min(horizon, fc.horizon); h++) {
+    const lower: LevelMap = {};
+    const upper: LevelMap = {};
+    for (const b of fc.bands) {
+      lower[String(b.level)] = b.lower[h - 1]!;
+      upper[String(b.level)] = b.upper[h - 1]!;
+    }
+    out.push({ step: h, time: timeAfterLast(s, h), mean: fc.mean[h - 1]!, lower, upper });
+  }
+  return out;
+}
+
+function summariseChecks(c: ResidualChecks): ResidualCheckSummary {
+  const t = (x: { statistic: number; df: number | null; pValue: number; ok: boolean; finding: string }) => ({
+    statistic: x.statistic,
+    df: x.df,
+    pValue: x.pValue,
+    ok: x.ok,
+    finding: x.finding,
+  });
+  return {
+    ljungBox: { ...t(c.ljungBox), lags: c.ljungBox.lags },
+    bias: { ...t(c.bias), mean: c.bias.mean, zeroByConstruction: c.bias.zeroByConstruction },
+    normality: { ...t(c.normality), skewness: c.normality.skewness, kurtosis: c.normality.kurtosis },
+    spread: { ...t(c.spread), test: c.spread.name },
+    acf: c.acf,
+    acfBound: c.acfBound,
+  };
+}
+
+function measures(x: {
+  origins: number;
+  me: number;
+  rmse: number;
+  mae: number;
+  mpe: number;
+  mape: number;
+  mase: number;
+}): MeasureSet {
+  return {
+    origins: x.origins,
+    me: finiteOrNull(x.me),
+    rmse: finiteOrNull(x.rmse),
+    mae: finiteOrNull(x.mae),
+    mpe: finiteOrNull(x.mpe),
+    mape: finiteOrNull(x.mape),
+    mase: finiteOrNull(x.mase),
+  };
+}
+
+function summariseBacktest(a: Analysis): BacktestSummary {
+  const methods: BacktestSummary['methods'] = {};
+  for (const [name, mb] of Object.entries(a.backtest.methods) as [
+    keyof typeof a.backtest.methods,
+    MethodBacktest,
+  ][]) {
+    const coverage: Record<string, LevelMap> = {};
+    for (const [kind, levels] of Object.entries(mb.coverage)) coverage[kind] = { ...levels };
+    methods[name] = {
+      ...measures(mb),
+      steps: mb.steps.map((st) => ({ step: st.step, ...measures(st) })),
+      coverage,
+      score: finiteOrNull(a.selection.scores[name] ?? NaN),
+    };
+  }
+  return {
+    minTrain: a.backtest.minTrain,
+    horizon: a.backtest.horizon,
+    score: a.selection.score,
+    methods,
+    reason: a.selection.reason,
+  };
+}
+
+function countObserved(v: Float64Array): number {
+  let n = 0;
+  for (let i = 0; i < v.length; i++) if (!Number.isNaN(v[i]!)) n++;
+  return n;
+}
+
+function lastObserved(v: Float64Array): number {
+  for (let i = v.length - 1; i >= 0; i--) if (!Number.isNaN(v[i]!)) return v[i]!;
+  return NaN;
+}
+
+function tail<T>(xs: T[]): T[] {
+  return xs.length > HISTORY_CAP ? xs.slice(xs.length - HISTORY_CAP) : xs;
+}
+
+function finiteOrNull(x: number): number | null {
+  return Number.isFinite(x) ? x : null;
+}
