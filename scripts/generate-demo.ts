@@ -172,7 +172,7 @@ metrics:
     value: kb
     direction: above
     limit:
-      above: 2000
+      above: 2400
       within: 60d
 `,
 );

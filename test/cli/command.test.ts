@@ -1,0 +1,178 @@
+// End-to-end: the command on the committed demo scenario (fixtures/demo), in-process through main()
+// and once through the committed bundle dist/cli.js in a child process.
+import { execFile } from 'node:child_process';
+import { mkdtempSync, readFileSync, writeFileSync, mkdirSync, copyFileSync, existsSync } from 'node:fs';
+import os from 'node:os';
+import path from 'node:path';
+import { promisify } from 'node:util';
+import { describe, expect, it } from 'vitest';
+import { main } from '../../src/cli/main.js';
+import type { Results } from '../../src/results.js';
+
+const repo = path.resolve(import.meta.dirname, '..', '..');
+const demo = path.join(repo, 'fixtures', 'demo');
+const run = promisify(execFile);
+
+async function cli(argv: string[], cwd = repo) {
+  let out = '';
+  let err = '';
+  const code = await main(argv, {
+    stdout: { write: (s: string) => (out += s), isTTY: false },
+    stderr: { write: (s: string) => (err += s) },
+    env: {},
+    cwd,
+  });
+  return { code, out, err };
+}
+
+function tmp(): string {
+  return mkdtempSync(path.join(os.tmpdir(), 'leadline-cli-'));
+}
+
+describe('the command on the demo scenario', () => {
+  it('gives each demo series the verdict its scenario was built for', async () => {
+    const dir = tmp();
+    const json = path.join(dir, 'results.json');
+    const r = await cli([
+      'run',
+      '--cwd',
+      demo,
+      '--config',
+      'leadline.yml',
+      '--json',
+      json,
+      '--fail-on',
+      'never',
+      '--print',
+      'none',
+    ]);
+    expect(r.code).toBe(0);
+    const results = JSON.parse(readFileSync(json, 'utf8')) as Results;
+    const verdicts = Object.fromEntries(results.series.map((s) => [s.name, s.verdict]));
+    expect(verdicts).toEqual({
+      'tracking-api/p95_ms': 'ok',
+      'tracking-api/requests': 'ok',
+      'dispatch-queue': 'ok',
+      'events-db-storage': 'at-risk', // grows ~3 GB/day towards its 2,000 GB volume
+      'route-solver-bench': 'ok',
+      'label-render': 'alarm', // the newest day carries an injected +46 ms regression
+      'harbour-region-signups': 'insufficient-data', // two rows only
+      'web-bundle[tracker-web]': 'ok',
+      'web-bundle[driver-app]': 'ok',
+      'web-bundle[returns-portal]': 'ok',
+    });
+    expect(results.verdict).toBe('alarm');
+    const byName = new Map(results.series.map((s) => [s.name, s]));
+    expect(byName.get('tracking-api/p95_ms')!.season).toBe(7);
+    expect(byName.get('dispatch-queue')!.season).toBe(24);
+    expect(byName.get('route-solver-bench')!.spacing).toBe('row');
+    expect(byName.get('route-solver-bench')!.checked).toHaveLength(3);
+    const alarm = byName.get('label-render')!.checked[0]!;
+    expect(alarm).toMatchObject({ alarm: true, side: 'above', row: 91 });
+  });
+
+  it('exits 1 when the gate fails and 0 when it passes or is off', async () => {
+    const args = ['run', '--cwd', demo, '--config', 'leadline.yml', '--print', 'none'];
+    expect((await cli([...args, '--fail-on', 'alarm'])).code).toBe(1);
+    expect((await cli([...args, '--fail-on', 'limit'])).code).toBe(1);
+    expect((await cli([...args, '--fail-on', 'alarm,limit'])).code).toBe(1);
+    expect((await cli([...args, '--fail-on', 'never'])).code).toBe(0);
+  });
+
+  it('prints a terminal summary that names the alarm and says forecasts are not guarantees', async () => {
+    const r = await cli(['run', '--cwd', demo, '--config', 'leadline.yml', '--fail-on', 'alarm']);
+    expect(r.code).toBe(1);
+    expect(r.out).toMatch(/ALARM\s+label-render/);
+    expect(r.out).toMatch(/AT RISK\s+events-db-storage/);
+    expect(r.out).toMatch(/Gate failed \(fail-on: alarm\): 1 alarm/);
+    expect(r.out).toMatch(/not guarantees/);
+    expect(r.out).not.toMatch(/\u001b\[/); // not a terminal: no colour codes
+  });
+
+  it('exits 2 with file, line and column for a non-numeric cell, and still writes the results', async () => {
+    const dir = tmp();
+    writeFileSync(
+      path.join(dir, 'l.yml'),
+      'version: 1\nmetrics:\n  - name: m\n    file: m.csv\n    value: v\n  - name: n\n    file: n.csv\n    value: v\n',
+    );
+    writeFileSync(path.join(dir, 'm.csv'), 'v\n1\n2\nabc\n4\n');
+    writeFileSync(
+      path.join(dir, 'n.csv'),
+      'v\n' + Array.from({ length: 30 }, (_, i) => 10 + (i % 3)).join('\n') + '\n',
+    );
+    const r = await cli([
+      'run',
+      '--cwd',
+      dir,
+      '--config',
+      'l.yml',
+      '--json',
+      'out.json',
+      '--print',
+      'summary',
+    ]);
+    expect(r.code).toBe(2);
+    expect(r.out).toMatch(/m\.csv:4:1/);
+    const results = JSON.parse(readFileSync(path.join(dir, 'out.json'), 'utf8')) as Results;
+    expect(results.series.find((s) => s.name === 'n')!.verdict).toBe('ok');
+    expect(results.series.find((s) => s.name === 'm')!.verdict).toBe('error');
+  });
+
+  it('exits 2 naming the key path and line for a config typo', async () => {
+    const dir = tmp();
+    writeFileSync(
+      path.join(dir, 'l.yml'),
+      'version: 1\nmetrics:\n  - name: m\n    file: m.csv\n    valeu: v\n',
+    );
+    const r = await cli(['run', '--cwd', dir, '--config', 'l.yml']);
+    expect(r.code).toBe(2);
+    expect(r.err).toMatch(/l\.yml:5/);
+    expect(r.err).toMatch(/valeu/);
+    expect(r.err).toMatch(/value/);
+  });
+
+  it('exits 2 for usage errors and refuses to write a report over an input CSV', async () => {
+    expect((await cli(['run', '--bogus'])).code).toBe(2);
+    const dir = tmp();
+    mkdirSync(path.join(dir, 'metrics'));
+    copyFileSync(path.join(demo, 'metrics', 'label-render-daily.csv'), path.join(dir, 'metrics', 'm.csv'));
+    writeFileSync(
+      path.join(dir, 'l.yml'),
+      'version: 1\nmetrics:\n  - name: m\n    file: metrics/m.csv\n    time: date\n    value: median_ms\n',
+    );
+    const before = readFileSync(path.join(dir, 'metrics', 'm.csv'), 'utf8');
+    const r = await cli([
+      'run',
+      '--cwd',
+      dir,
+      '--config',
+      'l.yml',
+      '--markdown',
+      path.join(dir, 'metrics', 'm.csv'),
+    ]);
+    expect(r.code).toBe(2);
+    expect(r.err).toMatch(/refusing to write/);
+    expect(readFileSync(path.join(dir, 'metrics', 'm.csv'), 'utf8')).toBe(before);
+  });
+
+  it('runs from the committed bundle and prints the markdown report', async () => {
+    const bundle = path.join(repo, 'dist', 'cli.js');
+    expect(existsSync(bundle)).toBe(true);
+    const { stdout } = await run(process.execPath, [
+      bundle,
+      'run',
+      '--cwd',
+      demo,
+      '--config',
+      'leadline.yml',
+      '--fail-on',
+      'never',
+      '--print',
+      'markdown',
+    ]);
+    expect(stdout).toContain('label-render');
+    expect(stdout).toMatch(/not guarantees/);
+    const help = await run(process.execPath, [bundle, '--help']);
+    expect(help.stdout).toMatch(/Exit codes/);
+  });
+});
