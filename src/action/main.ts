@@ -1,0 +1,314 @@
+// The Action: read the settings, run the same job as the command, then publish. Order matters only in
+// that nothing after the job can lose the report: the results file, outputs and job summary are
+// written whatever happens to the comment, and the gate decides the exit code last.
+import * as core from '@actions/core';
+import { isLeadlineError } from '../errors.js';
+import { inputFiles, writeOutput } from '../files.js';
+import { runJob, type JobOptions } from '../job.js';
+import { renderHtml, renderMarkdown } from '../report/index.js';
+import type { Results } from '../results.js';
+import { planAnnotations, type Annotation } from './annotations.js';
+import { destination, isPullRequestEvent, readEvent, type Destination } from './event.js';
+import { compareWithBase, isTracked, systemGit, type GitRunner } from './git.js';
+import { octokitApi, type IssueApi, type OctokitSettings } from './github.js';
+import { describeError, marker, publishWarning, syncTrackingIssue, upsertComment } from './publish.js';
+import { configKey, envInputs, readSettings, type Settings } from './settings.js';
+import {
+  COMMENT_MAX_BYTES,
+  COMMENT_MAX_CHARS,
+  SUMMARY_MAX_BYTES,
+  closeNote,
+  fitRendering,
+  fullReportNote,
+  needsAttention,
+  reopenNote,
+  runLink,
+  trackingTitle,
+} from './texts.js';
+
+/** The outside world, replaceable in tests. */
+export interface ActionDeps {
+  env: NodeJS.ProcessEnv;
+  git: GitRunner;
+  github: (s: OctokitSettings) => IssueApi;
+  job: (o: JobOptions) => Promise<Results>;
+  renderMarkdown: typeof renderMarkdown;
+  renderHtml: typeof renderHtml;
+}
+
+const LABEL_COLOR = 'c2410c';
+const LABEL_DESCRIPTION = 'Kept up to date by Leadline: metrics that need attention';
+
+/** Runs the Action. Never throws: failures end in core.setFailed with one line saying why. */
+export async function run(deps: Partial<ActionDeps> = {}): Promise<void> {
+  const d: ActionDeps = {
+    env: process.env,
+    git: systemGit,
+    github: octokitApi,
+    job: runJob,
+    renderMarkdown,
+    renderHtml,
+    ...deps,
+  };
+  try {
+    await runAction(d);
+  } catch (e) {
+    core.setFailed(
+      isLeadlineError(e)
+        ? `Leadline: ${e.describe()}`
+        : `Leadline stopped on an unexpected error (please report it): ${(e as Error)?.stack ?? String(e)}`,
+    );
+  }
+}
+
+/** Warnings and errors emitted so far: they share GitHub's per-step annotation limits. */
+const used = { warning: 0, error: 0 };
+function warn(message: string): void {
+  used.warning++;
+  core.warning(message);
+}
+
+async function runAction(d: ActionDeps): Promise<void> {
+  used.warning = 0;
+  used.error = 0;
+  const inputs = envInputs(d.env);
+  // Registered before anything else runs, so no later log line can show it.
+  const token = inputs('token');
+  if (token) core.setSecret(token);
+  const s = readSettings(inputs, d.env);
+  const key = configKey(s);
+  const link = runLink(s.run.serverUrl, s.run.repository, s.run.runId);
+
+  const event = await readEvent(s.run.eventPath);
+  if (event.problem) warn(event.problem);
+  const dest = destination(s.comment, s.run.eventName, event.facts);
+
+  let newRows: Record<string, number> | undefined;
+  let baseNote: string | undefined;
+  const pr = event.facts.pullRequest;
+  if (pr && isPullRequestEvent(s.run.eventName, event.facts)) {
+    const cmp = await compareWithBase(d.git, s.workingDirectory, pr.baseSha);
+    if (cmp.ok) {
+      newRows = cmp.newRows;
+      const files = Object.keys(cmp.newRows);
+      core.info(
+        files.length === 0
+          ? `Pull request #${pr.number} changes no file under ${s.workingDirectory}: no row is checked.`
+          : `Pull request #${pr.number}: checking the rows it adds to ${files.length} changed file${files.length === 1 ? '' : 's'}.`,
+      );
+      for (const f of cmp.added) core.info(`${f} is new in this pull request: only its last row is checked.`);
+    } else {
+      baseNote = cmp.note;
+      core.notice(cmp.note);
+    }
+  }
+
+  let results: Results;
+  try {
+    results = await d.job({
+      cwd: s.workingDirectory,
+      configPath: s.config,
+      failOn: s.failOn,
+      ...(newRows ? { newRows } : {}),
+      ...(baseNote ? { baseNote } : {}),
+    });
+  } catch (e) {
+    if (!isLeadlineError(e)) throw e;
+    // The config could not be read: no results to publish, but the summary and outputs still say so.
+    core.setOutput('verdict', 'error');
+    core.setOutput('alarms', '0');
+    core.setOutput('at-risk', '0');
+    core.setOutput('results', '');
+    core.setOutput('comment-url', '');
+    await writeSummary(s, `## Leadline could not run\n\n${escapeText(e.describe())}\n`);
+    throw e;
+  }
+  core.info(`Leadline verdict: ${results.verdict}. ${results.gate.reason}`);
+
+  // Output files. A failure here fails the step after everything else is done.
+  const failures: string[] = [];
+  const protect = inputFiles(s.workingDirectory, results, s.config);
+  const save = async (file: string, label: string, text: () => string) => {
+    try {
+      if (await isTracked(d.git, s.workspace, file))
+        throw new Error(
+          `refusing to write to ${file}: it is a file of the repository. Choose a path outside it, e.g. under $RUNNER_TEMP.`,
+        );
+      await writeOutput(file, text(), protect, label);
+      core.info(`Wrote ${label}: ${file}`);
+    } catch (e) {
+      failures.push(isLeadlineError(e) ? e.describe() : `${label}: ${(e as Error).message}`);
+    }
+  };
+  await save(s.results, 'results', () => JSON.stringify(results, null, 2) + '\n');
+  if (s.markdown)
+    await save(s.markdown, 'markdown', () =>
+      d.renderMarkdown(results, { maxChars: Number.MAX_SAFE_INTEGER, fullReportNote: fullReportNote(link) }),
+    );
+  if (s.html) await save(s.html, 'html', () => d.renderHtml(results));
+
+  core.setOutput('verdict', results.verdict);
+  core.setOutput('alarms', String(results.summary.alarms));
+  core.setOutput('at-risk', String(results.summary.atRisk));
+  core.setOutput('results', failures.some((f) => f.startsWith('results')) ? '' : s.results);
+
+  const published = await tryPublish(d, s, dest, results, key, link, token);
+  core.setOutput('comment-url', published.url ?? '');
+  if (published.warning) warn(published.warning);
+
+  const gateFails = !results.gate.passed;
+  const plan = planAnnotations(
+    results,
+    { cwd: s.workingDirectory, workspace: s.workspace },
+    { warning: used.warning, error: used.error + failures.length + (gateFails ? 1 : 0) },
+  );
+  for (const a of plan.shown) annotate(a);
+  if (plan.overflow) annotate(plan.overflow);
+
+  const footer: string[] = [];
+  if (published.url) footer.push(`Report ${published.action}: ${published.url}`);
+  if (published.warning) footer.push(`⚠️ ${escapeText(published.warning)}`);
+  for (const f of failures) footer.push(`❌ ${escapeText(f)}`);
+  const suffix = footer.length > 0 ? `\n\n---\n\n${footer.join('\n\n')}\n` : '';
+  await writeSummary(
+    s,
+    fitRendering(
+      (maxChars) => d.renderMarkdown(results, { maxChars, fullReportNote: fullReportNote(link) }),
+      1_000_000,
+      SUMMARY_MAX_BYTES,
+      suffix,
+    ),
+  );
+
+  for (const f of failures) {
+    used.error++;
+    core.error(`Leadline: ${f}`);
+  }
+  if (gateFails) core.setFailed(results.gate.reason);
+  else if (failures.length > 0) core.setFailed(`Leadline could not write ${failures.length} output file(s).`);
+}
+
+interface Published {
+  url: string | null;
+  action: string;
+  warning: string | null;
+}
+
+/** Posts the report where it belongs. Never throws: a failure becomes a warning explaining the fix. */
+async function tryPublish(
+  d: ActionDeps,
+  s: Settings,
+  dest: Destination,
+  results: Results,
+  key: string,
+  link: string | null,
+  token: string,
+): Promise<Published> {
+  if (dest.kind === 'none') {
+    if (dest.why) return { url: null, action: 'skipped', warning: dest.why };
+    core.info('No comment or tracking issue for this event (comment: off, or an event without one).');
+    return { url: null, action: 'skipped', warning: null };
+  }
+  const where = dest.kind === 'comment' ? `${dest.what} #${dest.issue}` : 'the tracking issue';
+  if (!token)
+    return {
+      url: null,
+      action: 'skipped',
+      warning: `No token, so the report was not posted to ${where}: leave the token input at its default (the workflow token) or pass one.`,
+    };
+  if (!s.run.repository)
+    return {
+      url: null,
+      action: 'skipped',
+      warning: `GITHUB_REPOSITORY is not set, so the report was not posted to ${where}.`,
+    };
+  const api = d.github({
+    token,
+    owner: s.run.repository.owner,
+    repo: s.run.repository.repo,
+    apiUrl: s.run.apiUrl,
+    retryBaseMs: s.run.retryBaseMs,
+  });
+  const body = (mark: string) =>
+    fitRendering(
+      (maxChars) =>
+        d.renderMarkdown(results, { maxChars, fullReportNote: fullReportNote(link), marker: mark }),
+      COMMENT_MAX_CHARS - mark.length - 1,
+      COMMENT_MAX_BYTES - mark.length - 1,
+    );
+  try {
+    if (dest.kind === 'comment') {
+      const mark = marker('report', key);
+      const out = await upsertComment(api, dest.issue, mark, body(mark));
+      core.info(
+        `Report ${out.action} on ${where}: ${out.url}${out.removed ? ` (${out.removed} duplicate${out.removed === 1 ? '' : 's'} removed)` : ''}`,
+      );
+      return { url: out.url, action: out.action, warning: null };
+    }
+    const mark = marker('tracking', key);
+    const out = await syncTrackingIssue(api, {
+      mark,
+      label: s.issueLabel,
+      labelColor: LABEL_COLOR,
+      labelDescription: LABEL_DESCRIPTION,
+      attention: needsAttention(results),
+      title: trackingTitle(results, key),
+      body: body(mark),
+      closeNote: closeNote(link),
+      reopenNote: reopenNote(results, link),
+    });
+    for (const n of out.notes) core.info(n);
+    core.info(
+      out.action === 'none'
+        ? 'All clear and no tracking issue is open: nothing to post.'
+        : `Tracking issue ${out.action}: ${out.url}`,
+    );
+    return { url: out.url, action: out.action, warning: null };
+  } catch (e) {
+    core.debug(`publishing failed: ${describeError(e)}`);
+    return {
+      url: null,
+      action: 'failed',
+      warning: publishWarning(
+        e,
+        where,
+        dest.kind === 'comment' && dest.what === 'pull request' ? 'pull-requests' : 'issues',
+      ),
+    };
+  }
+}
+
+function annotate(a: Annotation): void {
+  const props = {
+    title: a.title,
+    ...(a.file ? { file: a.file } : {}),
+    ...(a.startLine ? { startLine: a.startLine } : {}),
+  };
+  if (a.level === 'error') {
+    used.error++;
+    core.error(a.message, props);
+  } else if (a.level === 'warning') {
+    used.warning++;
+    core.warning(a.message, props);
+  } else core.notice(a.message, props);
+}
+
+/** Writes the job summary once; skipped (with a log line) outside a runner. Never throws. */
+async function writeSummary(s: Settings, text: string): Promise<void> {
+  if (!s.run.summaryPath) {
+    core.info('GITHUB_STEP_SUMMARY is not set (not on a runner): no job summary written.');
+    return;
+  }
+  try {
+    await core.summary.addRaw(text, true).write();
+  } catch (e) {
+    warn(`Leadline could not write the job summary: ${(e as Error).message}`);
+  }
+}
+
+/** Plain text into markdown: characters with markdown or HTML meaning are escaped. */
+export function escapeText(s: string): string {
+  return s.replace(/[\\`*_[\]|<>&~]/g, (c) =>
+    c === '<' ? '&lt;' : c === '>' ? '&gt;' : c === '&' ? '&amp;' : `\\${c}`,
+  );
+}

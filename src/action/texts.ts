@@ -1,0 +1,95 @@
+// The texts the Action builds around the rendered report: sizes kept within GitHub's limits, the
+// tracking issue's title and notes. Pure; the renderer is passed in.
+import type { Results } from '../results.js';
+import { oneLine } from './annotations.js';
+
+/** Comment and issue bodies: at most 65,536 characters (and 262,144 UTF-8 bytes). */
+export const COMMENT_MAX_CHARS = 65_536;
+export const COMMENT_MAX_BYTES = 262_144;
+/** Job summary: at most 1 MiB per step. */
+export const SUMMARY_MAX_BYTES = 1024 * 1024;
+
+/** Renders the report within `maxChars`; the report renderer puts what needs attention first. */
+export type Render = (maxChars: number) => string;
+
+const CUT_NOTE = "\n\n_… cut here to fit GitHub's size limit; the full report is in the results file._\n";
+
+/** Cuts `text` to at most `maxBytes` UTF-8 bytes and `maxChars` characters, without splitting a character. */
+export function cutTo(text: string, maxChars: number, maxBytes: number): string {
+  if (text.length <= maxChars && Buffer.byteLength(text, 'utf8') <= maxBytes) return text;
+  const chars = Math.max(0, maxChars - CUT_NOTE.length);
+  let t = text.slice(0, chars);
+  const budget = maxBytes - Buffer.byteLength(CUT_NOTE, 'utf8');
+  if (Buffer.byteLength(t, 'utf8') > budget) t = Buffer.from(t, 'utf8').subarray(0, budget).toString('utf8');
+  // A cut multi-byte character decodes as U+FFFD, and a cut surrogate pair leaves half a pair.
+  t = t.replace(/\uFFFD+$/, '').replace(/[\uD800-\uDBFF]$/, '');
+  return t + CUT_NOTE;
+}
+
+/**
+ * The largest rendering within both limits: render at `maxChars`; when multi-byte text makes it too
+ * many bytes, render again smaller in proportion; as a last resort cut the text.
+ */
+export function fitRendering(render: Render, maxChars: number, maxBytes: number, suffix = ''): string {
+  let chars = maxChars - suffix.length;
+  let text = '';
+  for (let attempt = 0; attempt < 4; attempt++) {
+    text = render(chars) + suffix;
+    const bytes = Buffer.byteLength(text, 'utf8');
+    if (bytes <= maxBytes && text.length <= maxChars) return text;
+    chars = Math.floor(chars * Math.min(maxBytes / bytes, maxChars / text.length) * 0.97);
+  }
+  return cutTo(text, maxChars, maxBytes);
+}
+
+/** Metrics needing attention: alarms, limits at risk, or errors. */
+export function attentionCount(r: Results): number {
+  return r.series.filter((s) => s.verdict === 'alarm' || s.verdict === 'at-risk' || s.verdict === 'error')
+    .length;
+}
+
+/** Whether the tracking issue should stay open. */
+export function needsAttention(r: Results): boolean {
+  return r.verdict === 'alarm' || r.verdict === 'at-risk' || r.verdict === 'error' || r.problems.length > 0;
+}
+
+export function trackingTitle(r: Results, configKey: string): string {
+  const n = attentionCount(r);
+  const what =
+    n === 0
+      ? 'a problem with the run'
+      : `${n} metric${n === 1 ? '' : 's'} need${n === 1 ? 's' : ''} attention`;
+  return oneLine(`Leadline: ${what} (${configKey})`, 200);
+}
+
+export function runLink(
+  serverUrl: string,
+  repository: { owner: string; repo: string } | null,
+  runId: string | null,
+): string | null {
+  if (!repository || !runId) return null;
+  return `${serverUrl}/${repository.owner}/${repository.repo}/actions/runs/${runId}`;
+}
+
+export function closeNote(link: string | null): string {
+  return (
+    `All clear${link ? ` in [this run](${link})` : ''}: every checked observation is inside its interval, ` +
+    'no limit is at risk and the run had no errors. Closing; Leadline reopens this issue when something needs attention again.'
+  );
+}
+
+export function reopenNote(r: Results, link: string | null): string {
+  const n = attentionCount(r);
+  return (
+    `Reopened${link ? ` by [this run](${link})` : ''}: ${n} metric${n === 1 ? '' : 's'} need${n === 1 ? 's' : ''} attention again ` +
+    `(verdict: ${r.verdict}). The description above has the current report.`
+  );
+}
+
+/** Where the full report is, for the renderer's note when it has to cut. */
+export function fullReportNote(link: string | null): string {
+  return (
+    `The full report is in the results JSON and markdown files of ${link ? `[this run](${link})` : 'this run'} ` +
+    '(kept when the workflow uploads them with actions/upload-artifact), and in its job summary.'
+  );
+}
