@@ -324,7 +324,9 @@ function suggest(word: string, options: readonly string[]): string | null {
   if (options.length === 0) return null;
   const best = closest(word, options as string[]);
   const d = distance(word.toLowerCase(), best.toLowerCase());
-  return d <= Math.max(2, Math.floor(best.length / 3)) ? best : null;
+  return d < Math.max(word.length, best.length) && d <= Math.max(1, Math.floor(best.length / 3))
+    ? best
+    : null;
 }
 
 const EXPECTED: Record<string, string> = {

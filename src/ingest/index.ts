@@ -1,0 +1,547 @@
+// CSV files -> Series on a regular grid. Each distinct file is read once (streamed, see read.ts) even
+// when several metrics use it. Problems that concern one metric (a missing column, a non-numeric
+// cell, too few rows …) become an IngestFailure for that metric, column or key, and every other
+// metric still runs; ingest() itself only throws for internal faults.
+import path from 'node:path';
+import { performance } from 'node:perf_hooks';
+import type { MetricPlan, Plan } from '../config/types.js';
+import { LeadlineError } from '../errors.js';
+import type { Series } from './types.js';
+import { resolveFiles } from './files.js';
+import { describeMs, describeStep, gridIndex, gridTime, inferSpacing, type GridSpec } from './grid.js';
+import { CellStatus, readTable, type ColumnRoles, type Table } from './read.js';
+import { numberTimeUnit, numberToMs, TimeKind } from './times.js';
+import { closest, distance } from 'fastest-levenshtein';
+
+export { autoSeason } from './season.js';
+export { resolveFiles } from './files.js';
+
+export interface IngestFailure {
+  metric: MetricPlan;
+  /** The value column concerned, or null when the whole metric failed. */
+  column: string | null;
+  key: string | null;
+  error: LeadlineError;
+  verdict: 'insufficient-data' | 'error';
+}
+
+export interface IngestOutcome {
+  series: Series[];
+  failures: IngestFailure[];
+  /** Distinct files read. */
+  filesRead: number;
+  /** Wall time of ingestion in ms: resolving files, reading and parsing them, building the grids. */
+  parseMs: number;
+}
+
+/** Fewest observations (non-missing values) a series needs; fewer gives "insufficient data". */
+export const MIN_OBSERVATIONS = 3;
+
+/** A grid may hold at most this many points per observed row (beyond a floor), so a stray date cannot blow it up. */
+const GRID_SLACK = 50;
+const GRID_FLOOR = 10_000;
+
+export async function ingest(plan: Plan, cwd: string): Promise<IngestOutcome> {
+  const started = performance.now();
+  const series: Series[] = [];
+  const failures: IngestFailure[] = [];
+
+  const resolved: { metric: MetricPlan; files: string[] }[] = [];
+  const wanted = new Map<string, Map<string, ColumnRoles>>();
+  for (const metric of plan.metrics) {
+    let files: string[];
+    try {
+      files = await resolveFiles(metric.file, cwd);
+    } catch (e) {
+      if (!(e instanceof LeadlineError)) throw e;
+      failures.push({ metric, column: null, key: null, error: e, verdict: 'error' });
+      continue;
+    }
+    resolved.push({ metric, files });
+    for (const f of files) {
+      const roles = wanted.get(f) ?? new Map<string, ColumnRoles>();
+      wanted.set(f, roles);
+      const add = (name: string, role: keyof ColumnRoles) => {
+        const r = roles.get(name) ?? { value: false, time: false, key: false };
+        r[role] = true;
+        roles.set(name, r);
+      };
+      if (metric.time !== null) add(metric.time, 'time');
+      if (metric.key !== null) add(metric.key, 'key');
+      for (const v of metric.values) add(v, 'value');
+    }
+  }
+
+  const tables = new Map<string, Table | LeadlineError>();
+  for (const [file, roles] of wanted) {
+    try {
+      tables.set(file, await readTable(path.join(path.resolve(cwd), file), file, roles));
+    } catch (e) {
+      if (!(e instanceof LeadlineError)) throw e;
+      tables.set(file, e);
+    }
+  }
+
+  for (const { metric, files } of resolved) {
+    for (const file of files) {
+      const t = tables.get(file)!;
+      if (t instanceof LeadlineError)
+        failures.push({ metric, column: null, key: null, error: t, verdict: 'error' });
+      else buildMetric(metric, t, files.length > 1, series, failures);
+    }
+  }
+  return { series, failures, filesRead: tables.size, parseMs: performance.now() - started };
+}
+
+/** Errors that mean "too little data" rather than "bad data". */
+const insufficient = new WeakSet<LeadlineError>();
+
+function tooFew(message: string, file: string): LeadlineError {
+  const e = new LeadlineError('data', message, { file });
+  insufficient.add(e);
+  return e;
+}
+
+function verdictOf(e: LeadlineError): IngestFailure['verdict'] {
+  return insufficient.has(e) ? 'insufficient-data' : 'error';
+}
+
+function isNear(word: string, candidate: string): boolean {
+  const d = distance(word.toLowerCase(), candidate.toLowerCase());
+  return d < Math.max(word.length, candidate.length) && d <= Math.max(1, Math.floor(word.length / 3));
+}
+
+function columnList(header: string[]): string {
+  return header.length === 0 ? '(none)' : header.map((h) => JSON.stringify(h)).join(', ');
+}
+
+function missingColumn(t: Table, role: string, name: string): LeadlineError {
+  const header = t.header!;
+  const near = header.length > 0 ? closest(name, header) : null;
+  const hint = near !== null && isNear(name, near) ? ` Did you mean "${near}"?` : '';
+  return new LeadlineError(
+    'data',
+    `The ${role} column "${name}" is not in the header; the columns are: ${columnList(header)}.${hint}`,
+    {
+      file: t.file,
+      line: t.headerLine,
+    },
+  );
+}
+
+function quoteCell(text: string): string {
+  const s = text.length > 40 ? `${text.slice(0, 37)}…` : text;
+  return JSON.stringify(s);
+}
+
+interface TimeInfo {
+  ms: Float64Array;
+  notes: string[];
+}
+
+const timeCache = new WeakMap<Table, Map<number, TimeInfo | LeadlineError>>();
+
+/** The time column in epoch ms, or the error that makes it unusable. */
+function timesOf(t: Table, index: number, name: string): TimeInfo | LeadlineError {
+  let cache = timeCache.get(t);
+  if (!cache) timeCache.set(t, (cache = new Map()));
+  const hit = cache.get(index);
+  if (hit) return hit;
+  const col = t.times.get(index)!;
+  const where = (row: number) => ({ file: t.file, line: t.lines[row]!, column: index + 1 });
+  let result: TimeInfo | LeadlineError | null = null;
+  let firstIso = -1;
+  let firstNumber = -1;
+  let naive = false;
+  for (let r = 0; r < t.rowCount && result === null; r++) {
+    const k = col.kind[r]!;
+    if (k === TimeKind.Blank) {
+      result = new LeadlineError(
+        'data',
+        `The time in column "${name}" is blank; every row needs a time.`,
+        where(r),
+      );
+    } else if (k === TimeKind.Invalid) {
+      result = new LeadlineError(
+        'data',
+        `The time ${quoteCell(col.invalidText.get(r) ?? '')} in column "${name}" is not an ISO 8601 date or datetime (e.g. 2024-03-01 or 2024-03-01T12:00:00Z) or an epoch number.`,
+        where(r),
+      );
+    } else if (k === TimeKind.Number) {
+      if (firstNumber < 0) firstNumber = r;
+    } else {
+      if (firstIso < 0) firstIso = r;
+      if (k === TimeKind.Naive) naive = true;
+    }
+    if (result === null && firstIso >= 0 && firstNumber >= 0) {
+      const [a, b] = firstIso < firstNumber ? [firstIso, firstNumber] : [firstNumber, firstIso];
+      result = new LeadlineError(
+        'data',
+        `Column "${name}" mixes time forms: line ${t.lines[a]} has ${col.kind[a] === TimeKind.Number ? 'a number' : 'an ISO 8601 time'}, this line ${col.kind[b] === TimeKind.Number ? 'a number' : 'an ISO 8601 time'}; use one form throughout.`,
+        where(b),
+      );
+    }
+  }
+  if (result === null) {
+    const notes: string[] = [];
+    let ms = col.raw;
+    if (firstNumber >= 0) {
+      const unit = numberTimeUnit(col.raw, t.rowCount);
+      ms = new Float64Array(t.rowCount);
+      for (let r = 0; r < t.rowCount; r++) ms[r] = numberToMs(col.raw[r]!, unit);
+      notes.push(
+        unit === 'years'
+          ? `The times in "${name}" are four-digit numbers, read as years.`
+          : `The times in "${name}" are numbers, read as epoch ${unit} (${unit === 'seconds' ? 'all below' : 'some at or above'} 1e11).`,
+      );
+    }
+    if (naive) notes.push(`Times in "${name}" without a UTC offset were read as UTC.`);
+    result = { ms, notes };
+  }
+  cache.set(index, result);
+  return result;
+}
+
+/** Row indices (file order) of each key value, in order of first appearance. */
+function groupsOf(t: Table, m: MetricPlan): { key: string | null; rows: Int32Array }[] | LeadlineError {
+  if (m.key === null) {
+    const all = new Int32Array(t.rowCount);
+    for (let i = 0; i < all.length; i++) all[i] = i;
+    return [{ key: null, rows: all }];
+  }
+  const index = t.header!.indexOf(m.key);
+  const col = t.keys.get(index)!;
+  const counts = new Int32Array(col.names.length);
+  for (let r = 0; r < t.rowCount; r++) counts[col.ids[r]!]!++;
+  const blank = col.names.indexOf('');
+  if (blank >= 0) {
+    let r = 0;
+    while (col.ids[r] !== blank) r++;
+    return new LeadlineError(
+      'data',
+      `The key in column "${m.key}" is blank; every row of a long-format file needs a key.`,
+      {
+        file: t.file,
+        line: t.lines[r]!,
+        column: index + 1,
+      },
+    );
+  }
+  const groups = col.names.map((key, id) => ({ key, rows: new Int32Array(counts[id]!) }));
+  const fill = new Int32Array(col.names.length);
+  for (let r = 0; r < t.rowCount; r++) {
+    const id = col.ids[r]!;
+    groups[id]!.rows[fill[id]!++] = r;
+  }
+  return groups;
+}
+
+function seriesName(m: MetricPlan, column: string, key: string | null, file: string, multi: boolean): string {
+  return `${m.name}${m.values.length > 1 ? `/${column}` : ''}${key !== null ? `[${key}]` : ''}${multi ? ` (${file})` : ''}`;
+}
+
+function buildMetric(
+  m: MetricPlan,
+  t: Table,
+  multi: boolean,
+  series: Series[],
+  failures: IngestFailure[],
+): void {
+  const fail = (
+    error: LeadlineError,
+    verdict: IngestFailure['verdict'],
+    column: string | null = null,
+    key: string | null = null,
+  ) => failures.push({ metric: m, column, key, error, verdict });
+  if (t.header === null) {
+    fail(
+      new LeadlineError('data', 'The file is empty: no header row and no data.', { file: t.file, line: 1 }),
+      'insufficient-data',
+    );
+    return;
+  }
+  const header = t.header;
+  const indexOf = (name: string): number | LeadlineError => {
+    const both = t.ambiguous.get(name);
+    if (both) {
+      return new LeadlineError(
+        'data',
+        `The header has "${name}" twice (columns ${both[0]} and ${both[1]}); rename one.`,
+        {
+          file: t.file,
+          line: t.headerLine,
+          column: both[1],
+        },
+      );
+    }
+    return header.indexOf(name);
+  };
+  let timeIndex = -1;
+  for (const [role, name] of [
+    ['time', m.time],
+    ['key', m.key],
+  ] as const) {
+    if (name === null) continue;
+    const i = indexOf(name);
+    if (i instanceof LeadlineError) return void fail(i, 'error');
+    if (i < 0) return void fail(missingColumn(t, role, name), 'error');
+    if (role === 'time') timeIndex = i;
+  }
+  const valueIndex = new Map<string, number>();
+  for (const v of m.values) {
+    const i = indexOf(v);
+    if (i instanceof LeadlineError) fail(i, 'error', v);
+    else if (i < 0) fail(missingColumn(t, 'value', v), 'error', v);
+    else valueIndex.set(v, i);
+  }
+  if (valueIndex.size === 0) return;
+  if (t.rowCount === 0) {
+    fail(
+      new LeadlineError('data', 'The file has a header but no data rows.', {
+        file: t.file,
+        line: t.headerLine,
+      }),
+      'insufficient-data',
+    );
+    return;
+  }
+
+  let times: TimeInfo | null = null;
+  if (m.time !== null) {
+    const info = timesOf(t, timeIndex, m.time);
+    if (info instanceof LeadlineError) return void fail(info, 'error');
+    times = info;
+  }
+  const groups = groupsOf(t, m);
+  if (groups instanceof LeadlineError) return void fail(groups, 'error');
+
+  for (const g of groups) {
+    const layout = times ? layoutTimed(t, m, g.rows, g.key, times, timeIndex) : layoutRowOrder(g.rows);
+    if (layout instanceof LeadlineError) {
+      fail(layout, verdictOf(layout), null, g.key);
+      continue;
+    }
+    for (const [column, ci] of valueIndex) {
+      const s = buildSeries(t, m, layout, column, ci, g.key, multi);
+      if (s instanceof LeadlineError) {
+        fail(s, verdictOf(s), column, g.key);
+      } else series.push(s);
+    }
+  }
+}
+
+/** Where each grid point's value comes from. */
+interface Layout {
+  spec: GridSpec | null;
+  /** Grid length. */
+  n: number;
+  /** Epoch ms per grid point, or null for row order. */
+  times: Float64Array | null;
+  /** For each occupied grid point: its index and the row indices (file order) that land on it. */
+  slots: { index: number; rows: number[] }[];
+  /** Rows of this group in file order (for scanning cells). */
+  rows: Int32Array;
+  notes: string[];
+}
+
+function layoutRowOrder(rows: Int32Array): Layout {
+  const slots = Array.from(rows, (r, i) => ({ index: i, rows: [r] }));
+  return { spec: null, n: rows.length, times: null, slots, rows, notes: [] };
+}
+
+function layoutTimed(
+  t: Table,
+  m: MetricPlan,
+  rows: Int32Array,
+  key: string | null,
+  times: TimeInfo,
+  timeIndex: number,
+): Layout | LeadlineError {
+  const ms = times.ms;
+  const notes = [...times.notes];
+  const order = Array.from(rows);
+  let outOfOrder = 0;
+  for (let i = 1; i < order.length; i++) if (ms[order[i]!]! < ms[order[i - 1]!]!) outOfOrder++;
+  if (outOfOrder > 0) {
+    order.sort((a, b) => ms[a]! - ms[b]! || a - b);
+    notes.push(
+      `${outOfOrder} row${outOfOrder === 1 ? ' was' : 's were'} out of time order in the file; the series is sorted by time.`,
+    );
+  }
+  const distinct: number[] = [];
+  for (const r of order)
+    if (distinct.length === 0 || ms[r]! !== distinct[distinct.length - 1]) distinct.push(ms[r]!);
+  if (order.length < MIN_OBSERVATIONS) {
+    return tooFew(
+      `Only ${order.length} row${order.length === 1 ? '' : 's'}${key !== null ? ` for key "${key}"` : ''}; at least ${MIN_OBSERVATIONS} observations are needed.`,
+      t.file,
+    );
+  }
+  if (distinct.length < 2) {
+    if (m.duplicates === 'error') return duplicateError(t, order[0]!, order[1]!, timeIndex, true, null);
+    return tooFew(
+      `All ${order.length} rows${key !== null ? ` for key "${key}"` : ''} have the same time, which leaves 1 observation; at least ${MIN_OBSERVATIONS} are needed.`,
+      t.file,
+    );
+  }
+  const spec = inferSpacing(Float64Array.from(distinct));
+  const t0 = distinct[0]!;
+  const slots: { index: number; rows: number[] }[] = [];
+  let moved = 0;
+  let maxOffset = 0;
+  for (const r of order) {
+    const { index, offset } = gridIndex(spec, t0, ms[r]!);
+    if (offset !== 0) {
+      moved++;
+      maxOffset = Math.max(maxOffset, Math.abs(offset));
+    }
+    const last = slots[slots.length - 1];
+    if (last && last.index === index) {
+      if (m.duplicates === 'error') {
+        const prev = Math.min(...last.rows);
+        return duplicateError(t, prev, r, timeIndex, ms[prev] === ms[r], spec);
+      }
+      last.rows.push(r);
+    } else slots.push({ index, rows: [r] });
+  }
+  const n = slots[slots.length - 1]!.index + 1;
+  if (n > Math.max(GRID_FLOOR, GRID_SLACK * slots.length)) {
+    let gap = 1;
+    for (let i = 1; i < slots.length; i++)
+      if (slots[i]!.index - slots[i - 1]!.index > slots[gap]!.index - slots[gap - 1]!.index) gap = i;
+    const a = Math.max(...slots[gap - 1]!.rows);
+    const b = Math.min(...slots[gap]!.rows);
+    return new LeadlineError(
+      'data',
+      `The times span ${n} steps of one ${describeStep(spec)} for only ${slots.length} rows: the gap between line ${t.lines[a]} and this line is ${slots[gap]!.index - slots[gap - 1]!.index} steps. Check the time column.`,
+      { file: t.file, line: t.lines[b]!, column: timeIndex + 1 },
+    );
+  }
+  const merged = order.length - slots.length;
+  if (merged > 0) {
+    const how = m.duplicates === 'mean' ? 'their values averaged' : `the ${m.duplicates} row kept`;
+    notes.push(
+      `${merged} row${merged === 1 ? '' : 's'} fell on a time already taken; ${how} (duplicates: ${m.duplicates}).`,
+    );
+  }
+  if (moved > 0) {
+    notes.push(
+      `${moved} time${moved === 1 ? ' was' : 's were'} off the ${describeStep(spec)} grid and moved to the nearest grid point (at most ${describeMs(maxOffset)}).`,
+    );
+  }
+  if (n > slots.length) {
+    const gaps = n - slots.length;
+    notes.push(
+      `${gaps} missing ${describeStep(spec)}${gaps === 1 ? '' : 's'} in the time grid ${gaps === 1 ? 'is' : 'are'} treated as missing values.`,
+    );
+  }
+  const grid = new Float64Array(n);
+  for (let i = 0; i < n; i++) grid[i] = gridTime(spec, t0, i);
+  return { spec, n, times: grid, slots, rows, notes };
+}
+
+function duplicateError(
+  t: Table,
+  a: number,
+  b: number,
+  timeIndex: number,
+  exact: boolean,
+  spec: GridSpec | null,
+): LeadlineError {
+  const [first, second] = a < b ? [a, b] : [b, a];
+  const what = exact || !spec ? 'the same time' : `the same ${describeStep(spec)} on the time grid`;
+  return new LeadlineError(
+    'data',
+    `Lines ${t.lines[first]} and ${t.lines[second]} have ${what}; remove one, or set "duplicates" to first, last or mean.`,
+    { file: t.file, line: t.lines[second]!, column: timeIndex + 1 },
+  );
+}
+
+function buildSeries(
+  t: Table,
+  m: MetricPlan,
+  layout: Layout,
+  column: string,
+  ci: number,
+  key: string | null,
+  multi: boolean,
+): Series | LeadlineError {
+  const col = t.values.get(ci)!;
+  let blanks = 0;
+  for (const r of layout.rows) {
+    const st = col.status[r]!;
+    if (st === CellStatus.Invalid) {
+      const text = col.invalidText.get(r);
+      return new LeadlineError(
+        'data',
+        `The cell ${text === undefined ? '' : `${quoteCell(text)} `}in column "${column}" is not a number (expected e.g. 12.5 or -3e4, with "." for decimals).`,
+        { file: t.file, line: t.lines[r]!, column: ci + 1 },
+      );
+    }
+    if (st === CellStatus.Blank) {
+      if (m.blanks === 'error') {
+        return new LeadlineError(
+          'data',
+          `The cell in column "${column}" is blank; fill it, or set "blanks: missing" to read blanks as missing values.`,
+          {
+            file: t.file,
+            line: t.lines[r]!,
+            column: ci + 1,
+          },
+        );
+      }
+      blanks++;
+    }
+  }
+  const values = new Float64Array(layout.n).fill(NaN);
+  const rows = new Int32Array(layout.n);
+  for (const slot of layout.slots) {
+    let pick: number;
+    let v: number;
+    if (slot.rows.length === 1) {
+      pick = slot.rows[0]!;
+      v = col.numbers[pick]!;
+    } else if (m.duplicates === 'mean') {
+      pick = Math.max(...slot.rows);
+      let sum = 0;
+      let count = 0;
+      for (const r of slot.rows) {
+        const x = col.numbers[r]!;
+        if (!Number.isNaN(x)) {
+          sum += x;
+          count++;
+        }
+      }
+      v = count > 0 ? sum / count : NaN;
+    } else {
+      pick = m.duplicates === 'first' ? Math.min(...slot.rows) : Math.max(...slot.rows);
+      v = col.numbers[pick]!;
+    }
+    values[slot.index] = v;
+    rows[slot.index] = t.lines[pick]!;
+  }
+  let observed = 0;
+  for (let i = 0; i < values.length; i++) if (!Number.isNaN(values[i]!)) observed++;
+  if (observed < MIN_OBSERVATIONS) {
+    return tooFew(
+      `Only ${observed} observation${observed === 1 ? '' : 's'} in column "${column}"${key !== null ? ` for key "${key}"` : ''}; at least ${MIN_OBSERVATIONS} are needed.`,
+      t.file,
+    );
+  }
+  const notes = [...layout.notes];
+  if (blanks > 0)
+    notes.push(`${blanks} blank cell${blanks === 1 ? ' was' : 's were'} read as missing (blanks: missing).`);
+  return {
+    name: seriesName(m, column, key, t.file, multi),
+    metric: m.name,
+    file: t.file,
+    column,
+    key,
+    spacing: layout.spec?.spacing ?? 'row',
+    times: layout.times,
+    values,
+    rows,
+    stepMs: layout.spec?.stepMs ?? null,
+    notes,
+  };
+}
