@@ -16,6 +16,19 @@ interface Problem {
   message: string;
   /** Point at the key rather than its value (unknown keys). */
   atKey?: boolean;
+  /** For an unknown key: the valid key suggested. For a missing required key: its name. */
+  suggested?: string;
+  missing?: string;
+}
+
+/** A required key reported missing is dropped when a typo in the same mapping already explains it. */
+function dropExplained(problems: Problem[]): Problem[] {
+  const explained = new Set(
+    problems.filter((p) => p.suggested).map((p) => `${formatKeyPath(p.path.slice(0, -1))}|${p.suggested}`),
+  );
+  return problems.filter(
+    (p) => !p.missing || !explained.has(`${formatKeyPath(p.path.slice(0, -1))}|${p.missing}`),
+  );
 }
 
 /** Metrics whose backtest.minTrain was defaulted (so it can follow the season chosen later). */
@@ -76,12 +89,7 @@ export function parsePlan(text: string, configPath: string): Plan {
 
   const parsed = configSchema.safeParse(raw);
   if (!parsed.success) {
-    report(
-      doc,
-      lc,
-      parsed.error.issues.flatMap((i) => fromIssue(i, raw)),
-      file,
-    );
+    report(doc, lc, dropExplained(parsed.error.issues.flatMap((i) => fromIssue(i, raw))), file);
   }
   const config = parsed.data!;
   const defaults: RawOptions = config.defaults ?? {};
@@ -324,7 +332,7 @@ function suggest(word: string, options: readonly string[]): string | null {
   if (options.length === 0) return null;
   const best = closest(word, options as string[]);
   const d = distance(word.toLowerCase(), best.toLowerCase());
-  return d < Math.max(word.length, best.length) && d <= Math.max(1, Math.floor(best.length / 3))
+  return d < Math.min(word.length, best.length) && d <= Math.max(2, Math.floor(best.length / 3))
     ? best
     : null;
 }
@@ -342,6 +350,10 @@ function fromIssue(issue: Issue, root: unknown): Problem[] {
   const path = issue.path.map((p) => (typeof p === 'symbol' ? String(p) : p)) as (string | number)[];
   const value = valueAt(root, path);
   const found = describeValue(value);
+  if (value === undefined && issue.code !== 'unrecognized_keys' && path.length > 0) {
+    const name = String(path[path.length - 1]);
+    return [{ path, message: `The key "${name}" is required here${requiredHint(path)}.`, missing: name }];
+  }
   switch (issue.code) {
     case 'unrecognized_keys': {
       const valid = keysFor(path);
@@ -352,13 +364,24 @@ function fromIssue(issue: Issue, root: unknown): Problem[] {
           : valid.length > 0
             ? `valid keys here: ${valid.join(', ')}.`
             : '';
-        return { path: [...path, k], atKey: true, message: `Unknown key "${k}"; ${hint}` };
+        return {
+          path: [...path, k],
+          atKey: true,
+          message: `Unknown key "${k}"; ${hint}`,
+          suggested: near ?? undefined,
+        };
       });
     }
     case 'invalid_type': {
       if (value === undefined) {
         const name = path[path.length - 1];
-        return [{ path, message: `The key "${String(name)}" is required here${requiredHint(path)}.` }];
+        return [
+          {
+            path,
+            message: `The key "${String(name)}" is required here${requiredHint(path)}.`,
+            missing: String(name),
+          },
+        ];
       }
       const expected = EXPECTED[issue.expected] ?? issue.expected;
       const quote =

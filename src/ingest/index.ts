@@ -108,7 +108,7 @@ function verdictOf(e: LeadlineError): IngestFailure['verdict'] {
 
 function isNear(word: string, candidate: string): boolean {
   const d = distance(word.toLowerCase(), candidate.toLowerCase());
-  return d < Math.max(word.length, candidate.length) && d <= Math.max(1, Math.floor(word.length / 3));
+  return d < Math.min(word.length, candidate.length) && d <= Math.max(2, Math.floor(word.length / 3));
 }
 
 function columnList(header: string[]): string {
