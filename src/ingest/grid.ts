@@ -2,8 +2,8 @@
 //
 // Spacing comes from the median difference between consecutive distinct times:
 // - about a month (27.5–31.5 days), a quarter (88–93 days) or a year (364.5–366.5 days) is a calendar
-//   spacing, aligned by calendar month rather than milliseconds — unless every difference is exactly
-//   28 or 91 days, which is a fixed 4- or 13-week step;
+//   spacing, aligned by calendar month rather than milliseconds — unless every difference is the
+//   same whole number of weeks and the times do not keep to one day of the month (4 or 13 weeks);
 // - otherwise the step is the median rounded to a whole number of weeks, days, hours or minutes
 //   (the largest unit within 2%), or of seconds below a minute; the spacing is named after that unit,
 //   and stepMs carries the exact step (e.g. 'minute' with stepMs 300000 for five minutes).
@@ -31,6 +31,22 @@ function median(sorted: Float64Array): number {
   return n % 2 === 1 ? sorted[(n - 1) / 2]! : (sorted[n / 2 - 1]! + sorted[n / 2]!) / 2;
 }
 
+/** Every time on the same day of the month (or every one on a month's last day) and time of day. */
+function calendarAligned(times: Float64Array): boolean {
+  const parts = (ms: number) => {
+    const t = new Date(ms);
+    const y = t.getUTCFullYear();
+    const m = t.getUTCMonth();
+    const day = t.getUTCDate();
+    return { day, last: day === lastDayOfMonth(y, m), clock: ms - Date.UTC(y, m, day) };
+  };
+  const first = parts(times[0]!);
+  return Array.from(times).every((ms) => {
+    const p = parts(ms);
+    return p.clock === first.clock && (p.day === first.day || (p.last && first.last));
+  });
+}
+
 /** Infers the spacing from ascending distinct times (at least two). */
 export function inferSpacing(distinct: Float64Array): GridSpec {
   const diffs = new Float64Array(distinct.length - 1);
@@ -38,10 +54,10 @@ export function inferSpacing(distinct: Float64Array): GridSpec {
   const allEqual = diffs.every((d) => d === diffs[0]);
   diffs.sort();
   const d = median(diffs);
-  if (d >= 27.5 * DAY && d <= 31.5 * DAY && !(allEqual && d === 28 * DAY))
-    return { spacing: 'month', stepMs: null, months: 1 };
-  if (d >= 88 * DAY && d <= 93 * DAY && !(allEqual && d === 91 * DAY))
-    return { spacing: 'quarter', stepMs: null, months: 3 };
+  // Equal whole-week steps that do not keep to a day of the month are 4 or 13 weeks, not months.
+  const weekly = allEqual && d % WEEK === 0 && !calendarAligned(distinct);
+  if (d >= 27.5 * DAY && d <= 31.5 * DAY && !weekly) return { spacing: 'month', stepMs: null, months: 1 };
+  if (d >= 88 * DAY && d <= 93 * DAY && !weekly) return { spacing: 'quarter', stepMs: null, months: 3 };
   if (d >= 364.5 * DAY && d <= 366.5 * DAY) return { spacing: 'year', stepMs: null, months: 12 };
   const units: [number, Spacing][] = [
     [WEEK, 'week'],

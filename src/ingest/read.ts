@@ -205,7 +205,9 @@ export async function readTable(abs: string, file: string, wanted: Map<string, C
   const keyCols: { index: number; ids: Grow<Int32Array>; lookup: Map<string, number>; col: KeyColumn }[] = [];
   let width = 0;
   let prevEnd = 0;
+  let rawEnd = 0;
   let prevEmpty = 0;
+  let crlfInFields = 0;
 
   async function* rest(): AsyncGenerator<Buffer> {
     yield head;
@@ -227,8 +229,15 @@ export async function readTable(abs: string, file: string, wanted: Map<string, C
   });
 
   const onRecord = (record: string[], info: { lines: number; empty_lines: number }): void => {
+    // csv-parse counts a CRLF inside a quoted field as two lines; count it once.
+    if (info.lines - rawEnd > 1 + (info.empty_lines - prevEmpty)) {
+      for (const field of record) {
+        for (let at = field.indexOf('\r\n'); at >= 0; at = field.indexOf('\r\n', at + 2)) crlfInFields++;
+      }
+    }
+    rawEnd = info.lines;
     const startLine = prevEnd + 1 + (info.empty_lines - prevEmpty);
-    prevEnd = info.lines;
+    prevEnd = info.lines - crlfInFields;
     prevEmpty = info.empty_lines;
     if (table.header === null) {
       table.header = record.map((h) => h.trim());
@@ -322,7 +331,10 @@ export async function readTable(abs: string, file: string, wanted: Map<string, C
     source.destroy();
     if (e instanceof CsvError) {
       const { message, line } = csvMessage(e, table.header ? width : null);
-      throw new LeadlineError('data', message, { file, line });
+      throw new LeadlineError('data', message, {
+        file,
+        line: line === null ? null : Math.max(1, line - crlfInFields),
+      });
     }
     throw readError(e, file);
   }
