@@ -1,6 +1,7 @@
 // The Action: read the settings, run the same job as the command, then publish. Order matters only in
 // that nothing after the job can lose the report: the results file, outputs and job summary are
 // written whatever happens to the comment, and the gate decides the exit code last.
+import { appendFile } from 'node:fs/promises';
 import * as core from '@actions/core';
 import { isLeadlineError } from '../errors.js';
 import { inputFiles, writeOutput } from '../files.js';
@@ -300,7 +301,9 @@ async function writeSummary(s: Settings, text: string): Promise<void> {
     return;
   }
   try {
-    await core.summary.addRaw(text, true).write();
+    // What core.summary.write() does (append to the file), with the path read once in settings:
+    // core.summary caches the first path it sees, which matters to in-process tests.
+    await appendFile(s.run.summaryPath, text.endsWith('\n') ? text : `${text}\n`, 'utf8');
   } catch (e) {
     warn(`Leadline could not write the job summary: ${(e as Error).message}`);
   }
