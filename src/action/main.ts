@@ -171,15 +171,22 @@ async function runAction(d: ActionDeps): Promise<void> {
   if (published.warning) footer.push(`⚠️ ${escapeText(published.warning)}`);
   for (const f of failures) footer.push(`❌ ${escapeText(f)}`);
   const suffix = footer.length > 0 ? `\n\n---\n\n${footer.join('\n\n')}\n` : '';
-  await writeSummary(
-    s,
-    fitRendering(
+  let summary: string;
+  try {
+    summary = fitRendering(
       (maxChars) => d.renderMarkdown(results, { maxChars, fullReportNote: fullReportNote(link) }),
       1_000_000,
       SUMMARY_MAX_BYTES,
       suffix,
-    ),
-  );
+    );
+  } catch (e) {
+    // A renderer bug must not cost the summary its verdict.
+    summary =
+      `## Leadline: ${results.verdict}\n\n${escapeText(results.gate.reason)}\n\n` +
+      `The report could not be rendered (${escapeText((e as Error).message)}); the results file has everything.${suffix}`;
+    failures.push(`summary: the report could not be rendered: ${(e as Error).message}`);
+  }
+  await writeSummary(s, summary);
 
   for (const f of failures) {
     used.error++;

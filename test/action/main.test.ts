@@ -133,6 +133,23 @@ describe('run', () => {
     expect(process.exitCode).toBe(1);
   });
 
+  it('still writes a summary with the verdict when the renderer fails', async () => {
+    setEnv({ comment: 'off', 'fail-on': 'never' }, { name: 'push', payload: {} });
+    const r = alarmResults();
+    r.gate = { failOn: 'never', passed: true, reason: 'The gate is off (fail-on: never).' };
+    await run(
+      deps(r, new FakeGitHub(), {
+        renderMarkdown: () => {
+          throw new Error('template exploded');
+        },
+      }),
+    );
+    const summary = readFileSync(path.join(dir, 'summary.md'), 'utf8');
+    expect(summary).toContain('## Leadline: alarm');
+    expect(summary).toContain('template exploded');
+    expect(readFileSync(path.join(dir, 'out'), 'utf8')).toMatch(/^verdict<<.*\nalarm\n/m);
+  });
+
   it('skips the summary outside a runner without failing', async () => {
     setEnv({ comment: 'off' }, { name: 'push', payload: {} });
     vi.stubEnv('GITHUB_STEP_SUMMARY', '');
