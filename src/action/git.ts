@@ -115,6 +115,14 @@ export async function compareWithBase(
   const exists = await git.run(['cat-file', '-e', `${baseSha}^{commit}`], { cwd });
   if (exists.code === -1)
     return { ok: false, note: missingBaseNote(baseSha, `git is not available: ${exists.stderr}`) };
+  if (exists.code !== 0 && /not a git repository/i.test(exists.stderr))
+    return {
+      ok: false,
+      note: missingBaseNote(
+        baseSha,
+        'the working directory is not a git checkout: run actions/checkout first',
+      ),
+    };
   if (exists.code !== 0) return { ok: false, note: missingBaseNote(baseSha) };
 
   // Three dots compare with the merge base (what the pull request changed); with a shallow history

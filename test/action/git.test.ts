@@ -127,6 +127,10 @@ describe('compareWithBase in a real repository', () => {
   });
 
   it('says so when the payload has no base commit or git cannot run', async () => {
+    const plain = mkdtempSync(path.join(os.tmpdir(), 'leadline-nogit-'));
+    dirs.push(plain);
+    const notRepo = await compareWithBase(systemGit, plain, 'a'.repeat(40));
+    expect(!notRepo.ok && notRepo.note).toContain('not a git checkout');
     const none = await compareWithBase(systemGit, os.tmpdir(), null);
     expect(none.ok).toBe(false);
     const broken: GitRunner = {
