@@ -4,7 +4,6 @@
 // as text. The file is never written.
 import { createReadStream } from 'node:fs';
 import { Readable } from 'node:stream';
-import { pipeline } from 'node:stream/promises';
 import { CsvError, parse } from 'csv-parse';
 import { LeadlineError } from '../errors.js';
 import { parseTimeCell, TimeKind } from './times.js';
@@ -118,16 +117,9 @@ function firstLine(text: string, complete: boolean): string | null {
   return complete || text.length >= HEAD_LIMIT ? text.slice(startAt) : null;
 }
 
-function csvMessage(e: CsvError, columns: number | null): { message: string; line: number | null } {
+function csvMessage(e: CsvError): { message: string; line: number | null } {
   const line = typeof e.lines === 'number' ? e.lines : null;
   switch (e.code) {
-    case 'CSV_RECORD_INCONSISTENT_FIELDS_LENGTH': {
-      const got = Array.isArray(e.record) ? e.record.length : null;
-      return {
-        message: `This row has ${got ?? 'a different number of'} fields but the header has ${columns ?? 'another number'}; a value containing the delimiter must be quoted.`,
-        line,
-      };
-    }
     case 'CSV_QUOTE_NOT_CLOSED':
       return { message: 'A quoted field is never closed (the file ends inside quotes).', line };
     case 'CSV_INVALID_CLOSING_QUOTE':
@@ -201,12 +193,18 @@ export async function readTable(abs: string, file: string, wanted: Map<string, C
     status: Grow<Uint8Array>;
     col: ValueColumn;
   }[] = [];
-  const timeCols: { index: number; raw: Grow<Float64Array>; kind: Grow<Uint8Array>; col: TimeColumn }[] = [];
+  const timeCols: {
+    index: number;
+    raw: Grow<Float64Array>;
+    kind: Grow<Uint8Array>;
+    col: TimeColumn;
+    lastCell: string | null;
+    last: { kind: TimeKind; value: number };
+  }[] = [];
   const keyCols: { index: number; ids: Grow<Int32Array>; lookup: Map<string, number>; col: KeyColumn }[] = [];
   let width = 0;
-  let prevEnd = 0;
-  let rawEnd = 0;
-  let prevEmpty = 0;
+  /** Physical line where the next record starts; CRLF inside a quoted field counts once. */
+  let nextLine = 1;
   let crlfInFields = 0;
 
   async function* rest(): AsyncGenerator<Buffer> {
@@ -219,26 +217,44 @@ export async function readTable(abs: string, file: string, wanted: Map<string, C
     }
   }
 
+  // Empty lines are kept as records (and skipped below) and field counts are checked here, so that
+  // every physical line is accounted for: csv-parse's own line counters are slow to request per
+  // record and count a CRLF inside quotes twice.
   const parser = parse({
     bom: true,
     delimiter: table.delimiter,
     record_delimiter: ['\r\n', '\n', '\r'],
-    skip_empty_lines: true,
-    info: true,
+    skip_empty_lines: false,
+    relax_column_count: true,
     max_record_size: MAX_RECORD,
   });
 
-  const onRecord = (record: string[], info: { lines: number; empty_lines: number }): void => {
-    // csv-parse counts a CRLF inside a quoted field as two lines; count it once.
-    if (info.lines - rawEnd > 1 + (info.empty_lines - prevEmpty)) {
-      for (const field of record) {
-        for (let at = field.indexOf('\r\n'); at >= 0; at = field.indexOf('\r\n', at + 2)) crlfInFields++;
+  const onRecord = (record: string[]): void => {
+    const startLine = nextLine;
+    let span = 1;
+    for (const field of record) {
+      if (field.indexOf('\n') < 0 && field.indexOf('\r') < 0) continue;
+      for (let i = 0; i < field.length; i++) {
+        const ch = field.charCodeAt(i);
+        if (ch === 10) span++;
+        else if (ch === 13) {
+          span++;
+          if (field.charCodeAt(i + 1) === 10) {
+            i++;
+            crlfInFields++;
+          }
+        }
       }
     }
-    rawEnd = info.lines;
-    const startLine = prevEnd + 1 + (info.empty_lines - prevEmpty);
-    prevEnd = info.lines - crlfInFields;
-    prevEmpty = info.empty_lines;
+    nextLine += span;
+    if (record.length === 1 && record[0]!.trim() === '') return;
+    if (table.header !== null && record.length !== width) {
+      throw new LeadlineError(
+        'data',
+        `This row has ${record.length} field${record.length === 1 ? '' : 's'} but the header has ${width}; a value containing the delimiter ${JSON.stringify(table.delimiter)} must be quoted.`,
+        { file, line: startLine },
+      );
+    }
     if (table.header === null) {
       table.header = record.map((h) => h.trim());
       table.headerLine = startLine;
@@ -278,6 +294,8 @@ export async function readTable(abs: string, file: string, wanted: Map<string, C
             raw: new Grow((n) => new Float64Array(n)),
             kind: new Grow((n) => new Uint8Array(n)),
             col,
+            lastCell: null,
+            last: { kind: TimeKind.Blank, value: NaN },
           });
           table.times.set(i, col);
         }
@@ -301,7 +319,12 @@ export async function readTable(abs: string, file: string, wanted: Map<string, C
     }
     for (const c of timeCols) {
       const cell = record[c.index] ?? '';
-      const p = parseTimeCell(cell);
+      // Long-format files repeat each time once per key: parse a repeated cell once.
+      if (cell !== c.lastCell) {
+        c.lastCell = cell;
+        c.last = parseTimeCell(cell);
+      }
+      const p = c.last;
       c.raw.push(p.value);
       c.kind.push(p.kind);
       if (p.kind === TimeKind.Invalid && c.col.invalidText.size < INVALID_TEXTS)
@@ -320,17 +343,29 @@ export async function readTable(abs: string, file: string, wanted: Map<string, C
   };
 
   try {
-    await pipeline(
-      Readable.from(rest()),
-      parser,
-      async (records: AsyncIterable<{ record: string[]; info: { lines: number; empty_lines: number } }>) => {
-        for await (const r of records) onRecord(r.record, r.info);
-      },
-    );
+    await new Promise<void>((resolve, reject) => {
+      const input = Readable.from(rest());
+      const stop = (e: unknown) => {
+        input.destroy();
+        parser.destroy();
+        reject(e);
+      };
+      input.on('error', stop);
+      parser.on('error', stop);
+      parser.on('data', (record: string[]) => {
+        try {
+          onRecord(record);
+        } catch (e) {
+          stop(e);
+        }
+      });
+      parser.on('end', resolve);
+      input.pipe(parser);
+    });
   } catch (e) {
     source.destroy();
     if (e instanceof CsvError) {
-      const { message, line } = csvMessage(e, table.header ? width : null);
+      const { message, line } = csvMessage(e);
       throw new LeadlineError('data', message, {
         file,
         line: line === null ? null : Math.max(1, line - crlfInFields),
