@@ -1,7 +1,7 @@
 // The one pipeline both entries call: config + files -> Results.
 // Reading the config and the CSVs happens here (through src/config and src/ingest); everything
 // after ingestion is pure and goes through buildResults, which tests call directly.
-import { durationToSteps, loadPlan } from './config/index.js';
+import { backtestFor, durationToSteps, loadPlan } from './config/index.js';
 import type { MetricPlan, Plan } from './config/types.js';
 import {
   analyse,
@@ -159,7 +159,7 @@ function analyseOne(s: Series, m: MetricPlan, o: BuildOptions): SeriesResult {
     horizon,
     levels: m.levels,
     intervals: m.intervals,
-    backtest: m.backtest,
+    backtest: backtestFor(m, season),
     score: m.score,
     paths: m.paths,
     seed: m.seed,
