@@ -1,0 +1,56 @@
+// Escaping untrusted text (metric names, file names, column and key values, notes) for the reports.
+//
+// Markdown: every character that could start markdown or HTML syntax becomes a numeric character
+// reference. CommonMark never reads an entity as structure ("&#42;" is a literal star, "&#124;" a
+// literal pipe that cannot split a table cell), and HTML decodes it to the same character, so the
+// result is safe both in markdown text and inside the HTML blocks of a comment (<summary>, <td>).
+// Backslash escapes would not be: inside an HTML block GitHub shows the backslash.
+
+// eslint-disable-next-line no-control-regex -- matching control characters is the point
+const CONTROL = /[\u0000-\u0008\u000b\u000c\u000e-\u001f\u007f\u2028\u2029]/g;
+const NEWLINES = /\r\n|[\r\n\t]/g;
+
+const MARKDOWN_SPECIAL = /[&<>"'`|\\*_~[\](){}#!$:=+]/g;
+
+/**
+ * Text made safe for GitHub-flavoured markdown and HTML: one line, no markup, no table breakers.
+ * Line breaks and tabs become spaces; other control characters are dropped. A mention-looking `@name`
+ * gets a zero-width space after the `@` so a report never pings anyone.
+ */
+export function escapeMarkdown(text: string): string {
+  return String(text)
+    .replace(NEWLINES, ' ')
+    .replace(CONTROL, '')
+    .replace(MARKDOWN_SPECIAL, (c) => `&#${c.codePointAt(0)!};`)
+    .replace(/@(?=\w)/g, '@&#8203;');
+}
+
+const HTML_SPECIAL: Record<string, string> = {
+  '&': '&amp;',
+  '<': '&lt;',
+  '>': '&gt;',
+  '"': '&quot;',
+  "'": '&#39;',
+};
+
+/** Text made safe for HTML element content and quoted attribute values. Control characters are dropped. */
+export function escapeHtml(text: string): string {
+  return String(text)
+    .replace(CONTROL, '')
+    .replace(/[&<>"']/g, (c) => HTML_SPECIAL[c]!);
+}
+
+/**
+ * A label for Mermaid source: only letters, digits, spaces and a few harmless punctuation marks survive
+ * (no quotes, brackets, semicolons, percent signs or line breaks, which Mermaid could read as syntax),
+ * cut to `max` characters. Never empty.
+ */
+export function mermaidLabel(text: string, max = 60, fallback = 'series'): string {
+  const kept = String(text)
+    .normalize('NFC')
+    .replace(/[^\p{L}\p{N} _.,/()-]+/gu, ' ')
+    .replace(/\s+/g, ' ')
+    .trim();
+  const cut = [...kept].slice(0, max).join('').trim();
+  return cut.length > 0 ? cut : fallback;
+}

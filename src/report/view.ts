@@ -1,0 +1,543 @@
+// The view model the markdown templates render. Every string in a ReportView is already escaped for
+// markdown and HTML (escapeMarkdown) or built by Leadline from validated numbers, so templates are
+// compiled without Handlebars' own escaping and a user's template cannot let raw untrusted text through:
+// the raw text is never in the view.
+import type {
+  CheckedObservation,
+  MethodBacktestSummary,
+  Results,
+  SeriesResult,
+  TestSummary,
+  Verdict,
+} from '../results.js';
+import { escapeMarkdown as md } from './escape.js';
+import {
+  METHOD_LABEL,
+  STEP_UNIT,
+  VERDICT_ICON,
+  VERDICT_LABEL,
+  num,
+  pct,
+  plural,
+  pval,
+  when,
+} from './format.js';
+import { mermaidChart } from './mermaid.js';
+import { sparkline } from './sparkline.js';
+
+export interface VerdictView {
+  code: Verdict;
+  label: string;
+  icon: string;
+}
+
+export interface AttentionRow {
+  /** Anchor-free reference: the series' position in `series` (1-based), for "see section n". */
+  section: number;
+  name: string;
+  verdict: VerdictView;
+  why: string;
+  spark: string;
+  latest: string;
+  expected: string;
+  where: string;
+}
+
+export interface LimitRow {
+  name: string;
+  verdict: VerdictView;
+  limit: string;
+  within: string;
+  chance: string;
+  allowed: string;
+  pointCrossing: string;
+  boundCrossing: string;
+  status: string;
+}
+
+export interface ChartView {
+  /** The series' section number (1-based, report order). */
+  section: number;
+  name: string;
+  /** Mermaid source (xychart-beta), built from finite numbers and sanitised labels only. */
+  source: string;
+  /** Which line is which (XY charts have no legend). */
+  legend: string;
+}
+
+export interface CheckedRow {
+  where: string;
+  value: string;
+  expected: string;
+  interval: string;
+  result: string;
+  p: string;
+  z: string;
+}
+
+export interface ForecastRow {
+  step: number;
+  time: string;
+  mean: string;
+  bands: string[];
+}
+
+export interface BacktestRow {
+  method: string;
+  chosen: boolean;
+  mark: string;
+  origins: string;
+  score: string;
+  rmse: string;
+  mae: string;
+  mase: string;
+  mape: string;
+  me: string;
+}
+
+export interface CheckRow {
+  name: string;
+  result: string;
+  statistic: string;
+  p: string;
+  finding: string;
+}
+
+export interface CalibrationRow {
+  kind: string;
+  used: boolean;
+  level: string;
+  coverage: string;
+  judgement: string;
+}
+
+export interface SeriesView {
+  section: number;
+  name: string;
+  verdict: VerdictView;
+  reason: string;
+  attention: boolean;
+  facts: string;
+  checked: CheckedRow[];
+  forecast: ForecastRow[];
+  forecastLevels: string[];
+  forecastNote: string | null;
+  backtest: BacktestRow[];
+  backtestScore: string;
+  backtestReason: string;
+  backtestNote: string | null;
+  checks: CheckRow[];
+  checksNote: string | null;
+  calibration: CalibrationRow[];
+  calibrationNote: string | null;
+  limit: string | null;
+  notes: string[];
+  chart: ChartView | null;
+}
+
+export interface ProblemRow {
+  where: string;
+  message: string;
+}
+
+export interface ReportView {
+  title: string;
+  verdict: VerdictView;
+  headline: string;
+  gate: string;
+  gatePassed: boolean;
+  counts: string;
+  falseAlarms: string;
+  caution: string;
+  generated: string;
+  runNotes: string[];
+  problems: ProblemRow[];
+  attention: AttentionRow[];
+  attentionNote: string | null;
+  limits: LimitRow[];
+  limitsNote: string | null;
+  /** Charts for the metrics that need attention, shown outside the collapsed sections. */
+  charts: ChartView[];
+  series: SeriesView[];
+  /** Set when the report was cut to fit: what was left out and where the full report is. */
+  omitted: string | null;
+}
+
+export interface ViewOptions {
+  /** Most Mermaid charts in the report (attention items first). Default 5. */
+  maxCharts?: number;
+}
+
+const FORECAST_ROWS = 24;
+const CHECKED_ROWS = 20;
+
+function verdictView(v: Verdict): VerdictView {
+  return { code: v, label: VERDICT_LABEL[v], icon: VERDICT_ICON[v] };
+}
+
+const CHECK_NAMES: Record<'ljungBox' | 'bias' | 'normality' | 'spread', string> = {
+  ljungBox: 'Autocorrelation (Ljung–Box)',
+  bias: 'Bias (mean residual zero)',
+  normality: 'Normality',
+  spread: 'Constant spread',
+};
+
+/** Residual checks that did not pass, in plain names. */
+export function failedChecks(s: SeriesResult): string[] {
+  const c = s.residualChecks;
+  if (!c) return [];
+  return (Object.keys(CHECK_NAMES) as (keyof typeof CHECK_NAMES)[])
+    .filter((k) => c[k] && c[k].ok === false)
+    .map((k) => CHECK_NAMES[k]);
+}
+
+/** Alarms, limits at risk, errors, and residual checks that failed: what a reviewer should look at. */
+export function needsAttention(s: SeriesResult): boolean {
+  return (
+    s.verdict === 'alarm' || s.verdict === 'at-risk' || s.verdict === 'error' || failedChecks(s).length > 0
+  );
+}
+
+const RANK: Record<Verdict, number> = { alarm: 0, 'at-risk': 1, error: 2, ok: 3, 'insufficient-data': 4 };
+
+/** Series in report order: attention items first (alarms, then limits at risk, errors, failed checks). */
+export function reportOrder(results: Results): SeriesResult[] {
+  const indexed = results.series.map((s, i) => ({ s, i, att: needsAttention(s) }));
+  indexed.sort((a, b) => {
+    if (a.att !== b.att) return a.att ? -1 : 1;
+    if (a.att) return RANK[a.s.verdict] - RANK[b.s.verdict] || a.i - b.i;
+    return a.i - b.i;
+  });
+  return indexed.map((x) => x.s);
+}
+
+function locate(file: string, row: number | null): string {
+  return row === null ? md(file) : `${md(file)} line ${row}`;
+}
+
+function checkedWhere(s: SeriesResult, c: CheckedObservation): string {
+  const t = when(c.time, s.spacing);
+  const line = c.row === null ? 'gap-filled point' : `line ${c.row}`;
+  return t ? `${t} (${line})` : line;
+}
+
+function checkedRow(s: SeriesResult, c: CheckedObservation): CheckedRow {
+  let result: string;
+  if (c.alarm) result = `🔴 alarm (${c.side === 'below' ? 'below' : 'above'} the interval)`;
+  else if (!c.outside) result = 'inside';
+  else if (s.direction === 'both' || c.side === s.direction)
+    result = 'outside, but not an alarm after the false-alarm adjustment';
+  else result = `outside on the ${c.side === 'above' ? 'high' : 'low'} side, which is not watched`;
+  return {
+    where: checkedWhere(s, c),
+    value: num(c.value, 6),
+    expected: num(c.mean),
+    interval: `${num(c.lower)} to ${num(c.upper)} (${c.level}%)`,
+    result,
+    p: c.adjustedP !== c.pValue ? `${pval(c.pValue)} (adjusted ${pval(c.adjustedP)})` : pval(c.pValue),
+    z: Number.isFinite(c.z) ? `${c.z >= 0 ? '+' : '−'}${num(Math.abs(c.z), 4)}` : 'n/a',
+  };
+}
+
+function attentionRow(s: SeriesResult, section: number): AttentionRow {
+  const failed = failedChecks(s);
+  const why: string[] = [];
+  if (s.reason) why.push(md(s.reason));
+  if (failed.length > 0) why.push(`residual checks flagged: ${failed.join(', ').toLowerCase()}`);
+  const last = s.checked.at(-1);
+  const alarmObs = s.checked.find((c) => c.alarm) ?? last;
+  const lastValue = [...s.history].reverse().find((h) => h.value !== null);
+  return {
+    section,
+    name: md(s.name),
+    verdict: verdictView(s.verdict),
+    why: why.join('; ') || md(VERDICT_LABEL[s.verdict]),
+    spark: sparkline(s.history.map((h) => h.value)),
+    latest: alarmObs ? num(alarmObs.value, 6) : lastValue ? num(lastValue.value, 6) : 'n/a',
+    expected: alarmObs ? `${num(alarmObs.lower)} to ${num(alarmObs.upper)}` : 'n/a',
+    where: alarmObs ? locate(s.file, alarmObs.row) : md(s.file),
+  };
+}
+
+function crossing(s: SeriesResult, c: { step: number; time: string | null } | null): string {
+  if (!c) return 'not within the window';
+  const t = when(c.time, s.spacing);
+  const steps = plural(c.step, STEP_UNIT[s.spacing]);
+  return t ? `${t} (in ${steps})` : `in ${steps}`;
+}
+
+function limitRow(s: SeriesResult): LimitRow | null {
+  const l = s.limit;
+  if (!l) return null;
+  const status = l.alreadyCrossed
+    ? `already ${l.side} the limit`
+    : l.atRisk
+      ? 'at risk'
+      : 'within the allowed risk';
+  return {
+    name: md(s.name),
+    verdict: verdictView(s.verdict),
+    limit: `${l.side} ${num(l.value, 6)}`,
+    within: `${md(l.withinLabel)} (${plural(l.within, STEP_UNIT[s.spacing])})`,
+    chance: pct(l.probability),
+    allowed: pct(l.risk),
+    pointCrossing: crossing(s, l.pointCrossing),
+    boundCrossing: crossing(s, l.boundCrossing),
+    status,
+  };
+}
+
+function limitSentence(s: SeriesResult): string | null {
+  const l = s.limit;
+  if (!l) return null;
+  const unit = STEP_UNIT[s.spacing];
+  const head = `Limit: ${l.side} ${num(l.value, 6)} within ${md(l.withinLabel)} (${plural(l.within, unit)}).`;
+  if (l.alreadyCrossed) return `${head} The last observation is already ${l.side} it.`;
+  return (
+    `${head} Chance of crossing at any point in the window: ${pct(l.probability)} from ${num(l.paths)} simulated paths ` +
+    `(allowed ${pct(l.risk)}): ${l.atRisk ? 'at risk' : 'within the allowed risk'}. ` +
+    `The point forecast crosses ${crossing(s, l.pointCrossing)}; the ${pct(1 - l.risk, 0)} bound crosses ${crossing(s, l.boundCrossing)}.`
+  );
+}
+
+function backtestRows(s: SeriesResult): BacktestRow[] {
+  const bt = s.backtest;
+  if (!bt) return [];
+  const rows = (Object.entries(bt.methods) as [string, MethodBacktestSummary][]).map(([m, b]) => ({
+    method: METHOD_LABEL[m] ?? md(m),
+    chosen: m === s.method,
+    mark: m === s.method ? '✅ chosen' : '',
+    origins: num(b.origins),
+    score: num(b.score),
+    rmse: num(b.rmse),
+    mae: num(b.mae),
+    mase: num(b.mase),
+    mape: b.mape === null ? 'n/a' : `${num(b.mape)}%`,
+    me: num(b.me),
+    sortKey: b.score === null ? Infinity : Math.abs(b.score),
+  }));
+  rows.sort((a, b) => (a.chosen !== b.chosen ? (a.chosen ? -1 : 1) : a.sortKey - b.sortKey));
+  return rows.map(({ sortKey: _s, ...r }) => r);
+}
+
+function testRow(name: string, t: TestSummary | undefined, statistic: string): CheckRow | null {
+  if (!t) return null;
+  return {
+    name,
+    result: t.ok ? 'passed' : '⚠️ flagged',
+    statistic,
+    p: pval(t.pValue),
+    finding: md(t.finding ?? ''),
+  };
+}
+
+function checkRows(s: SeriesResult): CheckRow[] {
+  const c = s.residualChecks;
+  if (!c) return [];
+  const df = (t: TestSummary) => (t.df === null || t.df === undefined ? '' : `, df ${t.df}`);
+  const rows = [
+    testRow(
+      `${CHECK_NAMES.ljungBox}, ${plural(c.ljungBox?.lags ?? 0, 'lag')}`,
+      c.ljungBox,
+      c.ljungBox ? `Q = ${num(c.ljungBox.statistic)}${df(c.ljungBox)}` : '',
+    ),
+    testRow(
+      CHECK_NAMES.bias,
+      c.bias,
+      c.bias
+        ? c.bias.zeroByConstruction
+          ? 'zero by construction'
+          : `mean ${num(c.bias.mean)}, t = ${num(c.bias.statistic)}${df(c.bias)}`
+        : '',
+    ),
+    testRow(
+      CHECK_NAMES.normality,
+      c.normality,
+      c.normality
+        ? `skewness ${num(c.normality.skewness)}, kurtosis ${num(c.normality.kurtosis)}, statistic ${num(c.normality.statistic)}`
+        : '',
+    ),
+    testRow(
+      `${CHECK_NAMES.spread}${c.spread?.test ? ` (${md(c.spread.test)})` : ''}`,
+      c.spread,
+      c.spread ? `statistic ${num(c.spread.statistic)}${df(c.spread)}` : '',
+    ),
+  ];
+  return rows.filter((r): r is CheckRow => r !== null);
+}
+
+/**
+ * Backtest coverage against the nominal level. The tolerance is two binomial standard errors,
+ * 2·sqrt(p(1−p)/n), with n the number of step-1 origins (common practice; coverage over several
+ * steps is correlated, so this is a rough yardstick, and the wording says so).
+ */
+export function calibrationWords(coverage: number, level: number, origins: number): string {
+  const p = level / 100;
+  if (!Number.isFinite(coverage) || origins <= 0) return 'not measured';
+  const tol = 2 * Math.sqrt((p * (1 - p)) / origins);
+  const gap = coverage - p;
+  if (Math.abs(gap) <= tol) return 'about as stated';
+  return gap < 0
+    ? 'too narrow: actuals fell outside more often than stated'
+    : 'wider than needed: actuals fell outside less often than stated';
+}
+
+function calibrationRows(s: SeriesResult): CalibrationRow[] {
+  const bt = s.backtest;
+  if (!bt || !s.method) return [];
+  const chosen = bt.methods[s.method];
+  if (!chosen) return [];
+  const rows: CalibrationRow[] = [];
+  for (const [kind, levels] of Object.entries(chosen.coverage)) {
+    if (!levels) continue;
+    const entries = Object.entries(levels).sort((a, b) => Number(a[0]) - Number(b[0]));
+    for (const [level, cov] of entries) {
+      rows.push({
+        kind: md(kind),
+        used: kind === s.intervalKind,
+        level: `${md(level)}%`,
+        coverage: pct(cov),
+        judgement: calibrationWords(cov, Number(level), chosen.origins),
+      });
+    }
+  }
+  rows.sort((a, b) => (a.used !== b.used ? (a.used ? -1 : 1) : 0));
+  return rows;
+}
+
+function facts(s: SeriesResult): string {
+  const parts = [`File ${md(s.file)}`, `column ${md(s.column)}`];
+  if (s.key !== null) parts.push(`key ${md(s.key)}`);
+  parts.push(plural(s.observations, 'observation'));
+  if (s.missing > 0) parts.push(`${s.missing} missing`);
+  parts.push(s.spacing === 'row' ? 'row order' : `${s.spacing}ly`);
+  parts.push(s.season > 1 ? `season ${s.season} (${s.seasonSource})` : `no season (${s.seasonSource})`);
+  if (s.method) parts.push(`method ${METHOD_LABEL[s.method] ?? md(s.method)}`);
+  if (s.intervalKind) parts.push(`${md(s.intervalKind)} intervals`);
+  if (s.sigma !== null && s.sigma !== undefined)
+    parts.push(`residual sd ${num(s.sigma)}${s.sigmaDf ? ` (df ${s.sigmaDf})` : ''}`);
+  parts.push(`watching ${s.direction === 'both' ? 'both sides' : s.direction} at ${s.alarmLevel}%`);
+  return parts.join(' · ');
+}
+
+function seriesView(s: SeriesResult, section: number, chart: ChartView | null): SeriesView {
+  const levels = [...s.levels].sort((a, b) => a - b);
+  const forecast = s.forecast.slice(0, FORECAST_ROWS).map((f) => ({
+    step: f.step,
+    time: when(f.time, s.spacing) ?? `+${f.step}`,
+    mean: num(f.mean),
+    bands: levels.map((l) => `${num(f.lower[String(l)])} to ${num(f.upper[String(l)])}`),
+  }));
+  const bt = s.backtest;
+  return {
+    section,
+    name: md(s.name),
+    verdict: verdictView(s.verdict),
+    reason: md(s.reason),
+    attention: needsAttention(s),
+    facts: facts(s),
+    checked: s.checked.slice(-CHECKED_ROWS).map((c) => checkedRow(s, c)),
+    forecast,
+    forecastLevels: levels.map((l) => `${l}%`),
+    forecastNote:
+      s.forecast.length > FORECAST_ROWS
+        ? `The first ${FORECAST_ROWS} of ${s.forecast.length} steps; the results JSON has all of them.`
+        : null,
+    backtest: backtestRows(s),
+    backtestScore: bt ? md(bt.score.toUpperCase()) : '',
+    backtestReason: bt ? md(bt.reason) : '',
+    backtestNote: bt
+      ? `Rolling origin from ${plural(bt.minTrain, 'observation')} of training, ${plural(bt.horizon, 'step')} ahead; ` +
+        `score is the mean over those steps of ${md(bt.score.toUpperCase())} (lower is better); other measures at step 1.`
+      : null,
+    checks: checkRows(s),
+    checksNote: s.residualChecks
+      ? `On the residuals of the chosen method, each at the 5% level. A flagged check means the intervals may be less trustworthy than stated.`
+      : null,
+    calibration: calibrationRows(s),
+    calibrationNote: bt
+      ? 'Share of backtest actuals that fell inside each interval, against the level it claims.'
+      : null,
+    limit: limitSentence(s),
+    notes: s.notes.map(md),
+    chart,
+  };
+}
+
+/** Builds the view the markdown templates render. Pure; every string in it is escaped. */
+export function buildView(results: Results, opts: ViewOptions = {}): ReportView {
+  const maxCharts = Math.max(0, Math.floor(opts.maxCharts ?? 5));
+  const ordered = reportOrder(results);
+  const section = new Map(ordered.map((s, i) => [s, i + 1]));
+  const attention = ordered.filter(needsAttention);
+
+  // Charts: attention items first (shown in the open), then other series in their sections.
+  const chartFor = new Map<SeriesResult, ChartView>();
+  for (const s of [...attention, ...ordered.filter((s) => !needsAttention(s))]) {
+    if (chartFor.size >= maxCharts) break;
+    const c = mermaidChart(s);
+    if (c) chartFor.set(s, { section: section.get(s)!, name: md(s.name), ...c });
+  }
+  const charts = attention.map((s) => chartFor.get(s)).filter((c): c is ChartView => c !== undefined);
+
+  const sum = results.summary;
+  const v = verdictView(results.verdict);
+  const headline = {
+    ok: 'Every checked observation is within its interval and no limit is at risk.',
+    alarm: `${plural(sum.alarms, 'observation')} outside what history predicts.`,
+    'at-risk': `${plural(sum.atRisk, 'limit')} at risk of being crossed.`,
+    'insufficient-data': 'Not enough data to judge any metric yet.',
+    error: `${plural(sum.errors, 'series', 'series')} could not be analysed.`,
+  }[results.verdict];
+
+  const countParts = [
+    plural(sum.metrics, 'metric'),
+    plural(sum.series, 'series', 'series'),
+    plural(sum.checkedObservations, 'checked observation'),
+    plural(sum.alarms, 'alarm'),
+    `${sum.atRisk} at risk`,
+  ];
+  if (sum.insufficient > 0) countParts.push(`${sum.insufficient} without enough data`);
+  if (sum.errors > 0) countParts.push(`${plural(sum.errors, 'error')}`);
+
+  const adjust =
+    sum.falseAlarms === 'none'
+      ? 'no adjustment for the number of checks'
+      : sum.falseAlarms === 'bonferroni'
+        ? 'alarms adjusted across the run (Bonferroni)'
+        : 'alarms adjusted across the run (false discovery rate, Benjamini–Hochberg)';
+  const falseAlarms =
+    `By chance alone about ${num(sum.expectedFalseAlarms, 4)} of the ${sum.checkedObservations} checked ` +
+    `observations would fall outside their intervals even when nothing has changed (${adjust}).`;
+
+  const limits = ordered.map(limitRow).filter((r): r is LimitRow => r !== null);
+
+  return {
+    title: 'Leadline report',
+    verdict: v,
+    headline,
+    gate: md(results.gate.reason),
+    gatePassed: results.gate.passed,
+    counts: countParts.join(' · '),
+    falseAlarms,
+    caution:
+      'Forecasts are estimates with stated uncertainty, not guarantees: an interval at 95% is expected to miss about one time in twenty.',
+    generated: `Leadline ${md(results.generator.version)}${results.config ? ` · config ${md(results.config)}` : ''} · ${md(when(results.generatedAt, 'minute') ?? results.generatedAt)}`,
+    runNotes: (results.notes ?? []).map(md),
+    problems: results.problems.map((p) => ({
+      where:
+        [p.file && md(p.file), p.line, p.column].filter((x) => x !== null && x !== '').join(':') ||
+        (p.keyPath ? md(p.keyPath) : p.metric ? md(p.metric) : p.kind),
+      message: md(p.message),
+    })),
+    attention: attention.map((s) => attentionRow(s, section.get(s)!)),
+    attentionNote: null,
+    limits,
+    limitsNote: null,
+    charts,
+    series: ordered.map((s) =>
+      seriesView(s, section.get(s)!, needsAttention(s) ? null : (chartFor.get(s) ?? null)),
+    ),
+    omitted: null,
+  };
+}
