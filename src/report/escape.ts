@@ -10,7 +10,7 @@
 const CONTROL = /[\u0000-\u0008\u000b\u000c\u000e-\u001f\u007f\u2028\u2029]/g;
 const NEWLINES = /\r\n|[\r\n\t]/g;
 
-const MARKDOWN_SPECIAL = /[&<>"'`|\\*_~[\](){}#!$:=+]/g;
+const MARKDOWN_SPECIAL = /[&<>"'`|\\*_~[\]#$:]/g;
 
 /**
  * Text made safe for GitHub-flavoured markdown and HTML: one line, no markup, no table breakers.

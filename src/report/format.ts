@@ -96,3 +96,14 @@ export const STEP_UNIT: Record<Spacing, string> = {
   year: 'year',
   row: 'step',
 };
+
+export const SPACING_WORD: Record<Spacing, string> = {
+  minute: 'every minute',
+  hour: 'hourly',
+  day: 'daily',
+  week: 'weekly',
+  month: 'monthly',
+  quarter: 'quarterly',
+  year: 'yearly',
+  row: 'row order',
+};

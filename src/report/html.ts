@@ -29,7 +29,7 @@ th{font-weight:600}td.n{text-align:right;font-variant-numeric:tabular-nums}
 section.metric{background:var(--card);border:1px solid var(--line);border-radius:8px;padding:16px 18px;margin:22px 0}
 .charts{display:flex;flex-wrap:wrap;gap:12px}
 figure{margin:8px 0}figcaption{font-size:.82rem;color:var(--muted)}
-svg.chart{max-width:100%;height:auto;display:block}
+svg.chart{max-width:100%;height:auto;display:block}svg.chart:not(.half){width:100%}
 svg .grid{stroke:var(--grid)}svg .axis{stroke:var(--muted)}
 svg text{fill:var(--muted);font-size:11px;font-family:inherit}
 svg .band{stroke:none}svg .band-0{fill:var(--b0)}svg .band-1{fill:var(--b1)}svg .band-2{fill:var(--b2)}svg .band-3{fill:var(--b3)}

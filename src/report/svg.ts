@@ -65,17 +65,38 @@ function yAxis(y: ScaleLinear<number, number>, x0: number, x1: number): string {
     .join('');
 }
 
+const MONTH_NAMES = ['Jan', 'Feb', 'Mar', 'Apr', 'May', 'Jun', 'Jul', 'Aug', 'Sep', 'Oct', 'Nov', 'Dec'];
+
+/** A short UTC tick label: "Oct 4", "Oct 4 14:00" for sub-daily series, "Oct 2026" for months and longer. */
+function timeTick(ms: number, spacing: SeriesResult['spacing'], multiYear: boolean): string {
+  const d = new Date(ms);
+  const mon = MONTH_NAMES[d.getUTCMonth()]!;
+  if (spacing === 'month' || spacing === 'quarter' || spacing === 'year')
+    return `${mon} ${d.getUTCFullYear()}`;
+  const day = `${mon} ${d.getUTCDate()}${multiYear ? ` ${d.getUTCFullYear()}` : ''}`;
+  if ((spacing === 'hour' || spacing === 'minute') && (d.getUTCHours() !== 0 || d.getUTCMinutes() !== 0))
+    return `${String(d.getUTCHours()).padStart(2, '0')}:${String(d.getUTCMinutes()).padStart(2, '0')}`;
+  return day;
+}
+
 function xAxis(x: XScale, timeAxis: boolean, y0: number, spacing: SeriesResult['spacing']): string {
-  const ticks = (x.ticks as (n: number) => (number | Date)[])(6);
+  const all = (x.ticks as (n: number) => (number | Date)[])(6);
+  // Keep ticks at least 80px apart so labels never overlap.
+  const ticks: (number | Date)[] = [];
+  for (const t of all) {
+    const px = x(t as number & Date);
+    if (ticks.length === 0 || px - x(ticks.at(-1) as number & Date) >= 80) ticks.push(t);
+  }
+  const d = x.domain().map((v) => +v);
+  const multiYear = timeAxis && new Date(d[0]!).getUTCFullYear() !== new Date(d[1]!).getUTCFullYear();
   return ticks
     .map((t) => {
       const xx = f(x(t as number & Date));
-      const label = timeAxis
-        ? (when(new Date(+t).toISOString(), spacing === 'hour' || spacing === 'minute' ? 'day' : spacing) ??
-          '')
-        : `#${+t + 1}`;
-      const short = timeAxis && (spacing === 'hour' || spacing === 'minute') ? label.slice(5) : label;
-      return `<line class="axis" x1="${xx}" x2="${xx}" y1="${y0}" y2="${y0 + 4}"/><text class="tick" x="${xx}" y="${y0 + 16}" text-anchor="middle">${h(short)}</text>`;
+      const label = timeAxis ? timeTick(+t, spacing, multiYear) : `#${+t + 1}`;
+      // Labels near either edge are anchored inwards so they are not cut off.
+      const px = x(t as number & Date);
+      const anchor = px > W - M.right - 40 ? 'end' : px < M.left + 20 ? 'start' : 'middle';
+      return `<line class="axis" x1="${xx}" x2="${xx}" y1="${y0}" y2="${y0 + 4}"/><text class="tick" x="${xx}" y="${y0 + 16}" text-anchor="${anchor}">${h(label)}</text>`;
     })
     .join('');
 }

@@ -13,6 +13,7 @@ import type {
 import { escapeMarkdown as md } from './escape.js';
 import {
   METHOD_LABEL,
+  SPACING_WORD,
   STEP_UNIT,
   VERDICT_ICON,
   VERDICT_LABEL,
@@ -66,6 +67,7 @@ export interface ChartView {
 }
 
 export interface CheckedRow {
+  alarm: boolean;
   where: string;
   value: string;
   expected: string;
@@ -85,7 +87,6 @@ export interface ForecastRow {
 export interface BacktestRow {
   method: string;
   chosen: boolean;
-  mark: string;
   origins: string;
   score: string;
   rmse: string;
@@ -96,6 +97,7 @@ export interface BacktestRow {
 }
 
 export interface CheckRow {
+  ok: boolean;
   name: string;
   result: string;
   statistic: string;
@@ -223,19 +225,20 @@ function checkedWhere(s: SeriesResult, c: CheckedObservation): string {
 
 function checkedRow(s: SeriesResult, c: CheckedObservation): CheckedRow {
   let result: string;
-  if (c.alarm) result = `🔴 alarm (${c.side === 'below' ? 'below' : 'above'} the interval)`;
+  if (c.alarm) result = `alarm (${c.side === 'below' ? 'below' : 'above'} the interval)`;
   else if (!c.outside) result = 'inside';
   else if (s.direction === 'both' || c.side === s.direction)
     result = 'outside, but not an alarm after the false-alarm adjustment';
   else result = `outside on the ${c.side === 'above' ? 'high' : 'low'} side, which is not watched`;
   return {
+    alarm: c.alarm,
     where: checkedWhere(s, c),
     value: num(c.value, 6),
     expected: num(c.mean),
     interval: `${num(c.lower)} to ${num(c.upper)} (${c.level}%)`,
     result,
     p: c.adjustedP !== c.pValue ? `${pval(c.pValue)} (adjusted ${pval(c.adjustedP)})` : pval(c.pValue),
-    z: Number.isFinite(c.z) ? `${c.z >= 0 ? '+' : '−'}${num(Math.abs(c.z), 4)}` : 'n/a',
+    z: Number.isFinite(c.z) ? `${c.z >= 0 ? '+' : '−'}${Math.abs(c.z).toFixed(2)}` : 'n/a',
   };
 }
 
@@ -306,7 +309,6 @@ function backtestRows(s: SeriesResult): BacktestRow[] {
   const rows = (Object.entries(bt.methods) as [string, MethodBacktestSummary][]).map(([m, b]) => ({
     method: METHOD_LABEL[m] ?? md(m),
     chosen: m === s.method,
-    mark: m === s.method ? '✅ chosen' : '',
     origins: num(b.origins),
     score: num(b.score),
     rmse: num(b.rmse),
@@ -323,8 +325,9 @@ function backtestRows(s: SeriesResult): BacktestRow[] {
 function testRow(name: string, t: TestSummary | undefined, statistic: string): CheckRow | null {
   if (!t) return null;
   return {
+    ok: t.ok,
     name,
-    result: t.ok ? 'passed' : '⚠️ flagged',
+    result: t.ok ? 'passed' : 'flagged',
     statistic,
     p: pval(t.pValue),
     finding: md(t.finding ?? ''),
@@ -410,7 +413,7 @@ function facts(s: SeriesResult): string {
   if (s.key !== null) parts.push(`key ${md(s.key)}`);
   parts.push(plural(s.observations, 'observation'));
   if (s.missing > 0) parts.push(`${s.missing} missing`);
-  parts.push(s.spacing === 'row' ? 'row order' : `${s.spacing}ly`);
+  parts.push(SPACING_WORD[s.spacing]);
   parts.push(s.season > 1 ? `season ${s.season} (${s.seasonSource})` : `no season (${s.seasonSource})`);
   if (s.method) parts.push(`method ${METHOD_LABEL[s.method] ?? md(s.method)}`);
   if (s.intervalKind) parts.push(`${md(s.intervalKind)} intervals`);
