@@ -12,13 +12,21 @@ import { planAnnotations, type Annotation } from './annotations.js';
 import { destination, isPullRequestEvent, readEvent, type Destination } from './event.js';
 import { compareWithBase, isTracked, systemGit, type GitRunner } from './git.js';
 import { octokitApi, type IssueApi, type OctokitSettings } from './github.js';
-import { describeError, marker, publishWarning, syncTrackingIssue, upsertComment } from './publish.js';
+import {
+  describeError,
+  marker,
+  publishWarning,
+  syncTrackingIssue,
+  upsertComment,
+  withMarker,
+} from './publish.js';
 import { configKey, envInputs, readSettings, type Settings } from './settings.js';
 import {
   COMMENT_MAX_BYTES,
   COMMENT_MAX_CHARS,
   SUMMARY_MAX_BYTES,
   closeNote,
+  cutTo,
   fitRendering,
   fullReportNote,
   needsAttention,
@@ -237,12 +245,21 @@ async function tryPublish(
     apiUrl: s.run.apiUrl,
     retryBaseMs: s.run.retryBaseMs,
   });
+  // The renderer counts the marker within maxChars; withMarker and cutTo only guard a renderer that
+  // leaves it out.
   const body = (mark: string) =>
-    fitRendering(
-      (maxChars) =>
-        d.renderMarkdown(results, { maxChars, fullReportNote: fullReportNote(link), marker: mark }),
-      COMMENT_MAX_CHARS - mark.length - 1,
-      COMMENT_MAX_BYTES - mark.length - 1,
+    cutTo(
+      withMarker(
+        fitRendering(
+          (maxChars) =>
+            d.renderMarkdown(results, { maxChars, fullReportNote: fullReportNote(link), marker: mark }),
+          COMMENT_MAX_CHARS,
+          COMMENT_MAX_BYTES,
+        ),
+        mark,
+      ),
+      COMMENT_MAX_CHARS,
+      COMMENT_MAX_BYTES,
     );
   try {
     if (dest.kind === 'comment') {
