@@ -90,14 +90,14 @@ export function mermaidChart(s: SeriesResult): MermaidChart | null {
 
   const title = mermaidLabel(s.name, 60, 'metric');
   const axis = mermaidLabel(s.column, 30, 'value');
-  const names = ['observed, then forecast', `upper ${level}% bound`, `lower ${level}% bound`];
-  if (lines.length === 4) names.push('limit');
+  const names = ['1 observed then forecast', `2 upper ${level}% bound`, `3 lower ${level}% bound`];
+  if (lines.length === 4) names.push('4 limit');
   const source = [
     `%%{init: {"themeVariables": {"xyChart": {"plotColorPalette": "${PALETTE.slice(0, lines.length).join(', ')}"}}}}%%`,
     'xychart-beta',
     `  title "${title}"`,
     `  accTitle: ${title}`,
-    `  accDescr: Lines in order: ${names.join('; ')}`,
+    `  accDescr: Lines in order, ${names.join(', ')}`,
     `  x-axis [${labels.join(', ')}]`,
     `  y-axis "${axis}" ${yMin} --> ${yMax}`,
     ...written.map((l) => `  line [${l.join(', ')}]`),

@@ -1,0 +1,277 @@
+// The HTML report in real headless Chromium: it loads without errors or network, has one fan chart
+// per metric, names every metric, draws bands and checked points where the results say, and keeps
+// a hostile metric name as plain text.
+import { mkdtempSync, statSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import path from 'node:path';
+import type { Browser, Page } from 'playwright-core';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { renderHtml } from '../../src/report/index.js';
+import type { Results } from '../../src/results.js';
+import { launch } from './browser.js';
+import { mixedRun, NASTY_NAME, results, series, shortSeries } from './results.js';
+
+let browser: Browser;
+const dir = mkdtempSync(path.join(tmpdir(), 'leadline-html-'));
+
+beforeAll(async () => {
+  browser = await launch();
+});
+afterAll(async () => {
+  await browser?.close();
+});
+
+interface Loaded {
+  page: Page;
+  errors: string[];
+  requests: string[];
+}
+
+/** Loads the page from a file URL, recording console errors, page errors and any request made. */
+async function load(html: string, name: string, colorScheme: 'light' | 'dark' = 'light'): Promise<Loaded> {
+  const file = path.join(dir, `${name}.html`);
+  writeFileSync(file, html);
+  const page = await browser.newPage({ viewport: { width: 1100, height: 900 }, colorScheme });
+  const errors: string[] = [];
+  const requests: string[] = [];
+  page.on('console', (m) => {
+    if (m.type() === 'error' || m.type() === 'warning') errors.push(m.text());
+  });
+  page.on('pageerror', (e) => errors.push(e.message));
+  await page.route('**/*', (route) => {
+    const url = route.request().url();
+    if (url.startsWith('file:')) return route.continue();
+    requests.push(url);
+    return route.abort();
+  });
+  await page.goto(`file://${file}`);
+  return { page, errors, requests };
+}
+
+function withNasty(): Results {
+  const run = mixedRun();
+  const nasty = series({
+    name: NASTY_NAME,
+    file: 'metrics/<img src=x onerror=alert(1)>.csv',
+    column: 'p95 | ms',
+    lastValue: 260,
+    seed: 4,
+    limit: 130,
+  });
+  nasty.notes = ['A note with <b>markup</b> and ]]> and `ticks`'];
+  return { ...run, series: [...run.series, nasty] };
+}
+
+describe('HTML report in Chromium', () => {
+  it('loads with no console errors and no network, one fan chart per metric, every name present', async () => {
+    const run = withNasty();
+    const html = renderHtml(run);
+    const { page, errors, requests } = await load(html, 'mixed');
+    expect(errors).toEqual([]);
+    expect(requests).toEqual([]);
+    expect(await page.locator('svg.fan').count()).toBe(run.series.length);
+    const text = (await page.textContent('body'))!;
+    for (const s of run.series) expect(text).toContain(s.name);
+    // The overview links to each metric's section.
+    const hrefs = await page.$$eval('table a[href^="#"]', (as) => as.map((a) => a.getAttribute('href')!));
+    expect(hrefs).toHaveLength(run.series.length);
+    for (const h of hrefs) expect(await page.locator(h).count()).toBe(1);
+    const shot = path.join(dir, 'mixed-light.png');
+    await page.screenshot({ path: shot, fullPage: true });
+    expect(statSync(shot).size).toBeGreaterThan(10_000);
+    await page.close();
+  });
+
+  it('has a title and a description on every chart', async () => {
+    const { page } = await load(renderHtml(mixedRun()), 'a11y');
+    const charts = await page.$$eval('svg.chart', (svgs) =>
+      svgs.map((s) => {
+        const ids = (s.getAttribute('aria-labelledby') ?? '').split(' ');
+        return {
+          role: s.getAttribute('role'),
+          labels: ids.map((id) => document.getElementById(id)?.textContent ?? ''),
+          first: s.firstElementChild?.tagName,
+        };
+      }),
+    );
+    expect(charts.length).toBeGreaterThan(10);
+    for (const c of charts) {
+      expect(c.role).toBe('img');
+      expect(c.first).toBe('title');
+      expect(c.labels).toHaveLength(2);
+      expect(c.labels.every((l) => l.length > 10)).toBe(true);
+    }
+    await page.close();
+  });
+
+  it('follows the dark colour scheme', async () => {
+    const html = renderHtml(mixedRun());
+    const bg = async (scheme: 'light' | 'dark') => {
+      const { page } = await load(html, `scheme-${scheme}`, scheme);
+      const c = await page.evaluate(() => getComputedStyle(document.body).backgroundColor);
+      if (scheme === 'dark') await page.screenshot({ path: path.join(dir, 'mixed-dark.png') });
+      await page.close();
+      return c;
+    };
+    expect(await bg('light')).toBe('rgb(251, 250, 247)');
+    expect(await bg('dark')).toBe('rgb(20, 23, 28)');
+  });
+
+  it('keeps a metric name full of markup as text: no script, no injected elements', async () => {
+    const html = renderHtml(withNasty());
+    expect(html).not.toMatch(/<script/i);
+    expect(html).not.toContain('<img');
+    expect(html).not.toContain(']]>');
+    const { page, errors } = await load(html, 'nasty');
+    expect(errors).toEqual([]);
+    expect(await page.locator('script, img, b, i, iframe').count()).toBe(0);
+    const heading = await page
+      .locator('section.metric h2', { hasText: 'evil' })
+      .evaluate((h) => h.firstChild!.textContent);
+    expect(heading!.trim()).toBe(NASTY_NAME);
+    await page.close();
+  });
+});
+
+/** Maps a value through a linear scale given as data-* domain and range strings. */
+function linear(domain: string, range: string): (v: number) => number {
+  const [d0, d1] = domain.split(',').map(Number) as [number, number];
+  const [r0, r1] = range.split(',').map(Number) as [number, number];
+  return (v) => r0 + ((v - d0) / (d1 - d0)) * (r1 - r0);
+}
+
+describe('fan chart geometry', () => {
+  it('nests the bands and places the forecast where the results say', async () => {
+    const run = mixedRun();
+    const { page } = await load(renderHtml(run), 'geometry');
+    for (const [i, s] of run.series.entries()) {
+      if (s.forecast.length === 0) continue;
+      const section = `#metric-${i + 1}`; // mixedRun is already in report order
+      expect(await page.locator(`${section} h2`).textContent()).toContain(s.name);
+      const g = await page
+        .locator(`${section} svg.fan g.plot`)
+        .evaluate((el) => ({ ...(el as HTMLElement).dataset }));
+      const x = linear(g.xDomain!, g.xRange!);
+      const y = linear(g.yDomain!, g.yRange!);
+      const xOf = (step: number, time: string | null) =>
+        g.xKind === 'time' ? x(Date.parse(time!)) : x(s.history.at(-1)!.index + step);
+      const probes = s.forecast.slice(1).flatMap((f) => {
+        const px = xOf(f.step, f.time);
+        const mid = (a: number, b: number) => (y(a) + y(b)) / 2;
+        return [
+          // between the 80% and 95% upper bounds: inside the 95% band only
+          { px, py: mid(f.upper['80']!, f.upper['95']!), in95: true, in80: false },
+          { px, py: mid(f.lower['80']!, f.lower['95']!), in95: true, in80: false },
+          // the point forecast: inside both
+          { px, py: y(f.mean), in95: true, in80: true },
+          // beyond the 95% bound by a few pixels: inside neither
+          { px, py: y(f.upper['95']!) - 3, in95: false, in80: false },
+        ];
+      });
+      const got = await page.locator(`${section} svg.fan`).evaluate((svg, pts) => {
+        const band = (l: string) => svg.querySelector(`path.band[data-level="${l}"]`) as SVGPathElement;
+        const b95 = band('95');
+        const b80 = band('80');
+        return pts.map((p) => {
+          const pt = new DOMPoint(p.px, p.py);
+          return { in95: b95.isPointInFill(pt), in80: b80.isPointInFill(pt) };
+        });
+      }, probes);
+      expect(got).toEqual(probes.map((p) => ({ in95: p.in95, in80: p.in80 })));
+      // The wider band is drawn first, so the narrower one shows on top of it.
+      const order = await page.$$eval(`${section} svg.fan path.band`, (ps) =>
+        ps.map((p) => p.getAttribute('data-level')),
+      );
+      expect(order).toEqual(['95', '80']);
+    }
+    await page.close();
+  });
+
+  it('draws each checked observation at its value and time, alarms as a distinct shape', async () => {
+    const run = mixedRun();
+    const { page } = await load(renderHtml(run), 'checked');
+    for (const [i, s] of run.series.entries()) {
+      for (const c of s.checked) {
+        const section = `#metric-${i + 1}`;
+        const g = await page
+          .locator(`${section} svg.fan g.plot`)
+          .evaluate((el) => ({ ...(el as HTMLElement).dataset }));
+        const x = linear(g.xDomain!, g.xRange!);
+        const y = linear(g.yDomain!, g.yRange!);
+        const want = { x: g.xKind === 'time' ? x(Date.parse(c.time!)) : x(c.index), y: y(c.value) };
+        // Where Chromium actually drew it, mapped back into the chart's own coordinates.
+        const got = await page
+          .locator(`${section} svg.fan .checked[data-index="${c.index}"]`)
+          .evaluate((el) => {
+            const svg = (el as SVGGraphicsElement).ownerSVGElement!;
+            const r = el.getBoundingClientRect();
+            const p = new DOMPoint(r.x + r.width / 2, r.y + r.height / 2).matrixTransform(
+              svg.getScreenCTM()!.inverse(),
+            );
+            return { x: p.x, y: p.y, tag: el.tagName, alarm: el.classList.contains('alarm') };
+          });
+        expect(got.x).toBeCloseTo(want.x, 0);
+        expect(got.y).toBeCloseTo(want.y, 0);
+        expect(got.alarm).toBe(c.alarm);
+        expect(got.tag).toBe(c.alarm ? 'path' : 'circle');
+      }
+    }
+    await page.close();
+  });
+
+  it('draws the limit and the forecast crossing date', async () => {
+    const run = mixedRun();
+    const s = run.series[1]!;
+    const { page } = await load(renderHtml(run), 'limit');
+    const g = await page
+      .locator('#metric-2 svg.fan g.plot')
+      .evaluate((el) => ({ ...(el as HTMLElement).dataset }));
+    const y = linear(g.yDomain!, g.yRange!);
+    const x = linear(g.xDomain!, g.xRange!);
+    const limitY = Number(await page.locator('#metric-2 svg.fan line.limit').getAttribute('y1'));
+    expect(limitY).toBeCloseTo(y(s.limit!.value), 1);
+    const crossX = Number(await page.locator('#metric-2 svg.fan line.crossing').getAttribute('x1'));
+    expect(crossX).toBeCloseTo(x(Date.parse(s.limit!.pointCrossing!.time!)), 1);
+    expect(await page.locator('#metric-2 svg.fan').textContent()).toContain(
+      `forecast crosses ${s.limit!.pointCrossing!.time!.slice(0, 10)}`,
+    );
+    await page.close();
+  });
+
+  it('draws the ACF bounds at ±1.96/√n', async () => {
+    const run = results([series({ name: 'acf' })]);
+    const s = run.series[0]!;
+    const n = s.residuals.filter((r) => r !== null).length;
+    const { page } = await load(renderHtml(run), 'acf');
+    const bounds = await page.$$eval('svg.acf line.acf-bound', (ls) =>
+      ls.map((l) => Number(l.getAttribute('data-bound'))),
+    );
+    expect(bounds[0]).toBeCloseTo(1.96 / Math.sqrt(n), 12);
+    expect(bounds[1]).toBeCloseTo(-1.96 / Math.sqrt(n), 12);
+    expect(await page.locator('svg.acf rect.acf-bar').count()).toBe(s.residualChecks!.acf.length);
+    // Histogram bars hold every residual.
+    const counts = await page.$$eval('svg.hist rect.hist-bar', (rs) =>
+      rs.map((r) => Number(r.getAttribute('data-count'))),
+    );
+    expect(counts.reduce((a, b) => a + b, 0)).toBe(n);
+    await page.close();
+  });
+});
+
+describe('HTML size', () => {
+  it('stays a single file of modest size for 50 metrics', async () => {
+    const run = results([
+      ...Array.from({ length: 49 }, (_, i) => series({ name: `host ${i} disk`, seed: i + 3, n: 500 })),
+      shortSeries('fresh metric'),
+    ]);
+    const html = renderHtml(run);
+    writeFileSync(path.join(dir, 'fifty.html'), html);
+    // 500-point histories, six charts each: well under 200 kB per metric (measured ≈ 70 kB).
+    expect(html.length).toBeLessThan(50 * 200_000);
+    const { page, errors } = await load(html, 'fifty-load');
+    expect(errors).toEqual([]);
+    expect(await page.locator('svg.fan').count()).toBe(50);
+    await page.close();
+    console.log(`HTML for 50 metrics × 500 points: ${(html.length / 1024).toFixed(0)} KiB`);
+  });
+});
