@@ -2,7 +2,7 @@
 // security policy forbids anything else), readable in light and dark mode.
 import type { Results, SeriesResult } from '../results.js';
 import { escapeHtml as h } from './escape.js';
-import { METHOD_LABEL, VERDICT_LABEL, num, pct } from './format.js';
+import { METHOD_LABEL, VERDICT_LABEL, num, pct, plural } from './format.js';
 import { acfChart, backtestChart, fanChart, histogramChart, residualChart } from './svg.js';
 import { buildView, reportOrder, type SeriesView } from './view.js';
 
@@ -187,7 +187,7 @@ export function renderHtml(results: Results): string {
       h(s.method ? (METHOD_LABEL[s.method] ?? s.method) : 'n/a'),
       s.checked.length === 0
         ? 'none'
-        : `${s.checked.filter((c) => c.alarm).length} alarms of ${s.checked.length}`,
+        : `${plural(s.checked.filter((c) => c.alarm).length, 'alarm')} in ${s.checked.length} checked`,
       s.limit ? `${pct(s.limit.probability)} (allowed ${pct(s.limit.risk)})` : '',
     ]),
   );

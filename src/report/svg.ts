@@ -317,7 +317,10 @@ export function residualChart(s: SeriesResult, id: string): string {
     xAxis(x, tl.timeAxis, height - M.bottom, s.spacing) +
     `<line class="zero" x1="${M.left}" x2="${W - M.right}" y1="${zero}" y2="${zero}"/>` +
     (path ? `<path class="resid-line" d="${path}"/>` : '') +
-    pts.map((p) => `<circle class="resid-dot" cx="${f(X(p.x))}" cy="${f(y(p.r))}" r="1.8"/>`).join('') +
+    // Dots only while they stay readable; a long series is clearer (and lighter) as a line.
+    (pts.length <= 150
+      ? pts.map((p) => `<circle class="resid-dot" cx="${f(X(p.x))}" cy="${f(y(p.r))}" r="1.8"/>`).join('')
+      : '') +
     '</g></svg>'
   );
 }
