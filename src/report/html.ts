@@ -169,6 +169,9 @@ function metricSection(s: SeriesResult, v: SeriesView, id: string): string {
   return out.join('\n');
 }
 
+/** Most metric sections in one page. */
+export const HTML_SECTIONS = 250;
+
 /** The whole HTML report as one self-contained file. Metrics in report order: what needs attention first. */
 export function renderHtml(results: Results): string {
   const view = buildView(results, { maxCharts: 0 });
@@ -177,11 +180,14 @@ export function renderHtml(results: Results): string {
   const sum = results.summary;
   const title = `Leadline report: ${VERDICT_LABEL[results.verdict]}`;
   const id = (i: number) => `metric-${i + 1}`;
+  // A section per series up to a cap (attention items come first in this order), so a fleet of
+  // thousands still gives a page a browser opens; the overview lists every series.
+  const shown = Math.min(ordered.length, HTML_SECTIONS);
 
   const overview = table(
     ['Metric', 'Verdict', 'Why', 'Method', 'Checked', 'Limit risk'],
     ordered.map((s, i) => [
-      `<a href="#${id(i)}">${h(s.name)}</a>`,
+      i < shown ? `<a href="#${id(i)}">${h(s.name)}</a>` : h(s.name),
       badge(s.verdict),
       h(s.reason),
       h(s.method ? (METHOD_LABEL[s.method] ?? s.method) : 'n/a'),
@@ -211,7 +217,10 @@ export function renderHtml(results: Results): string {
     `<h2>Overview</h2>`,
     overview,
     problems,
-    ...ordered.map((s, i) => metricSection(s, view.series[i]!, id(i))),
+    ...ordered.slice(0, shown).map((s, i) => metricSection(s, view.series[i]!, id(i))),
+    shown < ordered.length
+      ? `<p class="note">Sections for the first ${shown} of ${ordered.length} series are shown (what needs attention first); the results JSON has every series in full.</p>`
+      : '',
     `<footer>Leadline ${h(results.generator.version)}${results.config ? ` · config ${h(results.config)}` : ''} · generated ${h(results.generatedAt)} · ${num(sum.series)} series</footer>`,
   ].join('\n');
 

@@ -22,6 +22,8 @@ export interface MarkdownOptions {
 }
 
 export const DEFAULT_MAX_CHARS = 65_536;
+/** A lower bound on one metric section's length (an error section with a short name is about 180). */
+const MIN_SECTION = 150;
 
 type Render = (view: ReportView) => string;
 
@@ -120,8 +122,17 @@ function trimmed(view: ReportView, all: Unit[], keep: number, rows: number, note
   };
 }
 
-/** Largest n in [lo, hi] with ok(n), given ok(lo); ok is assumed monotone (true then false). */
+/**
+ * Largest n in [lo, hi] with ok(n), given ok(lo); ok is assumed monotone (true then false). Galloping
+ * up from lo first keeps every trial render near the size limit instead of the whole report's size.
+ */
 function largest(lo: number, hi: number, ok: (n: number) => boolean): number {
+  let step = 1;
+  while (lo + step <= hi && ok(lo + step)) {
+    lo += step;
+    step *= 2;
+  }
+  hi = Math.min(hi, lo + step - 1);
   while (lo < hi) {
     const mid = Math.ceil((lo + hi) / 2);
     if (ok(mid)) lo = mid;
@@ -145,8 +156,11 @@ export function renderMarkdown(results: Results, opts: MarkdownOptions = {}): st
   const view = buildView(results, opts.maxCharts === undefined ? {} : { maxCharts: opts.maxCharts });
   const out = (v: ReportView) => head + tidy(render(v));
 
-  const full = out(view);
-  if (full.length <= maxChars) return full;
+  // Every metric section is well over MIN_SECTION characters, so a big fleet skips the full render.
+  if (view.series.length * MIN_SECTION <= maxChars) {
+    const full = out(view);
+    if (full.length <= maxChars) return full;
+  }
 
   const all = units(view);
   const rowsMax = Math.max(view.attention.length, view.limits.length);

@@ -6,6 +6,7 @@ import { tmpdir } from 'node:os';
 import path from 'node:path';
 import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { HTML_SECTIONS } from '../../src/report/html.js';
 import { renderHtml } from '../../src/report/index.js';
 import type { Results } from '../../src/results.js';
 import { launch } from './browser.js';
@@ -259,6 +260,34 @@ describe('fan chart geometry', () => {
 });
 
 describe('HTML size', () => {
+  it('caps the metric sections for a big fleet, attention first, and lists every series in the overview', () => {
+    const run = results(
+      Array.from({ length: HTML_SECTIONS + 20 }, (_, i) =>
+        series({
+          name: `fleet ${i}`,
+          seed: i + 1,
+          n: 40,
+          ...(i === HTML_SECTIONS + 10 ? { lastValue: 999 } : {}),
+        }),
+      ),
+    );
+    const html = renderHtml(run);
+    expect(html.match(/<svg class="chart fan"/g)).toHaveLength(HTML_SECTIONS);
+    expect(html).toContain(
+      `Sections for the first ${HTML_SECTIONS} of ${HTML_SECTIONS + 20} series are shown`,
+    );
+    // The planted alarm sits near the end of the results but gets a section; alarms come first.
+    const headed = [...html.matchAll(/<h2 id="metric-\d+-h">([^<]*)/g)].map((m) => m[1]!.trim());
+    expect(headed).toContain(`fleet ${HTML_SECTIONS + 10}`);
+    const alarmNames = new Set(run.series.filter((x) => x.verdict === 'alarm').map((x) => x.name));
+    const firstOk = headed.findIndex((n) => !alarmNames.has(n));
+    expect(firstOk).toBe(alarmNames.size);
+    const overviewRows = html
+      .slice(html.indexOf('<h2>Overview</h2>'), html.indexOf('<section'))
+      .match(/<tr>/g)!;
+    expect(overviewRows).toHaveLength(HTML_SECTIONS + 20 + 1); // + header
+  });
+
   it('stays a single file of modest size for 50 metrics', async () => {
     const run = results([
       ...Array.from({ length: 49 }, (_, i) => series({ name: `host ${i} disk`, seed: i + 3, n: 500 })),
