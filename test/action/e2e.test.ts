@@ -70,7 +70,10 @@ function storageCsv(slope: number): string {
   return rows.join('\n') + '\n';
 }
 
+// Analytic intervals keep the expected verdicts independent of how "auto" chooses the interval kind.
 const CONFIG = `version: 1
+defaults:
+  intervals: analytic
 metrics:
   - name: checkout-latency-p95
     file: metrics/latency.csv
@@ -388,7 +391,7 @@ describe('the bundled Action on a pull request', () => {
     const latency = out.results!.series.find((s) => s.metric === 'checkout-latency-p95')!;
     expect(latency.checked.map((c) => c.row)).toEqual([63]);
     expect(out.results!.series.find((s) => s.metric === 'orders-db-storage')!.checked).toHaveLength(1);
-    expect(server.commentsOn(17)[0]!.body).toContain('fetch-depth: 0');
+    expect(server.commentsOn(17)[0]!.body).toContain('fetch-depth');
   });
 });
 
@@ -442,7 +445,10 @@ describe('the bundled Action on scheduled runs', () => {
       name: 'workflow_dispatch',
       payload: { repository: repository(server) },
     });
-    expect(reopened.results!.verdict).toBe('alarm');
+    expect(
+      reopened.results!.verdict,
+      JSON.stringify(reopened.results!.series.map((x) => [x.method, x.checked, x.reason])),
+    ).toBe('alarm');
     expect(server.issues).toHaveLength(1);
     expect(server.issues[0]).toMatchObject({ state: 'open', state_reason: 'reopened' });
     expect(server.commentsOn(1).at(-1)!.body).toMatch(/^Reopened/);
@@ -468,6 +474,40 @@ describe('the bundled Action on scheduled runs', () => {
       else expect(errors).toEqual([]);
     }
     expect(server.calls).toEqual([]); // comment: off
+  });
+
+  it('comments on a given issue with untrusted names escaped, and writes the HTML and markdown files', async () => {
+    const ws = makeWorkspace();
+    const hostile = '<script>alert(1)</script> | **p95** `x`';
+    writeFileSync(
+      path.join(ws.root, '.github', 'leadline.yml'),
+      CONFIG.replace('name: checkout-latency-p95', `name: ${JSON.stringify(hostile)}`),
+    );
+    appendFileSync(path.join(ws.root, 'metrics', 'latency.csv'), `${day(60)},260.0\n`);
+    const html = path.join(ws.runnerTemp, 'out', 'report.html');
+    const markdown = path.join(ws.runnerTemp, 'out', 'report.md');
+    const out = await runAction(
+      server,
+      ws,
+      { name: 'push', payload: { ref: 'refs/heads/main', repository: repository(server) } },
+      { comment: 'issue:5', html, markdown },
+    );
+    expect(out.code).toBe(0);
+    const [c] = server.commentsOn(5);
+    expect(c!.body.startsWith(MARK)).toBe(true);
+    expect(c!.body).not.toContain('<script>');
+    expect(c!.body).toContain('alert(1)');
+    expect(readFileSync(html, 'utf8')).not.toContain('<script>alert(1)');
+    expect(readFileSync(markdown, 'utf8')).not.toContain('<script>');
+    expect(readFileSync(markdown, 'utf8')).toContain('alert(1)');
+    // The CSVs and the config are untouched: nothing was written into the checkout.
+    const before = readFileSync(path.join(ws.root, 'metrics', 'latency.csv'), 'utf8');
+    expect(
+      git(ws.root, 'status', '--porcelain', '--untracked-files=all')
+        .split('\n')
+        .map((l) => l.trim()),
+    ).toEqual(['M .github/leadline.yml', 'M metrics/latency.csv']); // our own edits, nothing new
+    expect(before.endsWith(`${day(60)},260.0\n`)).toBe(true);
   });
 
   it('fails with the config error quoted and still writes the summary and outputs', async () => {
