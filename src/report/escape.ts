@@ -10,19 +10,25 @@
 const CONTROL = /[\u0000-\u0008\u000b\u000c\u000e-\u001f\u007f\u2028\u2029]/g;
 const NEWLINES = /\r\n|[\r\n\t]/g;
 
-const MARKDOWN_SPECIAL = /[&<>"'`|\\*_~[\]#$:]/g;
+const MARKDOWN_SPECIAL = /[&<>"'`|\\*_~[\]#$]/g;
 
 /**
  * Text made safe for GitHub-flavoured markdown and HTML: one line, no markup, no table breakers.
  * Line breaks and tabs become spaces; other control characters are dropped. A mention-looking `@name`
- * gets a zero-width space after the `@` so a report never pings anyone.
+ * gets a zero-width space after the `@` so a report never pings anyone, and URL-looking text is not
+ * turned into a link.
  */
 export function escapeMarkdown(text: string): string {
-  return String(text)
-    .replace(NEWLINES, ' ')
-    .replace(CONTROL, '')
-    .replace(MARKDOWN_SPECIAL, (c) => `&#${c.codePointAt(0)!};`)
-    .replace(/@(?=\w)/g, '@&#8203;');
+  return (
+    String(text)
+      .replace(NEWLINES, ' ')
+      .replace(CONTROL, '')
+      .replace(MARKDOWN_SPECIAL, (c) => `&#${c.codePointAt(0)!};`)
+      // No autolinks: GitHub links bare "scheme://" and "www." text.
+      .replace(/:(?=\/\/)/g, '&#58;')
+      .replace(/\b(www)\./gi, '$1&#46;')
+      .replace(/@(?=\w)/g, '@&#8203;')
+  );
 }
 
 const HTML_SPECIAL: Record<string, string> = {

@@ -12,7 +12,9 @@ describe('escapeMarkdown', () => {
     expect(escapeMarkdown('a & b "c" \'d\'')).toBe('a &#38; b &#34;c&#34; &#39;d&#39;');
     expect(escapeMarkdown('\\')).toBe('&#92;');
     expect(escapeMarkdown('$x$ # h')).toBe('&#36;x&#36; &#35; h');
-    expect(escapeMarkdown('https://x')).toBe('https&#58;//x');
+    expect(escapeMarkdown('https://x and www.example.org, time 10:30')).toBe(
+      'https&#58;//x and www&#46;example.org, time 10:30',
+    );
   });
 
   it('keeps everything on one line and drops control characters', () => {

@@ -114,9 +114,7 @@ describe('renderMarkdown', () => {
     });
     const out = renderMarkdown(r);
     expect(out).toContain('### Problems');
-    expect(out).toContain(
-      '| metrics/x.csv:1:7 | column &#34;p95&#34; not found; columns are&#58; date, p50 |',
-    );
+    expect(out).toContain('| metrics/x.csv:1:7 | column &#34;p95&#34; not found; columns are: date, p50 |');
     expect(out).toContain(
       '⚪ <b>too short</b>: not enough data. Only 6 observations; at least 10 are needed.',
     );
