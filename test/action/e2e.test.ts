@@ -378,6 +378,52 @@ describe('the bundled Action on a pull request', () => {
     expect(commands(out.stdout, 'warning').filter((w) => w.message.includes('publish'))).toEqual([]);
   });
 
+  it('waits out primary and secondary rate limits', async () => {
+    const ws = makeWorkspace({ pr: [`${day(60)},121.0`] });
+    const reset = String(Math.floor(Date.now() / 1000) + 1);
+    server.failures.push({
+      method: 'GET',
+      path: /\/issues\/17\/comments$/,
+      status: 403,
+      times: 1,
+      message: 'API rate limit exceeded',
+      headers: { 'x-ratelimit-remaining': '0', 'x-ratelimit-reset': reset },
+    });
+    server.failures.push({
+      method: 'POST',
+      path: /\/issues\/17\/comments$/,
+      status: 403,
+      times: 1,
+      message: 'You have exceeded a secondary rate limit. Please wait a few minutes before you try again.',
+      headers: { 'retry-after': '1' },
+    });
+    const out = await runAction(server, ws, { name: 'pull_request', payload: prPayload(server, ws) });
+    expect(out.code).toBe(0);
+    expect(server.calls.filter((c) => c.status === 403)).toHaveLength(2);
+    expect(server.commentsOn(17)).toHaveLength(1);
+    expect(out.stdout).toContain('rate limit reached');
+    expect(out.stdout).toContain('secondary rate limit');
+  });
+
+  it('leaves exactly one comment when two runs race on the same pull request', async () => {
+    const ws = makeWorkspace({ pr: [`${day(60)},121.0`] });
+    // Both runs' first listing is answered only once both have asked: each sees no comment.
+    server.barrier = { method: 'GET', path: /\/issues\/17\/comments$/, count: 2, waiting: [] };
+    const [a, b] = await Promise.all([
+      runAction(server, ws, { name: 'pull_request', payload: prPayload(server, ws) }),
+      runAction(server, ws, { name: 'pull_request', payload: prPayload(server, ws) }),
+    ]);
+    expect([a.code, b.code]).toEqual([0, 0]);
+    expect(server.calls.filter((c) => c.method === 'POST')).toHaveLength(2);
+    const left = server.commentsOn(17);
+    expect(left).toHaveLength(1);
+    expect(left[0]!.body.startsWith(MARK)).toBe(true);
+    expect(server.calls.filter((c) => c.method === 'DELETE').length).toBeGreaterThanOrEqual(1);
+    // Both runs point at the survivor.
+    expect(a.outputs['comment-url']).toBe(b.outputs['comment-url']);
+    expect(a.outputs['comment-url']).toContain(`#issuecomment-${left[0]!.id}`);
+  });
+
   it('says in the report when the base commit is missing, and checks the last rows instead', async () => {
     const ws = makeWorkspace({ pr: [`${day(60)},121.0`, `${day(61)},122.0`] });
     const out = await runAction(server, ws, {

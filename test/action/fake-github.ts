@@ -36,6 +36,7 @@ export interface Failure {
   status: number;
   times: number;
   message?: string;
+  headers?: Record<string, string>;
 }
 
 export class FakeGitHubServer {
@@ -44,6 +45,8 @@ export class FakeGitHubServer {
   issues: StoredIssue[] = [];
   labels = new Set<string>();
   failures: Failure[] = [];
+  /** Holds the first `count` matching calls until all have arrived (see handle). */
+  barrier: { method: string; path: RegExp; count: number; waiting: (() => void)[] } | null = null;
   private nextComment = 5000;
   private clock = Date.parse('2026-03-01T00:00:00Z');
   private server: Server | null = null;
@@ -154,7 +157,18 @@ export class FakeGitHubServer {
     const fail = this.failures.find((f) => f.times > 0 && f.method === call.method && f.path.test(call.path));
     if (fail) {
       fail.times--;
-      return send(fail.status, { message: fail.message ?? `injected ${fail.status}` });
+      return send(fail.status, { message: fail.message ?? `injected ${fail.status}` }, fail.headers);
+    }
+    if (this.barrier && this.barrier.method === call.method && this.barrier.path.test(call.path)) {
+      // Hold matching calls until `count` of them are waiting, then answer all: forces a race.
+      const b = this.barrier;
+      await new Promise<void>((resolve) => {
+        b.waiting.push(resolve);
+        if (b.waiting.length >= b.count) {
+          this.barrier = null;
+          for (const w of b.waiting) w();
+        }
+      });
     }
 
     const base = `/repos/${this.owner}/${this.repo}`;
