@@ -57,7 +57,7 @@ mkdirSync(path.join(root, 'metrics'), { recursive: true });
 {
   const days = 120;
   const rows: (string | number)[][] = [];
-  let gb = 1_520;
+  let gb = 1_600;
   for (let i = 0; i < days; i++) {
     const t = END - (days - 1 - i) * DAY;
     gb += 3.1 + rnd.normal() * 2.2;

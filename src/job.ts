@@ -48,6 +48,17 @@ export interface JobOptions {
   now?: Date;
 }
 
+const SPACING_WORD: Record<Series['spacing'], string> = {
+  minute: 'minute spacing',
+  hour: 'hourly spacing',
+  day: 'daily spacing',
+  week: 'weekly spacing',
+  month: 'monthly spacing',
+  quarter: 'quarterly spacing',
+  year: 'yearly spacing',
+  row: 'row order',
+};
+
 /** Points of history (and residuals) kept per series in the results, for charts. */
 export const HISTORY_CAP = 500;
 
@@ -75,15 +86,17 @@ export function buildResults(plan: Plan, outcome: IngestOutcome, o: BuildOptions
 
   for (const f of outcome.failures) {
     const e = f.error;
-    problems.push({
-      kind: e.kind === 'config' ? 'config' : 'data',
-      message: e.message,
-      file: e.file,
-      line: e.line,
-      column: e.column,
-      keyPath: e.keyPath,
-      metric: f.metric.name,
-    });
+    // Too little data is a verdict of its own, not a problem to fix; the rest are config/data errors.
+    if (f.verdict === 'error')
+      problems.push({
+        kind: e.kind === 'config' ? 'config' : 'data',
+        message: e.message,
+        file: e.file,
+        line: e.line,
+        column: e.column,
+        keyPath: e.keyPath,
+        metric: f.metric.name,
+      });
     results.push(failedSeries(f.metric, f.column, f.key, f.verdict, e.describe()));
   }
 
@@ -130,9 +143,7 @@ function analyseOne(s: Series, m: MetricPlan, o: BuildOptions): SeriesResult {
   const seasonSource = m.season === 'auto' ? 'auto' : 'config';
   const season = m.season === 'auto' ? autoSeason(s.spacing, observations, s.stepMs) : m.season;
   if (m.season === 'auto')
-    notes.push(
-      `Season chosen from the ${s.spacing === 'row' ? 'row order' : `${s.spacing}ly spacing`}: ${season === 1 ? 'none' : season}.`,
-    );
+    notes.push(`Season chosen from the ${SPACING_WORD[s.spacing]}: ${season === 1 ? 'none' : season}.`);
   const methods = season > 1 ? m.methods : m.methods.filter((x) => x !== 'seasonal-naive');
   if (methods.length < m.methods.length)
     notes.push('Seasonal naive left out: the series has no season (season 1), where it equals naive.');
