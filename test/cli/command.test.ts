@@ -100,17 +100,10 @@ describe('the command on the demo scenario', () => {
       path.join(dir, 'n.csv'),
       'v\n' + Array.from({ length: 30 }, (_, i) => 10 + (i % 3)).join('\n') + '\n',
     );
-    const r = await cli([
-      'run',
-      '--cwd',
+    const r = await cli(
+      ['run', '--cwd', dir, '--config', 'l.yml', '--json', 'out.json', '--print', 'summary'],
       dir,
-      '--config',
-      'l.yml',
-      '--json',
-      'out.json',
-      '--print',
-      'summary',
-    ]);
+    ); // output paths are relative to where the command runs, not to --cwd
     expect(r.code).toBe(2);
     expect(r.out).toMatch(/m\.csv:4:1/);
     const results = JSON.parse(readFileSync(path.join(dir, 'out.json'), 'utf8')) as Results;
