@@ -1,0 +1,183 @@
+// Small numerical helpers shared by the engine: compensated sums, scaled sums of squares, and
+// sample quantiles. Missing values are anything non-finite (NaN, and also ±Infinity).
+
+/** True for a usable observation: finite. NaN (missing) and ±Infinity are treated as missing. */
+export function present(x: number): boolean {
+  return Number.isFinite(x);
+}
+
+/**
+ * Neumaier's improved Kahan summation (Neumaier 1974): the running compensation c collects the
+ * low-order bits lost when adding a small term to a large sum (or the reverse), so the result is
+ * as if computed in about twice the precision. Returns the sum of the finite entries of xs.
+ */
+export function stableSum(xs: ArrayLike<number>): number {
+  let s = 0;
+  let c = 0;
+  for (let i = 0; i < xs.length; i++) {
+    const x = xs[i]!;
+    if (!Number.isFinite(x)) continue;
+    const t = s + x;
+    c += Math.abs(s) >= Math.abs(x) ? s - t + x : x - t + s;
+    s = t;
+  }
+  return s + c;
+}
+
+/**
+ * Mean and sum of squared deviations of the finite entries of xs, in two passes: a compensated mean
+ * (corrected once by the compensated mean of the deviations, which removes the rounding of the
+ * first pass), then the squared deviations summed after scaling by a power of two near the largest
+ * deviation, so that neither huge (1e200) nor tiny (1e-200) magnitudes overflow or underflow.
+ * `center`, when given, replaces the sample mean as the point deviations are taken from.
+ */
+export function meanAndSquares(
+  xs: ArrayLike<number>,
+  center?: number,
+): { n: number; mean: number; ss: number } {
+  let n = 0;
+  for (let i = 0; i < xs.length; i++) if (Number.isFinite(xs[i]!)) n++;
+  if (n === 0) return { n: 0, mean: NaN, ss: NaN };
+  let mean = stableSum(xs) / n;
+  if (!Number.isFinite(mean)) {
+    // The sum overflowed: average the halves of each value instead.
+    let s = 0;
+    for (let i = 0; i < xs.length; i++) if (Number.isFinite(xs[i]!)) s += xs[i]! / n;
+    mean = s;
+  }
+  // Second pass: compensated mean of deviations (zero in exact arithmetic).
+  let s = 0;
+  let c = 0;
+  for (let i = 0; i < xs.length; i++) {
+    const x = xs[i]!;
+    if (!Number.isFinite(x)) continue;
+    const d = x - mean;
+    const t = s + d;
+    c += Math.abs(s) >= Math.abs(d) ? s - t + d : d - t + s;
+    s = t;
+  }
+  mean += (s + c) / n;
+  const m = center ?? mean;
+  let big = 0;
+  for (let i = 0; i < xs.length; i++) {
+    const x = xs[i]!;
+    if (Number.isFinite(x)) big = Math.max(big, Math.abs(x - m));
+  }
+  if (big === 0 || !Number.isFinite(big)) return { n, mean, ss: big === 0 ? 0 : Infinity };
+  const k = powerOfTwoBelow(big);
+  let ss = 0;
+  for (let i = 0; i < xs.length; i++) {
+    const x = xs[i]!;
+    if (!Number.isFinite(x)) continue;
+    const d = (x - m) / k;
+    ss += d * d;
+  }
+  return { n, mean, ss: ss * k * k };
+}
+
+/** The power of two 2^floor(log2 x) for x > 0 (exact scaling factor). */
+export function powerOfTwoBelow(x: number): number {
+  const e = Math.floor(Math.log2(x));
+  return 2 ** Math.max(-1022, Math.min(1023, e));
+}
+
+/**
+ * Sample quantile of an ascending sorted array by linear interpolation between order statistics:
+ * x_(j) + g (x_(j+1) - x_(j)) with position (n - 1) p (Hyndman & Fan 1996, definition 7).
+ * NaN for an empty array or p outside [0, 1].
+ */
+export function sortedQuantile(sorted: ArrayLike<number>, p: number, from = 0, to = sorted.length): number {
+  const n = to - from;
+  if (n <= 0 || !(p >= 0 && p <= 1)) return NaN;
+  const pos = (n - 1) * p;
+  const j = Math.floor(pos);
+  const g = pos - j;
+  const a = sorted[from + j]!;
+  if (g === 0 || j + 1 >= n) return a;
+  const b = sorted[from + j + 1]!;
+  return a + g * (b - a);
+}
+
+/** A finite number shown to 4 significant digits (for findings and reasons). */
+export function fmt(x: number, digits = 4): string {
+  if (!Number.isFinite(x)) return String(x);
+  if (x === 0) return '0';
+  const a = Math.abs(x);
+  if (a >= 1e6 || a < 1e-4) return x.toExponential(digits - 1);
+  return String(Number(x.toPrecision(digits)));
+}
+
+/** A p-value for text: "p < 0.0001" style below 1e-4, else 2 significant digits. */
+export function fmtP(p: number): string {
+  if (!Number.isFinite(p)) return 'p not computed';
+  if (p < 1e-4) return 'p < 0.0001';
+  return `p = ${Number(p.toPrecision(2))}`;
+}
+
+/**
+ * Definition-7 quantiles (see sortedQuantile) of an unsorted sample at several probabilities, by
+ * selection instead of a full sort: the needed order statistics are placed with Hoare's
+ * quickselect, each within the part left of the previous one. `work` is reordered.
+ */
+export function selectQuantiles(work: Float64Array, probs: ArrayLike<number>, out: Float64Array): void {
+  const n = work.length;
+  if (n === 0) {
+    out.fill(NaN);
+    return;
+  }
+  // Needed ranks (0-based), ascending and distinct.
+  const ranks: number[] = [];
+  for (let k = 0; k < probs.length; k++) {
+    const pos = (n - 1) * probs[k]!;
+    const j = Math.floor(pos);
+    ranks.push(j);
+    if (pos > j && j + 1 < n) ranks.push(j + 1);
+  }
+  ranks.sort((a, b) => a - b);
+  let lo = 0;
+  let prev = -1;
+  for (const r of ranks) {
+    if (r === prev) continue;
+    select(work, lo, n - 1, r);
+    lo = r + 1;
+    prev = r;
+  }
+  for (let k = 0; k < probs.length; k++) {
+    const pos = (n - 1) * probs[k]!;
+    const j = Math.floor(pos);
+    const g = pos - j;
+    const a = work[j]!;
+    out[k] = g === 0 || j + 1 >= n ? a : a + g * (work[j + 1]! - a);
+  }
+}
+
+/** Puts the k-th smallest of a[lo..hi] at a[k], smaller ones left of it, larger right (Hoare). */
+function select(a: Float64Array, lo: number, hi: number, k: number): void {
+  while (hi > lo) {
+    // Median of three as the pivot.
+    const mid = (lo + hi) >>> 1;
+    let x = a[lo]!;
+    let y = a[mid]!;
+    let z = a[hi]!;
+    if (x > y) [x, y] = [y, x];
+    if (y > z) [y, z] = [z, y];
+    if (x > y) [x, y] = [y, x];
+    const pivot = y;
+    let i = lo;
+    let j = hi;
+    while (i <= j) {
+      while (a[i]! < pivot) i++;
+      while (a[j]! > pivot) j--;
+      if (i <= j) {
+        const t = a[i]!;
+        a[i] = a[j]!;
+        a[j] = t;
+        i++;
+        j--;
+      }
+    }
+    if (k <= j) hi = j;
+    else if (k >= i) lo = i;
+    else return;
+  }
+}
