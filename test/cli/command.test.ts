@@ -86,7 +86,9 @@ describe('the command on the demo scenario', () => {
     expect(r.out).toMatch(/AT RISK\s+events-db-storage/);
     expect(r.out).toMatch(/Gate failed \(fail-on: alarm\): 1 alarm/);
     expect(r.out).toMatch(/not guarantees/);
-    expect(r.out).not.toMatch(/\u001b\[/); // not a terminal: no colour codes
+    expect(r.out).not.toContain('\u001b['); // not a terminal: no colour codes
+    const coloured = await cli(['run', '--cwd', demo, '--config', 'leadline.yml', '--fail-on', 'never', '--color']);
+    expect(coloured.out).toContain('\u001b[31mALARM');
   });
 
   it('exits 2 with file, line and column for a non-numeric cell, and still writes the results', async () => {
