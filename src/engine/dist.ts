@@ -3,7 +3,7 @@
 // Every function takes plain numbers and never throws: a NaN argument, or a parameter outside its
 // domain (df <= 0, p outside [0, 1]), returns NaN. Quantiles at p = 0 and p = 1 are -Infinity and
 // +Infinity (0 and +Infinity for the chi-square). jstat's own inverses are accurate to about 1e-7
-// relative for the t and much worse for the chi-square at large df (2e-4 at df = 10,000), so the t and
+// relative for the t (its CDF to about 3e-8) and much worse for the chi-square at large df (2e-4 at df = 10,000), so the t and
 // chi-square quantiles are polished with Newton steps on jstat's CDF and density, which are accurate
 // to about 1e-12; test/engine/dist.test.ts checks all of them against the @stdlib packages.
 import jstatModule from 'jstat';
@@ -31,7 +31,11 @@ export function tCdf(x: number, df: number): number {
   if (bad(x, df) || !(df > 0)) return NaN;
   if (x === Infinity) return 1;
   if (x === -Infinity) return 0;
+  if (x === 0) return 0.5;
   if (df === Infinity || df > 1e10) return jStat.normal.cdf(x, 0, 1);
+  // Closed forms at 1 and 2 df (Cauchy, and F(x) = 1/2 + x / (2 sqrt(2 + x^2))).
+  if (df === 1) return 0.5 + Math.atan(x) / Math.PI;
+  if (df === 2) return 0.5 + x / (2 * Math.sqrt(2 + x * x));
   return jStat.studentt.cdf(x, df);
 }
 
@@ -45,15 +49,23 @@ export function tQuantile(p: number, df: number): number {
   if (p === 1) return Infinity;
   if (p === 0.5) return 0;
   if (df === Infinity || df > 1e10) return jStat.normal.inv(p, 0, 1);
+  if (df === 1) return Math.tan(Math.PI * (p - 0.5));
+  if (df === 2) return (2 * p - 1) / Math.sqrt(2 * p * (1 - p));
   let x = jStat.studentt.inv(p, df);
   if (!Number.isFinite(x)) return x;
-  for (let i = 0; i < 3; i++) {
+  // In the far tails jstat's CDF has less relative precision than its inverse: keep the start.
+  if (p < 1e-3 || p > 1 - 1e-3) return x;
+  // A Newton step is kept only when it brings F(x) closer to p (far in the tails of small df the
+  // density underflows and the CDF loses relative precision; there jstat's start is kept).
+  let err = Math.abs(jStat.studentt.cdf(x, df) - p);
+  for (let i = 0; i < 3 && err > 0; i++) {
     const f = jStat.studentt.pdf(x, df);
     if (!(f > 0)) break;
-    const step = (jStat.studentt.cdf(x, df) - p) / f;
-    if (!Number.isFinite(step)) break;
-    x -= step;
-    if (Math.abs(step) <= 1e-15 * Math.max(1, Math.abs(x))) break;
+    const nx = x - (jStat.studentt.cdf(x, df) - p) / f;
+    const nerr = Number.isFinite(nx) ? Math.abs(jStat.studentt.cdf(nx, df) - p) : Infinity;
+    if (!(nerr < err)) break;
+    x = nx;
+    err = nerr;
   }
   return x;
 }
@@ -63,7 +75,48 @@ export function chiSquareCdf(x: number, k: number): number {
   if (bad(x, k) || !(k > 0)) return NaN;
   if (x <= 0) return 0;
   if (x === Infinity) return 1;
-  return jStat.chisquare.cdf(x, k);
+  return k <= JSTAT_GAMMA_MAX_DF ? jStat.chisquare.cdf(x, k) : regularizedGammaP(k / 2, x / 2);
+}
+
+/**
+ * jstat's regularised incomplete gamma is accurate to about 1e-10 up to 1,000 chi-square df and
+ * drifts above (0.5056 instead of 0.5 at the median of 10,000 df); beyond it the chi-square CDF is
+ * computed here by the classic series (x < a + 1) and Lentz continued fraction (otherwise) for
+ * P(a, x) (Numerical Recipes, 3rd ed., section 6.2), with jstat's log-gamma.
+ */
+const JSTAT_GAMMA_MAX_DF = 1000;
+
+function regularizedGammaP(a: number, x: number): number {
+  if (x <= 0) return 0;
+  const lnPre = a * Math.log(x) - x - jStat.gammaln(a);
+  if (x < a + 1) {
+    let term = 1 / a;
+    let sum = term;
+    for (let n = 1; n < 100_000; n++) {
+      term *= x / (a + n);
+      sum += term;
+      if (Math.abs(term) < Math.abs(sum) * 1e-16) break;
+    }
+    return Math.min(1, sum * Math.exp(lnPre));
+  }
+  const tiny = 1e-300;
+  let b = x + 1 - a;
+  let c = 1 / tiny;
+  let d = 1 / b;
+  let h = d;
+  for (let i = 1; i < 100_000; i++) {
+    const an = -i * (i - a);
+    b += 2;
+    d = an * d + b;
+    if (Math.abs(d) < tiny) d = tiny;
+    c = b + an / c;
+    if (Math.abs(c) < tiny) c = tiny;
+    d = 1 / d;
+    const del = d * c;
+    h *= del;
+    if (Math.abs(del - 1) < 1e-16) break;
+  }
+  return Math.max(0, 1 - Math.exp(lnPre) * h);
 }
 
 /** Chi-square quantile: jstat's inverse polished by Newton steps (see the file comment). */
@@ -73,10 +126,10 @@ export function chiSquareQuantile(p: number, k: number): number {
   if (p === 1) return Infinity;
   let x = jStat.chisquare.inv(p, k);
   if (!(x > 0) || !Number.isFinite(x)) return x;
-  for (let i = 0; i < 6; i++) {
+  for (let i = 0; i < 8; i++) {
     const f = jStat.chisquare.pdf(x, k);
     if (!(f > 0)) break;
-    const step = (jStat.chisquare.cdf(x, k) - p) / f;
+    const step = (chiSquareCdf(x, k) - p) / f;
     if (!Number.isFinite(step)) break;
     // Keep the iterate positive: at most halve x in one step.
     x = step >= x ? x / 2 : x - step;
