@@ -80,6 +80,8 @@ export interface CheckedObservation {
   lower: number;
   upper: number;
   level: number;
+  /** Interval kind the observation was judged with (chosen from the history before it under \`auto\`). */
+  intervalKind?: IntervalKind;
   /** Outside the interval at `level` (either side). */
   outside: boolean;
   /** Which side it left by, if any. */

@@ -1,6 +1,8 @@
 // Which observations are checked, which of them raise alarms, and which limits are at risk.
 // Pure: takes a series' values and the engine's analysis, returns plain data.
 import {
+  checkResiduals,
+  chooseIntervalKind,
   fitMethod,
   isFit,
   makeForecast,
@@ -80,10 +82,21 @@ export function checkObservations(c: CheckContext): CheckOutcome {
   }
   const horizon = c.indices[c.indices.length - 1]! - origin + 1;
   const mb = c.analysis.backtest.methods[fit.method];
+  // With `intervals: auto` the kind is chosen from the residuals known at the origin, so an anomaly
+  // among the checked rows cannot widen (or reshape) the interval it is judged against.
+  let kind = c.options.intervals === 'auto' ? c.analysis.forecast.kind : c.options.intervals;
+  if (c.options.intervals === 'auto') {
+    const prior = chooseIntervalKind(checkResiduals(fit), mb);
+    kind = prior.kind;
+    if (prior.kind !== c.analysis.forecast.kind)
+      notes.push(
+        `Checked rows were judged with ${prior.kind} intervals, chosen from the history before them: ${prior.reason}`,
+      );
+  }
   const fc = makeForecast(fit, {
     horizon,
     levels: [c.options.alarmLevel],
-    kind: c.analysis.forecast.kind,
+    kind,
     paths: c.options.paths,
     seed: c.options.seed,
     ...(mb ? { backtest: mb } : {}),
@@ -110,6 +123,7 @@ export function checkObservations(c: CheckContext): CheckOutcome {
       lower,
       upper,
       level: c.options.alarmLevel,
+      intervalKind: fc.kind,
       outside: side !== null,
       side,
       pValue: p,
