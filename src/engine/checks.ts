@@ -41,7 +41,7 @@ export function checkResiduals(fit: Fit, lags?: number): ResidualChecks {
   for (let i = 0; i < all.length; i++) if (Number.isFinite(all[i]!)) n++;
   const e = new Float64Array(n);
   for (let i = 0, j = 0; i < all.length; i++) if (Number.isFinite(all[i]!)) e[j++] = all[i]!;
-  const { mean, ss } = meanAndSquares(e);
+  const { mean, ss, sd } = meanAndSquares(e);
   // Deviations scaled by a power of two so huge and tiny residuals neither overflow nor underflow.
   let big = 0;
   for (let i = 0; i < n; i++) big = Math.max(big, Math.abs(e[i]! - mean));
@@ -124,7 +124,7 @@ export function checkResiduals(fit: Fit, lags?: number): ResidualChecks {
       ok: mean === 0 || !constant,
     };
   } else {
-    const s = Math.sqrt(ss / (n - 1));
+    const s = sd(n - 1);
     const t = mean / (s / Math.sqrt(n));
     const p = Math.min(1, 2 * tCdf(-Math.abs(t), n - 1));
     const ok = !(p < ALPHA);
@@ -201,10 +201,12 @@ export function checkResiduals(fit: Fit, lags?: number): ResidualChecks {
   } else {
     const first = meanAndSquares(e.subarray(0, third));
     const last = meanAndSquares(e.subarray(n - third));
-    const v1 = first.ss / (third - 1);
-    const v3 = last.ss / (third - 1);
     const df1 = third - 1;
-    const F = v3 / v1;
+    const s1 = first.sd(df1);
+    const s3 = last.sd(df1);
+    const v1 = s1 * s1;
+    const v3 = s3 * s3;
+    const F = (s3 / s1) * (s3 / s1);
     if (!(v1 > 0) || !Number.isFinite(F)) {
       spread = {
         ...notComputed(spreadName, 'the first third of the residuals has no spread at all.', df1),

@@ -83,12 +83,12 @@ function fitMean(y: Float64Array, season: number): Fit | FitFailure {
       method: 'mean',
       reason: `The mean method needs at least 2 observed values to estimate sigma; the series has ${count}.`,
     };
-  const { mean: level, ss } = meanAndSquares(y);
+  const { mean: level, sd } = meanAndSquares(y);
   const fitted = new Float64Array(T).fill(level);
   const residuals = new Float64Array(T);
   for (let i = 0; i < T; i++) residuals[i] = present(y[i]!) ? y[i]! - level : NaN;
   const df = count - 1;
-  const sigma = Math.sqrt(ss / df);
+  const sigma = sd(df);
   const notes = missingNote(
     T,
     count,
@@ -160,8 +160,7 @@ function fitDifference(
       if (present(residuals[i]!)) residuals[i] = residuals[i]! - slope;
     }
     // sqrt(sum e^2 / df): squares about zero, not about the residuals' own mean (DESIGN).
-    const { ss } = meanAndSquares(residuals, 0);
-    sigma = Math.sqrt(ss / df);
+    sigma = meanAndSquares(residuals, 0).sd(df);
     coefficients.slope = slope;
     coefficients.span = span;
     const s = sigma;
@@ -186,8 +185,7 @@ function fitDifference(
       ),
     );
   } else {
-    const { ss } = meanAndSquares(residuals);
-    sigma = Math.sqrt(ss / df);
+    sigma = meanAndSquares(residuals).sd(df);
     const s = sigma;
     if (method === 'naive') {
       point = (H) => new Float64Array(Math.max(0, H)).fill(y[last]!);

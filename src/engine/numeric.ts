@@ -31,13 +31,19 @@ export function stableSum(xs: ArrayLike<number>): number {
  * deviation, so that neither huge (1e200) nor tiny (1e-200) magnitudes overflow or underflow.
  * `center`, when given, replaces the sample mean as the point deviations are taken from.
  */
-export function meanAndSquares(
-  xs: ArrayLike<number>,
-  center?: number,
-): { n: number; mean: number; ss: number } {
+export interface Squares {
+  n: number;
+  mean: number;
+  /** Sum of squared deviations (may overflow or underflow at extreme magnitudes; use `sd`). */
+  ss: number;
+  /** sqrt(ss / df) computed without forming ss: scale * sqrt(scaled ss / df). */
+  sd: (df: number) => number;
+}
+
+export function meanAndSquares(xs: ArrayLike<number>, center?: number): Squares {
   let n = 0;
   for (let i = 0; i < xs.length; i++) if (Number.isFinite(xs[i]!)) n++;
-  if (n === 0) return { n: 0, mean: NaN, ss: NaN };
+  if (n === 0) return { n: 0, mean: NaN, ss: NaN, sd: () => NaN };
   let mean = stableSum(xs) / n;
   if (!Number.isFinite(mean)) {
     // The sum overflowed: average the halves of each value instead.
@@ -63,7 +69,8 @@ export function meanAndSquares(
     const x = xs[i]!;
     if (Number.isFinite(x)) big = Math.max(big, Math.abs(x - m));
   }
-  if (big === 0 || !Number.isFinite(big)) return { n, mean, ss: big === 0 ? 0 : Infinity };
+  if (big === 0 || !Number.isFinite(big))
+    return { n, mean, ss: big === 0 ? 0 : Infinity, sd: () => (big === 0 ? 0 : Infinity) };
   const k = powerOfTwoBelow(big);
   let ss = 0;
   for (let i = 0; i < xs.length; i++) {
@@ -72,7 +79,7 @@ export function meanAndSquares(
     const d = (x - m) / k;
     ss += d * d;
   }
-  return { n, mean, ss: ss * k * k };
+  return { n, mean, ss: ss * k * k, sd: (df: number) => Math.sqrt(ss / df) * k };
 }
 
 /** The power of two 2^floor(log2 x) for x > 0 (exact scaling factor). */

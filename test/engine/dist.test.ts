@@ -101,7 +101,8 @@ describe('agreement with the @stdlib packages over a grid', () => {
   });
   // jstat's incomplete beta is good to about 1e-9 (worst below 1 df); p-values need far less.
   it('t CDFs agree to 5e-8', () => {
-    for (const df of dfs) for (const x of xs) close(tCdf(x, df), stdTCdf(x, df), tTol(df), `tCdf(${x}, ${df})`);
+    for (const df of dfs)
+      for (const x of xs) close(tCdf(x, df), stdTCdf(x, df), tTol(df), `tCdf(${x}, ${df})`);
   });
   it('normal quantiles and CDFs agree to 1e-9', () => {
     for (const p of ps) close(normalQuantile(p), stdNormalQuantile(p, 0, 1), 1e-9, `normalQuantile(${p})`);
@@ -109,7 +110,8 @@ describe('agreement with the @stdlib packages over a grid', () => {
   });
   it('chi-square quantiles agree to 1e-9 relative up to 1,000 df', () => {
     for (const k of [1, 2, 3, 5, 9, 10, 25, 100, 1000])
-      for (const p of ps) close(chiSquareQuantile(p, k), stdChiQuantile(p, k), 1e-9, `chiSquareQuantile(${p}, ${k})`);
+      for (const p of ps)
+        close(chiSquareQuantile(p, k), stdChiQuantile(p, k), 1e-9, `chiSquareQuantile(${p}, ${k})`);
   });
   it('chi-square CDFs agree to 1e-10', () => {
     for (const k of [1, 2, 3, 5, 9, 10, 25, 100, 999, 1000, 1001])
