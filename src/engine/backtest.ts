@@ -53,11 +53,12 @@ export function runBacktest(y: Float64Array, methods: MethodName[], o: BacktestO
   const kinds = o.coverage ?? ['analytic', 'empirical', 'bootstrap'];
   const minErrors = o.minErrors ?? DEFAULT_MIN_ERRORS;
 
-  // Work in units scaled by a power of two (exact) when magnitudes are extreme, so squares of
-  // errors neither overflow nor underflow; measures in units are scaled back.
+  // Work in units of the largest magnitude, rounded to a power of two (so the scaling is exact):
+  // squares of errors then neither overflow nor underflow at any magnitude; measures in units
+  // are scaled back.
   let big = 0;
   for (let i = 0; i < T; i++) if (present(y[i]!)) big = Math.max(big, Math.abs(y[i]!));
-  const unit = big > 0 && (big > 2 ** 400 || big < 2 ** -400) ? powerOfTwoBelow(big) : 1;
+  const unit = big > 0 && Number.isFinite(big) ? powerOfTwoBelow(big) : 1;
   const ys = unit === 1 ? y : y.map((v) => v / unit);
 
   // MASE scale over the whole series.
@@ -129,7 +130,7 @@ export function measureCoverage(
   if (kind === 'bootstrap') {
     let big = 0;
     for (let i = 0; i < T; i++) if (present(y[i]!)) big = Math.max(big, Math.abs(y[i]!));
-    const unit = big > 0 && (big > 2 ** 400 || big < 2 ** -400) ? powerOfTwoBelow(big) : 1;
+    const unit = big > 0 && Number.isFinite(big) ? powerOfTwoBelow(big) : 1;
     const ys = unit === 1 ? y : y.map((v) => v / unit);
     const m = Math.max(1, Math.floor(o.season));
     return backtestMethod(ys, ys, mb.method, m, o, NaN, unit, ['bootstrap'], minErrors, true) as Record<
