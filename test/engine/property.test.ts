@@ -74,7 +74,8 @@ function plainBacktest(y: number[], method: MethodName, m: number, minTrain: num
 
 const near = (a: number, b: number): boolean =>
   a === b ||
-  (Number.isNaN(a) && Number.isNaN(b)) || Math.abs(a - b) <= 1e-7 * Math.max(1, Math.abs(a), Math.abs(b));
+  (Number.isNaN(a) && Number.isNaN(b)) ||
+  Math.abs(a - b) <= 1e-7 * Math.max(1, Math.abs(a), Math.abs(b));
 
 // Values in ±1000, those below 0.001 in size set to 0: percentage errors against a near-zero actual
 // magnify rounding differences between two correct implementations without bound, and intervals
