@@ -53,12 +53,12 @@ export function runBacktest(y: Float64Array, methods: MethodName[], o: BacktestO
   const kinds = o.coverage ?? ['analytic', 'empirical', 'bootstrap'];
   const minErrors = o.minErrors ?? DEFAULT_MIN_ERRORS;
 
-  // Work in units of the largest magnitude, rounded to a power of two (so the scaling is exact):
-  // squares of errors then neither overflow nor underflow at any magnitude; measures in units
-  // are scaled back.
+  // At extreme magnitudes (beyond 2^±300) work in units of the largest one, rounded to a power of
+  // two so the scaling is exact: squares of errors then neither overflow nor underflow; measures
+  // in units are scaled back.
   let big = 0;
   for (let i = 0; i < T; i++) if (present(y[i]!)) big = Math.max(big, Math.abs(y[i]!));
-  const unit = big > 0 && Number.isFinite(big) ? powerOfTwoBelow(big) : 1;
+  const unit = big > 2 ** 300 || (big > 0 && big < 2 ** -300) ? powerOfTwoBelow(big) : 1;
   const ys = unit === 1 ? y : y.map((v) => v / unit);
 
   // MASE scale over the whole series.
@@ -90,6 +90,7 @@ export function runBacktest(y: Float64Array, methods: MethodName[], o: BacktestO
     inv100[i] = a !== 0 && Number.isFinite(a) ? 100 / a : NaN;
   }
   const out: Backtest = { minTrain: o.minTrain, horizon: o.horizon, methods: {}, notes };
+  const work = workspace(T, o.levels.length); // scratch shared by the methods, one after another
   for (const method of methods) {
     out.methods[method] = backtestMethod(
       ys,
@@ -101,6 +102,8 @@ export function runBacktest(y: Float64Array, methods: MethodName[], o: BacktestO
       unit,
       kinds,
       minErrors,
+      false,
+      work,
     ) as MethodBacktest;
   }
   if (kinds.includes('empirical'))
@@ -112,6 +115,35 @@ export function runBacktest(y: Float64Array, methods: MethodName[], o: BacktestO
       `Bootstrap coverage is measured at up to ${BOOTSTRAP_ORIGINS} origins spread evenly over the backtest, with ${BOOTSTRAP_PATHS} paths each, to keep its cost bounded.`,
     );
   return out;
+}
+
+/** Per-origin scratch arrays; every entry a method reads it has written first. */
+interface Workspace {
+  base: Float64Array;
+  slopes: Float64Array;
+  meanFactor: Float64Array;
+  halfWidth2: Float64Array;
+  fcol: Float64Array;
+  vcol: Float64Array;
+  e2col: Float64Array;
+  gaps: Int32Array;
+  spans: Int32Array;
+  latestAt: Int32Array;
+}
+
+function workspace(T: number, L: number): Workspace {
+  return {
+    base: new Float64Array(T),
+    slopes: new Float64Array(T),
+    meanFactor: new Float64Array(T),
+    halfWidth2: new Float64Array(L * T),
+    fcol: new Float64Array(T),
+    vcol: new Float64Array(T),
+    e2col: new Float64Array(T),
+    gaps: new Int32Array(T),
+    spans: new Int32Array(T),
+    latestAt: new Int32Array(T),
+  };
 }
 
 /**
@@ -130,7 +162,7 @@ export function measureCoverage(
   if (kind === 'bootstrap') {
     let big = 0;
     for (let i = 0; i < T; i++) if (present(y[i]!)) big = Math.max(big, Math.abs(y[i]!));
-    const unit = big > 0 && Number.isFinite(big) ? powerOfTwoBelow(big) : 1;
+    const unit = big > 2 ** 300 || (big > 0 && big < 2 ** -300) ? powerOfTwoBelow(big) : 1;
     const ys = unit === 1 ? y : y.map((v) => v / unit);
     const m = Math.max(1, Math.floor(o.season));
     return backtestMethod(ys, ys, mb.method, m, o, NaN, unit, ['bootstrap'], minErrors, true) as Record<
@@ -161,6 +193,7 @@ function backtestMethod(
   kinds: IntervalKind[],
   minErrors: number,
   bootOnly = false,
+  work?: Workspace,
 ): MethodBacktest | Record<string, number> {
   const T = ys.length;
   const H = o.horizon;
@@ -178,12 +211,13 @@ function backtestMethod(
   // a few numbers — base value (level or last observed value), slope, gap to the last observed
   // value, drift span, and per level (q_df sigma)^2, the squared half-width per unit of the
   // standard error's variance factor. Index = last training index i (training size i + 1).
-  const base = new Float64Array(T);
-  const slopes = code === 2 ? new Float64Array(T) : null;
-  const gaps = code === 1 || code === 2 ? new Int32Array(T) : null;
-  const spans = code === 2 ? new Int32Array(T) : null;
-  const meanFactor = code === 0 ? new Float64Array(T) : null;
-  const halfWidth2 = new Float64Array(L * T);
+  const ws = work ?? workspace(T, L);
+  const base = ws.base;
+  const slopes = code === 2 ? ws.slopes : null;
+  const gaps = code === 1 || code === 2 ? ws.gaps : null;
+  const spans = code === 2 ? ws.spans : null;
+  const meanFactor = code === 0 ? ws.meanFactor : null;
+  const halfWidth2 = ws.halfWidth2;
   let wN = 0;
   let wMean = 0;
   let wM2 = 0;
@@ -194,7 +228,7 @@ function backtestMethod(
   let last = -1;
   const latest = code === 3 ? new Int32Array(m).fill(-1) : null;
   // seasonal naive: latestAt[j] = latest observed index <= j in j's season position.
-  const latestAt = code === 3 ? new Int32Array(T) : null;
+  const latestAt = code === 3 ? ws.latestAt : null;
   let phases = 0;
   const lagD = code === 3 ? m : 1;
   let i0 = -1; // first origin with a fit; every later origin has one too
@@ -288,9 +322,7 @@ function backtestMethod(
   // method), then the error and every running sum in scalars.
   const errBuf = new Float64Array(H * maxO);
   const errOrigin = wantEmp ? new Int32Array(H * maxO) : null;
-  const fcol = new Float64Array(T);
-  const vcol = new Float64Array(T);
-  const e2col = new Float64Array(T);
+  const { fcol, vcol, e2col } = ws;
   const inside = new Float64Array(L);
   let covered = 0;
   const steps: StepMeasures[] = [];
@@ -616,8 +648,8 @@ function countInside(
     for (let p = 0; p < P; p++) {
       const v = paths[p * hMax + h]!;
       col[p] = v;
-      if (v < a) lt++;
-      if (v <= a) le++;
+      lt += Number(v < a); // branch-free: the outcome is random
+      le += Number(v <= a);
     }
     sortedCol = false;
     for (let l = 0; l < alphas.length; l++) if (within(a, P, alphas[l]!, lt, le, exact)) inside[l]++;

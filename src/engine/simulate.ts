@@ -127,42 +127,39 @@ export function simulateInto(
   const { pool, poolLength: len, shift, scale } = spec;
   const boot = mode === 'bootstrap' && len > 0;
   const sigma = Number.isFinite(spec.sigma) ? spec.sigma : 0;
-  // Bootstrap: all the path's random integers at once, then shock j = pool[floor(u_j len / 2^32)]
-  // (the same value rnd.int(len) gives), centred and rescaled.
+  // Each path's shocks are drawn first, in the order the recursion uses them. Bootstrap: shock j is
+  // pool[floor(u_j len / 2^32)] (the value rnd.int(len) would pick), centred and rescaled.
   const per = shocksPerPath(spec, H);
   const u = new Uint32Array(boot ? per : 0);
+  const sh = new Float64Array(per);
   const ratio = len / 4294967296;
-  let j = 0;
-  const shock = boot
-    ? (): number => (pool[Math.floor(u[j++]! * ratio)]! - shift) * scale
-    : (): number => sigma * rnd.normal();
-  const draw = boot ? u : null;
   const { method, gap, paramScale } = spec;
   const m = spec.season;
   for (let p = 0; p < P; p++) {
     const row = p * H;
-    if (draw) {
-      rnd.fill(draw);
-      j = 0;
-    }
+    if (boot) {
+      rnd.fill(u);
+      for (let k = 0; k < per; k++) sh[k] = (pool[Math.floor(u[k]! * ratio)]! - shift) * scale;
+    } else for (let k = 0; k < per; k++) sh[k] = sigma * rnd.normal();
+    let j = 0;
     if (method === 'mean') {
-      const level = spec.level + paramScale * shock();
-      for (let h = 0; h < H; h++) out[row + h] = level + shock();
+      const level = spec.level + paramScale * sh[j++]!;
+      for (let h = 0; h < H; h++) out[row + h] = level + sh[j++]!;
     } else if (method === 'naive' || method === 'drift') {
-      const slope = method === 'drift' ? spec.slope + paramScale * shock() : 0;
+      const slope = method === 'drift' ? spec.slope + paramScale * sh[j++]! : 0;
       let v = spec.last;
-      for (let g = 0; g < gap; g++) v += slope + shock();
+      for (let g = 0; g < gap; g++) v += slope + sh[j++]!;
       for (let h = 0; h < H; h++) {
-        v += slope + shock();
+        v += slope + sh[j++]!;
         out[row + h] = v;
       }
     } else {
       for (let h = 0; h < H; h++) {
         if (h < m) {
           let v = spec.base[h]!;
-          for (let k = spec.shocks[h]!; k > 0; k--) v += shock();
+          for (let k = spec.shocks[h]!; k > 0; k--) v += sh[j++]!;
           out[row + h] = v;
-        } else out[row + h] = out[row + h - m]! + shock();
+        } else out[row + h] = out[row + h - m]! + sh[j++]!;
       }
     }
   }
