@@ -18,6 +18,7 @@ import type {
   CheckedObservation,
   FailOn,
   ForecastPoint,
+  HistoryPoint,
   LevelMap,
   MeasureSet,
   Problem,
@@ -60,7 +61,7 @@ const SPACING_WORD: Record<Series['spacing'], string> = {
 };
 
 /** Points of history (and residuals) kept per series in the results, for charts. */
-export const HISTORY_CAP = 500;
+export const HISTORY_CAP = 240;
 
 export async function runJob(o: JobOptions): Promise<Results> {
   const plan = await loadPlan(o.configPath, o.cwd);
@@ -224,9 +225,44 @@ function analyseOne(s: Series, m: MetricPlan, o: BuildOptions): SeriesResult {
     backtest: summariseBacktest(a),
     checked,
     limit,
-    residuals: tail(Array.from(a.chosen.residuals, (r) => (Number.isFinite(r) ? r : null))),
+    ...chartData(s, a, checked[0]?.index, notes),
     notes,
   };
+}
+
+/** History (and the residuals aligned with it) for charts: the last HISTORY_CAP points, reaching back
+ * to the first checked observation when a pull request adds more rows than that. */
+function chartData(
+  s: Series,
+  a: Analysis,
+  firstChecked: number | undefined,
+  notes: string[],
+): Pick<SeriesResult, 'history' | 'residuals'> {
+  const start = Math.max(0, Math.min(s.values.length - HISTORY_CAP, firstChecked ?? Infinity));
+  if (start > 0)
+    notes.push(
+      `Charts show the last ${s.values.length - start} of ${s.values.length} points; the analysis used all of them.`,
+    );
+  const residuals: (number | null)[] = [];
+  for (let i = start; i < s.values.length; i++) {
+    const r = a.chosen.residuals[i]!;
+    residuals.push(Number.isFinite(r) ? r : null);
+  }
+  return { history: historyFrom(s, start), residuals };
+}
+
+function historyFrom(s: Series, start: number): HistoryPoint[] {
+  const history: HistoryPoint[] = [];
+  for (let i = start; i < s.values.length; i++) {
+    const v = s.values[i]!;
+    history.push({
+      index: i,
+      row: s.rows[i]! > 0 ? s.rows[i]! : null,
+      time: timeAtIndex(s, i),
+      value: Number.isNaN(v) ? null : v,
+    });
+  }
+  return history;
 }
 
 function emptySeries(
@@ -237,21 +273,7 @@ function emptySeries(
   observations: number,
   notes: string[],
 ): SeriesResult {
-  const history = [];
-  const start = Math.max(0, s.values.length - HISTORY_CAP);
-  for (let i = start; i < s.values.length; i++) {
-    const v = s.values[i]!;
-    history.push({
-      index: i,
-      row: s.rows[i]! > 0 ? s.rows[i]! : null,
-      time: timeAtIndex(s, i),
-      value: Number.isNaN(v) ? null : v,
-    });
-  }
-  if (start > 0)
-    notes.push(
-      `Charts show the last ${HISTORY_CAP} of ${s.values.length} points; the analysis used all of them.`,
-    );
+  const history = historyFrom(s, Math.max(0, s.values.length - HISTORY_CAP));
   return {
     name: s.name,
     metric: m.name,
@@ -461,10 +483,6 @@ function countObserved(v: Float64Array): number {
 function lastObserved(v: Float64Array): number {
   for (let i = v.length - 1; i >= 0; i--) if (!Number.isNaN(v[i]!)) return v[i]!;
   return NaN;
-}
-
-function tail<T>(xs: T[]): T[] {
-  return xs.length > HISTORY_CAP ? xs.slice(xs.length - HISTORY_CAP) : xs;
 }
 
 function finiteOrNull(x: number): number | null {
