@@ -19,7 +19,7 @@
 // - bootstrap: at most BOOTSTRAP_ORIGINS origins spread evenly, BOOTSTRAP_PATHS paths each, to keep
 //   the cost bounded; the paths resample that origin's own centred residuals (simulate.ts).
 import { tQuantileFrom, tQuantileTable } from './dist.js';
-import { DEFAULT_MIN_ERRORS } from './forecast.js';
+import { DEFAULT_MIN_ERRORS, sortedCopy } from './forecast.js';
 import { methodLabel } from './methods.js';
 import { powerOfTwoBelow, present, sortedQuantile } from './numeric.js';
 import { createRandom } from './random.js';
@@ -488,7 +488,14 @@ function empiricalCoverage(
     const N = e.length;
     if (N <= minErrors) continue;
     const orig = errOrigin.subarray(h * maxO, h * maxO + N);
-    const sorted = Float64Array.from(e).sort();
+    const sorted = sortedCopy(e);
+    // Each error's range of positions among the sorted errors: [lowerBound, upperBound).
+    const lo = new Int32Array(N);
+    const hi = new Int32Array(N);
+    for (let j = 0; j < N; j++) {
+      lo[j] = lowerBound(sorted, e[j]!);
+      hi[j] = upperBound(sorted, e[j]!);
+    }
     // Fenwick tree over positions in `sorted`: tree index p + 1 counts inserted errors at p.
     const tree = new Int32Array(N + 1);
     let top = 1;
@@ -520,14 +527,13 @@ function empiricalCoverage(
     for (let j = 0; j < N; j++) {
       const oj = orig[j]!;
       while (known < j && orig[known]! + h + 1 <= oj) {
-        const p = lowerBound(sorted, e[known]!);
-        for (let k = p + 1; k <= N; k += k & -k) tree[k]!++;
+        for (let k = lo[known]! + 1; k <= N; k += k & -k) tree[k]!++;
         known++;
       }
       if (known < minErrors) continue;
       const x = e[j]!;
-      const lt = prefix(lowerBound(sorted, x));
-      const le = prefix(upperBound(sorted, x));
+      const lt = prefix(lo[j]!);
+      const le = prefix(hi[j]!);
       for (let l = 0; l < L; l++) if (within(x, known, alphas[l]!, lt, le, exact)) inside[l]++;
       total++;
     }
@@ -535,26 +541,30 @@ function empiricalCoverage(
   return shares(levels, inside, total);
 }
 
+/** Number of entries < x in an ascending array (branch-free halving: the comparisons are random). */
 function lowerBound(a: Float64Array, x: number): number {
-  let lo = 0;
-  let hi = a.length;
-  while (lo < hi) {
-    const mid = (lo + hi) >>> 1;
-    if (a[mid]! < x) lo = mid + 1;
-    else hi = mid;
+  let n = a.length;
+  if (n === 0) return 0;
+  let base = 0;
+  while (n > 1) {
+    const half = n >>> 1;
+    base += Number(a[base + half - 1]! < x) * half;
+    n -= half;
   }
-  return lo;
+  return base + Number(a[base]! < x);
 }
 
+/** Number of entries <= x in an ascending array. */
 function upperBound(a: Float64Array, x: number): number {
-  let lo = 0;
-  let hi = a.length;
-  while (lo < hi) {
-    const mid = (lo + hi) >>> 1;
-    if (a[mid]! <= x) lo = mid + 1;
-    else hi = mid;
+  let n = a.length;
+  if (n === 0) return 0;
+  let base = 0;
+  while (n > 1) {
+    const half = n >>> 1;
+    base += Number(a[base + half - 1]! <= x) * half;
+    n -= half;
   }
-  return lo;
+  return base + Number(a[base]! <= x);
 }
 
 const EMPTY = new Float64Array(0);

@@ -45,6 +45,22 @@ function columnsOf(paths: Float64Array, nPaths: number, horizon: number): Float6
   return cols;
 }
 
+const sortedCache = new WeakMap<Float64Array, Float64Array>();
+
+/**
+ * An ascending copy of `xs`, computed once per array (the backtest's errors are sorted for the
+ * empirical intervals, their coverage and every later tail probability). Callers must not change
+ * `xs` afterwards, nor the copy.
+ */
+export function sortedCopy(xs: Float64Array): Float64Array {
+  let s = sortedCache.get(xs);
+  if (!s) {
+    s = Float64Array.from(xs).sort();
+    sortedCache.set(xs, s);
+  }
+  return s;
+}
+
 /** Fewest backtest errors over the steps 1..H of a method's backtest (0 when there is none). */
 export function fewestErrors(bt: MethodBacktest | undefined): number {
   if (!bt || bt.errors.length === 0) return 0;
@@ -142,7 +158,7 @@ export function makeForecast(fit: Fit, o: ForecastOptions): Forecast {
       const thin: number[] = [];
       for (let h = 1; h <= H; h++) {
         const e = bt.errors[h - 1];
-        if (e && e.length >= minErrors) empiricalErrors.push(Float64Array.from(e).sort());
+        if (e && e.length >= minErrors) empiricalErrors.push(sortedCopy(e));
         else {
           empiricalErrors.push(new Float64Array(0));
           thin.push(h);
