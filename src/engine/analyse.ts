@@ -1,6 +1,12 @@
 // The engine's whole job for one series: fit every candidate, backtest, select, forecast with
 // intervals, and check the residuals of the chosen fit.
-import { BOOTSTRAP_ORIGINS, BOOTSTRAP_PATHS, measureCoverage, runBacktest } from './backtest.js';
+import {
+  BOOTSTRAP_ORIGINS,
+  BOOTSTRAP_PATHS,
+  EMPIRICAL_COVERAGE_POINTS,
+  measureCoverage,
+  runBacktest,
+} from './backtest.js';
 import { checkResiduals } from './checks.js';
 import { DEFAULT_MIN_ERRORS } from './forecast.js';
 import { makeForecast } from './forecast.js';
@@ -78,7 +84,7 @@ export function analyse(y: Float64Array, o: EngineOptions): Analysis | AnalysisF
     chosenBt.coverage[forecast.kind] = measureCoverage(y, chosenBt, forecast.kind, base);
   if (forecast.kind === 'empirical')
     backtest.notes.push(
-      `Empirical coverage counts, at each origin, only errors whose actuals were known by then (out of sample), from the first origin with at least ${DEFAULT_MIN_ERRORS} of them.`,
+      `Empirical coverage counts, at each origin, only errors whose actuals were known by then (out of sample), from the first origin with at least ${DEFAULT_MIN_ERRORS} of them; at most about ${EMPIRICAL_COVERAGE_POINTS} errors per step are judged, evenly spread over the origins.`,
     );
   if (forecast.kind === 'bootstrap')
     backtest.notes.push(

@@ -108,7 +108,7 @@ export function runBacktest(y: Float64Array, methods: MethodName[], o: BacktestO
   }
   if (kinds.includes('empirical'))
     notes.push(
-      `Empirical coverage counts, at each origin, only errors whose actuals were known by then (out of sample), from the first origin with at least ${minErrors} of them.`,
+      `Empirical coverage counts, at each origin, only errors whose actuals were known by then (out of sample), from the first origin with at least ${minErrors} of them; at most about ${EMPIRICAL_COVERAGE_POINTS} errors per step are judged, evenly spread over the origins.`,
     );
   if (kinds.includes('bootstrap'))
     notes.push(
@@ -471,6 +471,9 @@ function within(
   return x <= exact(c, 1 - a);
 }
 
+/** Errors judged per step by the empirical coverage check, at most (about). */
+export const EMPIRICAL_COVERAGE_POINTS = 100;
+
 /** Empirical coverage with only errors known at each origin (see the file comment). */
 function empiricalCoverage(
   errors: Float64Array[],
@@ -523,6 +526,9 @@ function empiricalCoverage(
       const lo = kth(j + 1);
       return g === 0 || j + 1 >= c ? lo : lo + g * (kth(j + 2) - lo);
     };
+    // Judge at most about EMPIRICAL_COVERAGE_POINTS errors per step, evenly spread over the origins
+    // (every error of a short series): the share is a calibration check, and this bounds its cost.
+    const stride = Math.max(1, Math.floor(N / EMPIRICAL_COVERAGE_POINTS));
     let known = 0;
     for (let j = 0; j < N; j++) {
       const oj = orig[j]!;
@@ -530,7 +536,7 @@ function empiricalCoverage(
         for (let k = lo[known]! + 1; k <= N; k += k & -k) tree[k]!++;
         known++;
       }
-      if (known < minErrors) continue;
+      if (known < minErrors || j % stride !== 0) continue;
       const x = e[j]!;
       const lt = prefix(lo[j]!);
       const le = prefix(hi[j]!);
