@@ -4,7 +4,7 @@
 import { appendFile } from 'node:fs/promises';
 import * as core from '@actions/core';
 import { isLeadlineError } from '../errors.js';
-import { inputFiles, writeOutput } from '../files.js';
+import { inputFiles, resultsJson, writeOutput } from '../files.js';
 import { runJob, type JobOptions } from '../job.js';
 import { renderHtml, renderMarkdown } from '../report/index.js';
 import type { Results } from '../results.js';
@@ -137,7 +137,7 @@ async function runAction(d: ActionDeps): Promise<void> {
   // Output files. A failure here fails the step after everything else is done.
   const failures: string[] = [];
   const protect = inputFiles(s.workingDirectory, results, s.config);
-  const save = async (file: string, label: string, text: () => string) => {
+  const save = async (file: string, label: string, text: () => string | Iterable<string>) => {
     try {
       if (await isTracked(d.git, s.workspace, file))
         throw new Error(
@@ -149,7 +149,7 @@ async function runAction(d: ActionDeps): Promise<void> {
       failures.push(isLeadlineError(e) ? e.describe() : `${label}: ${(e as Error).message}`);
     }
   };
-  await save(s.results, 'results', () => JSON.stringify(results, null, 2) + '\n');
+  await save(s.results, 'results', () => resultsJson(results));
   if (s.markdown)
     await save(s.markdown, 'markdown', () =>
       d.renderMarkdown(results, { maxChars: Number.MAX_SAFE_INTEGER, fullReportNote: fullReportNote(link) }),

@@ -5,7 +5,7 @@ import { isLeadlineError, LeadlineError } from '../errors.js';
 import { runJob } from '../job.js';
 import { renderHtml, renderMarkdown } from '../report/index.js';
 import type { Results } from '../results.js';
-import { inputFiles, writeOutput } from '../files.js';
+import { inputFiles, resultsJson, writeOutput } from '../files.js';
 import { VERSION } from '../version.js';
 import { HELP, parseCli, type CliSettings } from './args.js';
 import { renderSummary } from './summary.js';
@@ -59,19 +59,14 @@ export async function main(argv: string[], io: CliIo): Promise<number> {
     const markdown = () =>
       renderMarkdown(results, { ...(template ? { template } : {}), fullReportNote: fullNote(settings) });
     if (settings.json)
-      await writeOutput(
-        path.resolve(io.cwd, settings.json),
-        JSON.stringify(results, null, 2) + '\n',
-        inputs,
-        '--json',
-      );
+      await writeOutput(path.resolve(io.cwd, settings.json), resultsJson(results), inputs, '--json');
     if (settings.markdown)
       await writeOutput(path.resolve(io.cwd, settings.markdown), markdown(), inputs, '--markdown');
     if (settings.html)
       await writeOutput(path.resolve(io.cwd, settings.html), renderHtml(results), inputs, '--html');
     if (settings.print === 'summary') io.stdout.write(renderSummary(results, settings.color));
     else if (settings.print === 'markdown') io.stdout.write(markdown());
-    else if (settings.print === 'json') io.stdout.write(JSON.stringify(results, null, 2) + '\n');
+    else if (settings.print === 'json') for (const piece of resultsJson(results)) io.stdout.write(piece);
   } catch (e) {
     return fail(e, io);
   }

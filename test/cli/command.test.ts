@@ -91,7 +91,16 @@ describe('the command on the demo scenario', () => {
     expect(r.out).toMatch(/Gate failed \(fail-on: alarm\): 1 alarm/);
     expect(r.out).toMatch(/not guarantees/);
     expect(r.out).not.toContain('\u001b['); // not a terminal: no colour codes
-    const coloured = await cli(['run', '--cwd', demo, '--config', 'leadline.yml', '--fail-on', 'never', '--color']);
+    const coloured = await cli([
+      'run',
+      '--cwd',
+      demo,
+      '--config',
+      'leadline.yml',
+      '--fail-on',
+      'never',
+      '--color',
+    ]);
     expect(coloured.out).toContain('\u001b[31mALARM');
   });
 
