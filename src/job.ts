@@ -273,10 +273,8 @@ function emptySeries(
   observations: number,
   notes: string[],
 ): SeriesResult {
-  const history = historyFrom(s, Math.max(0, s.values.length - HISTORY_CAP));
-  return {
+  return blankResult(m, {
     name: s.name,
-    metric: m.name,
     file: s.file,
     column: s.column,
     key: s.key,
@@ -285,24 +283,9 @@ function emptySeries(
     spacing: s.spacing,
     season,
     seasonSource,
-    method: null,
-    intervalKind: null,
-    sigma: null,
-    sigmaDf: null,
-    levels: m.levels,
-    alarmLevel: m.alarmLevel,
-    direction: m.direction,
-    forecast: [],
-    residualChecks: null,
-    backtest: null,
-    checked: [],
-    limit: null,
-    history,
-    residuals: [],
-    verdict: 'ok',
-    reason: '',
+    history: historyFrom(s, Math.max(0, s.values.length - HISTORY_CAP)),
     notes,
-  };
+  });
 }
 
 function failedSeries(
@@ -317,17 +300,34 @@ function failedSeries(
     column && m.values.length > 1 ? `/${column}` : '',
     key !== null ? `[${key}]` : '',
   ].join('');
-  return {
+  return blankResult(m, {
     name,
-    metric: m.name,
     file: m.file,
     column: column ?? m.values.join(', '),
     key,
+    season: m.season === 'auto' ? 1 : m.season,
+    seasonSource: m.season === 'auto' ? 'auto' : 'config',
+    verdict,
+    reason,
+  });
+}
+
+/** A series result with nothing analysed yet: the metric's settings, the given fields, empty findings. */
+function blankResult(
+  m: MetricPlan,
+  fields: Pick<SeriesResult, 'name' | 'file' | 'column' | 'key' | 'season' | 'seasonSource'> &
+    Partial<SeriesResult>,
+): SeriesResult {
+  // Field order as in DESIGN.md's results format; `fields` fill in the rest.
+  return {
+    name: fields.name,
+    metric: m.name,
+    file: fields.file,
+    column: fields.column,
+    key: fields.key,
     observations: 0,
     missing: 0,
     spacing: 'row',
-    season: m.season === 'auto' ? 1 : m.season,
-    seasonSource: m.season === 'auto' ? 'auto' : 'config',
     method: null,
     intervalKind: null,
     sigma: null,
@@ -342,9 +342,10 @@ function failedSeries(
     limit: null,
     history: [],
     residuals: [],
-    verdict,
-    reason,
+    verdict: 'ok',
+    reason: '',
     notes: [],
+    ...fields,
   };
 }
 
