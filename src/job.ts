@@ -318,13 +318,14 @@ function blankResult(
   fields: Pick<SeriesResult, 'name' | 'file' | 'column' | 'key' | 'season' | 'seasonSource'> &
     Partial<SeriesResult>,
 ): SeriesResult {
-  // Field order as in DESIGN.md's results format; `fields` fill in the rest.
+  // Field order as in DESIGN.md's results format; `rest` fills in the others.
+  const { name, file, column, key, ...rest } = fields;
   return {
-    name: fields.name,
+    name,
     metric: m.name,
-    file: fields.file,
-    column: fields.column,
-    key: fields.key,
+    file,
+    column,
+    key,
     observations: 0,
     missing: 0,
     spacing: 'row',
@@ -345,7 +346,7 @@ function blankResult(
     verdict: 'ok',
     reason: '',
     notes: [],
-    ...fields,
+    ...rest,
   };
 }
 
