@@ -1,7 +1,7 @@
 // Which observations are checked, which of them raise alarms, and which limits are at risk.
 // Pure: takes a series' values and the engine's analysis, returns plain data.
 import {
-  checkResiduals,
+  runResidualTests,
   chooseIntervalKind,
   fitMethod,
   isFit,
@@ -86,7 +86,7 @@ export function checkObservations(c: CheckContext): CheckOutcome {
   // among the checked rows cannot widen (or reshape) the interval it is judged against.
   let kind = c.options.intervals === 'auto' ? c.analysis.forecast.kind : c.options.intervals;
   if (c.options.intervals === 'auto') {
-    const prior = chooseIntervalKind(checkResiduals(fit), mb);
+    const prior = chooseIntervalKind(runResidualTests(fit), mb);
     kind = prior.kind;
     if (prior.kind !== c.analysis.forecast.kind)
       notes.push(

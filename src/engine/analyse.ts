@@ -7,7 +7,7 @@ import {
   measureCoverage,
   runBacktest,
 } from './backtest.js';
-import { checkResiduals } from './checks.js';
+import { runResidualTests } from './checks.js';
 import { DEFAULT_MIN_ERRORS } from './forecast.js';
 import { makeForecast } from './forecast.js';
 import { fitMethod, isFit, methodLabel } from './methods.js';
@@ -69,7 +69,7 @@ export function analyse(y: Float64Array, o: EngineOptions): Analysis | AnalysisF
   const backtest = runBacktest(y, candidates, { ...base, coverage: ['analytic'] });
   const selection = selectMethod(backtest, candidates, o.score);
   const chosen = fits[selection.method]!;
-  const checks = checkResiduals(chosen);
+  const checks = runResidualTests(chosen);
   const forecast = makeForecast(chosen, {
     horizon: o.horizon,
     levels: o.levels,

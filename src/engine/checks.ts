@@ -35,7 +35,7 @@ function notComputed(name: string, why: string, df: number | null = null): TestR
   return { name, statistic: NaN, df, pValue: NaN, ok: true, finding: `${name} not computed: ${why}` };
 }
 
-export function checkResiduals(fit: Fit, lags?: number): ResidualChecks {
+export function runResidualTests(fit: Fit, lags?: number): ResidualChecks {
   const all = fit.residuals;
   let n = 0;
   for (let i = 0; i < all.length; i++) if (Number.isFinite(all[i]!)) n++;

@@ -8,7 +8,7 @@
 //   least `minErrors` (default 20) errors; when step 1 has fewer, the whole forecast falls back to
 //   analytic; later steps with fewer (or beyond the backtest horizon) use analytic bands. Both say so
 //   in a note.
-import { checkResiduals } from './checks.js';
+import { runResidualTests } from './checks.js';
 import { tCdf, tQuantile } from './dist.js';
 import { fmtP, selectQuantiles, sortedQuantile } from './numeric.js';
 import { simulatePaths } from './simulate.js';
@@ -137,7 +137,7 @@ export function makeForecast(fit: Fit, o: ForecastOptions): Forecast {
   const notes: string[] = [];
   let kind: IntervalKind;
   if (o.kind === 'auto') {
-    const chosen = chooseIntervalKind(o.checks ?? checkResiduals(fit), o.backtest, minErrors);
+    const chosen = chooseIntervalKind(o.checks ?? runResidualTests(fit), o.backtest, minErrors);
     kind = chosen.kind;
     notes.push(`Intervals: ${chosen.reason}`);
   } else kind = o.kind;

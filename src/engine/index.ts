@@ -4,7 +4,7 @@ export * from './types.js';
 export { tQuantile, tCdf, normalQuantile, normalCdf, chiSquareCdf, chiSquareQuantile, fCdf } from './dist.js';
 export { createRandom, type Random } from './random.js';
 export { fitMethod, isFit } from './methods.js';
-export { defaultLags, checkResiduals } from './checks.js';
+export { defaultLags, runResidualTests } from './checks.js';
 export { runBacktest } from './backtest.js';
 export { selectMethod } from './select.js';
 export { simulatePaths } from './simulate.js';

@@ -3,7 +3,7 @@ import stdTCdf from '@stdlib/stats-base-dists-t-cdf';
 import { describe, expect, it } from 'vitest';
 import {
   analyse,
-  checkResiduals,
+  runResidualTests,
   chooseIntervalKind,
   createRandom,
   defaultLags,
@@ -117,7 +117,7 @@ describe('selection', () => {
 
 describe('what intervals: auto decides', () => {
   // Real checks of a random walk's naive residuals, with every test then set to pass.
-  const real = checkResiduals(fit('naive', randomWalk(200, 3)));
+  const real = runResidualTests(fit('naive', randomWalk(200, 3)));
   const pass = <T extends { ok: boolean }>(t: T): T => ({ ...t, ok: true });
   const base: ResidualChecks = {
     ...real,
@@ -246,7 +246,7 @@ describe('residual findings', () => {
     const r = createRandom(11);
     const y = new Float64Array(300);
     for (let i = 1; i < 300; i++) y[i] = 0.8 * y[i - 1]! + r.normal();
-    const c = checkResiduals(fit('mean', y));
+    const c = runResidualTests(fit('mean', y));
     expect(c.ljungBox.ok).toBe(false);
     expect(c.ljungBox.lags).toBe(defaultLags(300, 1));
     expect(c.ljungBox.df).toBe(defaultLags(300, 1) - 1);
@@ -254,9 +254,9 @@ describe('residual findings', () => {
   });
   it('reports bias as zero by construction for mean and drift, and finds the bias of naive on a trend', () => {
     const y = randomWalk(200, 5, 1);
-    expect(checkResiduals(fit('mean', y)).bias.zeroByConstruction).toBe(true);
-    expect(checkResiduals(fit('drift', y)).bias.zeroByConstruction).toBe(true);
-    const naive = checkResiduals(fit('naive', y)).bias;
+    expect(runResidualTests(fit('mean', y)).bias.zeroByConstruction).toBe(true);
+    expect(runResidualTests(fit('drift', y)).bias.zeroByConstruction).toBe(true);
+    const naive = runResidualTests(fit('naive', y)).bias;
     expect(naive.zeroByConstruction).toBe(false);
     expect(naive.ok).toBe(false);
     expect(naive.finding).toMatch(/forecasts run low.*drift method/);
@@ -264,17 +264,17 @@ describe('residual findings', () => {
   it('finds growing spread with the Goldfeld–Quandt F test, two-sided', () => {
     const r = createRandom(6);
     const y = Float64Array.from({ length: 300 }, (_, i) => (1 + i / 30) * r.normal());
-    const c = checkResiduals(fit('mean', y));
+    const c = runResidualTests(fit('mean', y));
     expect(c.spread.name).toBe('Goldfeld–Quandt F');
     expect(c.spread.ok).toBe(false);
     expect(c.spread.statistic).toBeGreaterThan(1);
     expect(c.spread.finding).toMatch(/grows over time.*too narrow/);
-    const shrinking = checkResiduals(fit('mean', y.slice().reverse())).spread;
+    const shrinking = runResidualTests(fit('mean', y.slice().reverse())).spread;
     expect(shrinking.ok).toBe(false);
     expect(shrinking.statistic).toBeLessThan(1);
   });
   it('does not compute the tests on a constant series and says why, without NaN bounds', () => {
-    const c = checkResiduals(fit('naive', new Array(30).fill(7)));
+    const c = runResidualTests(fit('naive', new Array(30).fill(7)));
     for (const t of [c.ljungBox, c.normality, c.spread]) {
       expect(t.ok).toBe(true);
       expect(t.finding).toMatch(/not computed: the residuals are all equal/);

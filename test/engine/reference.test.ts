@@ -2,7 +2,7 @@
 import stdChiCdf from '@stdlib/stats-base-dists-chisquare-cdf';
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import { checkResiduals, fitMethod, isFit, type Fit, type MethodName } from '../../src/engine/index.js';
+import { runResidualTests, fitMethod, isFit, type Fit, type MethodName } from '../../src/engine/index.js';
 
 const anscombe = JSON.parse(
   readFileSync(new URL('../../fixtures/reference/anscombe-1973.json', import.meta.url), 'utf8'),
@@ -61,7 +61,7 @@ describe("Anscombe's quartet (Anscombe 1973)", () => {
     'Ljung–Box and Jarque–Bera of the mean residuals of %s equal the published formulas',
     (key) => {
       const f = fit('mean', anscombe[key]);
-      const c = checkResiduals(f, 3);
+      const c = runResidualTests(f, 3);
       const ref = ljungBoxReference(finite(f.residuals), 3, 1);
       expect(c.ljungBox.lags).toBe(3);
       expect(c.ljungBox.df).toBe(2); // L - K, K = 1 for the mean
@@ -78,7 +78,7 @@ describe("Anscombe's quartet (Anscombe 1973)", () => {
   );
 
   it('y3 with its single outlier (12.74) has clearly non-normal mean residuals', () => {
-    const c = checkResiduals(fit('mean', anscombe.y3));
+    const c = runResidualTests(fit('mean', anscombe.y3));
     const jb = jarqueBeraReference(finite(fit('mean', anscombe.y3).residuals));
     expect(jb.k).toBeGreaterThan(5); // a lone outlier in 11 values: heavy tail
     expect(c.normality.statistic).toBeCloseTo(jb.jb, 10);
@@ -87,7 +87,7 @@ describe("Anscombe's quartet (Anscombe 1973)", () => {
 
   it('Ljung–Box on naive residuals uses df = L (no parameter estimated)', () => {
     const f = fit('naive', anscombe.y1);
-    const c = checkResiduals(f, 4);
+    const c = runResidualTests(f, 4);
     const ref = ljungBoxReference(finite(f.residuals), 4, 0);
     expect(c.ljungBox.df).toBe(4);
     expect(c.ljungBox.statistic).toBeCloseTo(ref.q, 10);
@@ -107,7 +107,7 @@ describe('NIST StRD univariate datasets (certified values; structure from memory
     expect(f.coefficients.level).toBe(10000002);
     expect(f.sigma).toBe(1);
     // The lag-1 autocorrelation of the mean residuals is the series' own.
-    const c = checkResiduals(f, 1);
+    const c = runResidualTests(f, 1);
     expect(c.acf[0]).toBeCloseTo(-0.5, 14);
   });
 
@@ -115,7 +115,7 @@ describe('NIST StRD univariate datasets (certified values; structure from memory
     const f = fit('mean', numAcc(1));
     expect(f.coefficients.level).toBeCloseTo(1.2, 14);
     expect(Math.abs(f.sigma - 0.1)).toBeLessThan(1e-14);
-    expect(checkResiduals(f, 1).acf[0]).toBeCloseTo(-0.999, 12);
+    expect(runResidualTests(f, 1).acf[0]).toBeCloseTo(-0.999, 12);
   });
 
   it('NumAcc4: the same pattern around 10000000.2 keeps mean and sd to 1e-9 (stable sums)', () => {
@@ -123,7 +123,7 @@ describe('NIST StRD univariate datasets (certified values; structure from memory
     const f = fit('mean', y);
     expect(Math.abs(f.coefficients.level! - 10000000.2)).toBeLessThan(1e-8);
     expect(Math.abs(f.sigma - 0.1) / 0.1).toBeLessThan(1e-7);
-    expect(checkResiduals(f, 1).acf[0]).toBeCloseTo(-0.999, 6);
+    expect(runResidualTests(f, 1).acf[0]).toBeCloseTo(-0.999, 6);
     // The one-pass textbook formula sqrt((sum y^2 - n ybar^2)/(n-1)) loses every digit here (its
     // variance even comes out negative), which is why the engine uses two passes.
     const n = y.length;
