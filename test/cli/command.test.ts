@@ -163,6 +163,73 @@ describe('the command on the demo scenario', () => {
     expect(readFileSync(path.join(dir, 'metrics', 'm.csv'), 'utf8')).toBe(before);
   });
 
+  it("writes the HTML report and renders the markdown with a template of the user's own", async () => {
+    const dir = tmp();
+    writeFileSync(path.join(dir, 'mine.hbs'), 'Run verdict: {{verdict.label}} ({{verdict.code}})\n');
+    const html = path.join(dir, 'report.html');
+    const r = await cli([
+      'run',
+      '--cwd',
+      demo,
+      '--config',
+      'leadline.yml',
+      '--fail-on',
+      'never',
+      '--template',
+      path.join(dir, 'mine.hbs'),
+      '--print',
+      'markdown',
+      '--html',
+      html,
+    ]);
+    expect(r.code).toBe(0);
+    expect(r.out).toBe('Run verdict: alarm (alarm)\n');
+    const page = readFileSync(html, 'utf8');
+    expect(page).toMatch(/^<!doctype html>/i);
+    expect(page).toContain('label-render');
+    const missing = await cli([
+      'run',
+      '--cwd',
+      demo,
+      '--config',
+      'leadline.yml',
+      '--template',
+      path.join(dir, 'none.hbs'),
+    ]);
+    expect(missing.code).toBe(2);
+    expect(missing.err).toMatch(/--template: cannot read .*none\.hbs/);
+  });
+
+  it('reports progress on stderr when there are many series, and keeps stdout for the result', async () => {
+    const dir = tmp();
+    const cols = Array.from({ length: 220 }, (_, c) => `c${c}`);
+    const rows = Array.from({ length: 40 }, (_, t) =>
+      cols.map((_, c) => (100 + c + ((t * 7 + c) % 5)).toString()).join(','),
+    );
+    writeFileSync(path.join(dir, 'wide.csv'), [cols.join(','), ...rows].join('\n') + '\n');
+    writeFileSync(
+      path.join(dir, 'l.yml'),
+      `version: 1\nmetrics:\n  - name: wide\n    file: wide.csv\n    value: [${cols.join(', ')}]\n`,
+    );
+    const r = await cli(['run', '--cwd', dir, '--config', 'l.yml', '--fail-on', 'never', '--print', 'json']);
+    expect(r.code).toBe(0);
+    expect(r.err).toMatch(/leadline: analysed 220 of 220 series/);
+    expect((JSON.parse(r.out) as Results).series).toHaveLength(220);
+    const quiet = await cli([
+      'run',
+      '--cwd',
+      dir,
+      '--config',
+      'l.yml',
+      '--fail-on',
+      'never',
+      '--print',
+      'none',
+      '--quiet',
+    ]);
+    expect(quiet.err).toBe('');
+  });
+
   it('runs from the committed bundle and prints the markdown report', async () => {
     const bundle = path.join(repo, 'dist', 'cli.js');
     expect(existsSync(bundle)).toBe(true);
