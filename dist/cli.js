@@ -49681,9 +49681,7 @@ function fanChart(s2, id) {
   if (!xe || !ye) {
     return `${svgOpen(id, 60, title, "No values to draw.", "fan")}<text class="empty" x="${W / 2}" y="34" text-anchor="middle">No values to draw.</text></svg>`;
   }
-  const x2 = tl.timeAxis ? utcTime().domain([new Date(xe[0]), new Date(xe[1])]).range([M.left, W - M.right]) : linear2().domain(xe).range([M.left, W - M.right]);
-  const y2 = linear2().domain(ye).nice().range([height - M.bottom, M.top]);
-  const X = (v) => x2(v);
+  const { x: x2, y: y2, X } = planeScales(tl.timeAxis, xe, ye, height);
   const out = [];
   const desc = `Observed values${hist.length ? ` (${hist.length} most recent)` : ""}, the ${s2.method ? METHOD_LABEL[s2.method] ?? s2.method : ""} forecast over ${s2.forecast.length} steps with ${levels2.map((l) => `${l}%`).join(" and ")} prediction intervals` + (checked.length ? `, ${checked.length} checked observations (${checked.filter((q) => q.c.alarm).length} alarms)` : "") + (lim ? `, and the limit ${num(lim.value, 6)}` : "") + ".";
   out.push(svgOpen(id, height, title, desc, "fan"));
@@ -49748,9 +49746,7 @@ function residualChart(s2, id) {
   const ye = extent([0, ...pts.map((p) => p.r)]);
   if (!xe || !ye || pts.length === 0)
     return `${svgOpen(id, 60, title, "No residuals to draw.", "resid")}<text class="empty" x="${W / 2}" y="34" text-anchor="middle">No residuals to draw.</text></svg>`;
-  const x2 = tl.timeAxis ? utcTime().domain([new Date(xe[0]), new Date(xe[1])]).range([M.left, W - M.right]) : linear2().domain(xe).range([M.left, W - M.right]);
-  const y2 = linear2().domain(ye).nice().range([height - M.bottom, M.top]);
-  const X = (v) => x2(v);
+  const { x: x2, y: y2, X } = planeScales(tl.timeAxis, xe, ye, height);
   const zero3 = f(y2(0));
   const path7 = line().x((p) => X(p.x)).y((p) => y2(p.r))(pts);
   return svgOpen(
@@ -49846,6 +49842,12 @@ function backtestChart(s2, id) {
     (t) => `<line class="grid" x1="${f(x2(t))}" x2="${f(x2(t))}" y1="${M.top}" y2="${axisY}"/><text class="tick" x="${f(x2(t))}" y="${axisY + 16}" text-anchor="middle">${escapeHtml(num(t))}</text>`
   ).join("");
   return svgOpen(id, height, title, desc, "bt") + ticks2 + bars + "</svg>";
+}
+function planeScales(timeAxis, xe, ye, height) {
+  const x2 = timeAxis ? utcTime().domain([new Date(xe[0]), new Date(xe[1])]).range([M.left, W - M.right]) : linear2().domain(xe).range([M.left, W - M.right]);
+  const y2 = linear2().domain(ye).nice().range([height - M.bottom, M.top]);
+  const X = (v) => x2(v);
+  return { x: x2, y: y2, X };
 }
 
 // src/report/html.ts

@@ -71435,9 +71435,7 @@ function fanChart(s2, id) {
   if (!xe || !ye) {
     return `${svgOpen(id, 60, title, "No values to draw.", "fan")}<text class="empty" x="${W / 2}" y="34" text-anchor="middle">No values to draw.</text></svg>`;
   }
-  const x2 = tl.timeAxis ? utcTime().domain([new Date(xe[0]), new Date(xe[1])]).range([M.left, W - M.right]) : linear2().domain(xe).range([M.left, W - M.right]);
-  const y2 = linear2().domain(ye).nice().range([height - M.bottom, M.top]);
-  const X = (v) => x2(v);
+  const { x: x2, y: y2, X } = planeScales(tl.timeAxis, xe, ye, height);
   const out = [];
   const desc = `Observed values${hist.length ? ` (${hist.length} most recent)` : ""}, the ${s2.method ? METHOD_LABEL[s2.method] ?? s2.method : ""} forecast over ${s2.forecast.length} steps with ${levels2.map((l) => `${l}%`).join(" and ")} prediction intervals` + (checked.length ? `, ${checked.length} checked observations (${checked.filter((q) => q.c.alarm).length} alarms)` : "") + (lim ? `, and the limit ${num(lim.value, 6)}` : "") + ".";
   out.push(svgOpen(id, height, title, desc, "fan"));
@@ -71502,9 +71500,7 @@ function residualChart(s2, id) {
   const ye = extent([0, ...pts.map((p) => p.r)]);
   if (!xe || !ye || pts.length === 0)
     return `${svgOpen(id, 60, title, "No residuals to draw.", "resid")}<text class="empty" x="${W / 2}" y="34" text-anchor="middle">No residuals to draw.</text></svg>`;
-  const x2 = tl.timeAxis ? utcTime().domain([new Date(xe[0]), new Date(xe[1])]).range([M.left, W - M.right]) : linear2().domain(xe).range([M.left, W - M.right]);
-  const y2 = linear2().domain(ye).nice().range([height - M.bottom, M.top]);
-  const X = (v) => x2(v);
+  const { x: x2, y: y2, X } = planeScales(tl.timeAxis, xe, ye, height);
   const zero3 = f(y2(0));
   const path8 = line().x((p) => X(p.x)).y((p) => y2(p.r))(pts);
   return svgOpen(
@@ -71600,6 +71596,12 @@ function backtestChart(s2, id) {
     (t) => `<line class="grid" x1="${f(x2(t))}" x2="${f(x2(t))}" y1="${M.top}" y2="${axisY}"/><text class="tick" x="${f(x2(t))}" y="${axisY + 16}" text-anchor="middle">${escapeHtml(num(t))}</text>`
   ).join("");
   return svgOpen(id, height, title, desc, "bt") + ticks2 + bars + "</svg>";
+}
+function planeScales(timeAxis, xe, ye, height) {
+  const x2 = timeAxis ? utcTime().domain([new Date(xe[0]), new Date(xe[1])]).range([M.left, W - M.right]) : linear2().domain(xe).range([M.left, W - M.right]);
+  const y2 = linear2().domain(ye).nice().range([height - M.bottom, M.top]);
+  const X = (v) => x2(v);
+  return { x: x2, y: y2, X };
 }
 
 // src/report/html.ts
@@ -76551,18 +76553,8 @@ function octokitApi(s2) {
       retry: { retryAfterBaseValue: s2.retryBaseMs },
       throttle: {
         retryAfterBaseValue: s2.retryBaseMs,
-        onRateLimit: (after, options, _o, count) => {
-          info(
-            `GitHub API rate limit reached for ${options.method} ${options.url}; retry in ${after}s.`
-          );
-          return count < 2 && after <= MAX_RATE_WAIT_S;
-        },
-        onSecondaryRateLimit: (after, options, _o, count) => {
-          info(
-            `GitHub API secondary rate limit for ${options.method} ${options.url}; retry in ${after}s.`
-          );
-          return count < 2 && after <= MAX_RATE_WAIT_S;
-        }
+        onRateLimit: waitOutRateLimit("rate limit reached"),
+        onSecondaryRateLimit: waitOutRateLimit("secondary rate limit")
       },
       // Octokit's own messages go to the debug log, never to annotations.
       log: {
@@ -76633,6 +76625,12 @@ function octokitApi(s2) {
         if (httpStatus(e) !== 422) throw e;
       }
     }
+  };
+}
+function waitOutRateLimit(what) {
+  return (after, options, _o, count) => {
+    info(`GitHub API ${what} for ${options.method} ${options.url}; retry in ${after}s.`);
+    return count < 2 && after <= MAX_RATE_WAIT_S;
   };
 }
 

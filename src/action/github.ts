@@ -103,28 +103,8 @@ export function octokitApi(s: OctokitSettings): IssueApi {
       retry: { retryAfterBaseValue: s.retryBaseMs },
       throttle: {
         retryAfterBaseValue: s.retryBaseMs,
-        onRateLimit: (
-          after: number,
-          options: { method: string; url: string },
-          _o: unknown,
-          count: number,
-        ) => {
-          core.info(
-            `GitHub API rate limit reached for ${options.method} ${options.url}; retry in ${after}s.`,
-          );
-          return count < 2 && after <= MAX_RATE_WAIT_S;
-        },
-        onSecondaryRateLimit: (
-          after: number,
-          options: { method: string; url: string },
-          _o: unknown,
-          count: number,
-        ) => {
-          core.info(
-            `GitHub API secondary rate limit for ${options.method} ${options.url}; retry in ${after}s.`,
-          );
-          return count < 2 && after <= MAX_RATE_WAIT_S;
-        },
+        onRateLimit: waitOutRateLimit('rate limit reached'),
+        onSecondaryRateLimit: waitOutRateLimit('secondary rate limit'),
       },
       // Octokit's own messages go to the debug log, never to annotations.
       log: {
@@ -196,5 +176,13 @@ export function octokitApi(s: OctokitSettings): IssueApi {
         if (httpStatus(e) !== 422) throw e;
       }
     },
+  };
+}
+
+/** A throttling callback: say so, then retry twice at most, and only for a short wait. */
+function waitOutRateLimit(what: string) {
+  return (after: number, options: { method: string; url: string }, _o: unknown, count: number): boolean => {
+    core.info(`GitHub API ${what} for ${options.method} ${options.url}; retry in ${after}s.`);
+    return count < 2 && after <= MAX_RATE_WAIT_S;
   };
 }

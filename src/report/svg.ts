@@ -178,18 +178,7 @@ export function fanChart(s: SeriesResult, id: string): string {
   if (!xe || !ye) {
     return `${svgOpen(id, 60, title, 'No values to draw.', 'fan')}<text class="empty" x="${W / 2}" y="34" text-anchor="middle">No values to draw.</text></svg>`;
   }
-  const x: XScale = tl.timeAxis
-    ? scaleUtc()
-        .domain([new Date(xe[0]), new Date(xe[1])])
-        .range([M.left, W - M.right])
-    : scaleLinear()
-        .domain(xe)
-        .range([M.left, W - M.right]);
-  const y = scaleLinear()
-    .domain(ye)
-    .nice()
-    .range([height - M.bottom, M.top]);
-  const X = (v: number) => x(v as number & Date);
+  const { x, y, X } = planeScales(tl.timeAxis, xe, ye, height);
 
   const out: string[] = [];
   const desc =
@@ -288,18 +277,7 @@ export function residualChart(s: SeriesResult, id: string): string {
   const ye = extent([0, ...pts.map((p) => p.r)]);
   if (!xe || !ye || pts.length === 0)
     return `${svgOpen(id, 60, title, 'No residuals to draw.', 'resid')}<text class="empty" x="${W / 2}" y="34" text-anchor="middle">No residuals to draw.</text></svg>`;
-  const x: XScale = tl.timeAxis
-    ? scaleUtc()
-        .domain([new Date(xe[0]), new Date(xe[1])])
-        .range([M.left, W - M.right])
-    : scaleLinear()
-        .domain(xe)
-        .range([M.left, W - M.right]);
-  const y = scaleLinear()
-    .domain(ye)
-    .nice()
-    .range([height - M.bottom, M.top]);
-  const X = (v: number) => x(v as number & Date);
+  const { x, y, X } = planeScales(tl.timeAxis, xe, ye, height);
   const zero = f(y(0));
   const path = line<{ x: number; r: number }>()
     .x((p) => X(p.x))
@@ -487,4 +465,21 @@ export function backtestChart(s: SeriesResult, id: string): string {
     )
     .join('');
   return svgOpen(id, height, title, desc, 'bt') + ticks + bars + '</svg>';
+}
+
+/** The x scale (UTC time or step number), the y scale, and X: x as a plain number function. */
+function planeScales(timeAxis: boolean, xe: [number, number], ye: [number, number], height: number) {
+  const x: XScale = timeAxis
+    ? scaleUtc()
+        .domain([new Date(xe[0]), new Date(xe[1])])
+        .range([M.left, W - M.right])
+    : scaleLinear()
+        .domain(xe)
+        .range([M.left, W - M.right]);
+  const y = scaleLinear()
+    .domain(ye)
+    .nice()
+    .range([height - M.bottom, M.top]);
+  const X = (v: number) => x(v as number & Date);
+  return { x, y, X };
 }
