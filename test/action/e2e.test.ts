@@ -1,6 +1,6 @@
 // End-to-end: the bundled Action (dist/index.js, built by `npm run bundle`) in a child process with
 // the runner's environment, against a loopback GitHub (fake-github.ts) and a real git workspace.
-import { execFileSync, spawn } from 'node:child_process';
+import { spawn } from 'node:child_process';
 import {
   appendFileSync,
   existsSync,
@@ -16,6 +16,7 @@ import { fileURLToPath } from 'node:url';
 import { afterAll, afterEach, beforeAll, beforeEach, describe, expect, it } from 'vitest';
 import type { Results } from '../../src/results.js';
 import { FakeGitHubServer } from './fake-github.js';
+import { git } from './helpers.js';
 
 // LEADLINE_E2E_BUNDLE points at another build (e.g. one under test before it is committed).
 const BUNDLE =
@@ -28,20 +29,6 @@ const temp: string[] = [];
 afterAll(() => {
   for (const d of temp) rmSync(d, { recursive: true, force: true });
 });
-
-function git(cwd: string, ...args: string[]): string {
-  return execFileSync('git', args, {
-    cwd,
-    encoding: 'utf8',
-    env: {
-      ...process.env,
-      GIT_AUTHOR_NAME: 'Fernhill Bot',
-      GIT_AUTHOR_EMAIL: 'bot@fernhill.invalid',
-      GIT_COMMITTER_NAME: 'Fernhill Bot',
-      GIT_COMMITTER_EMAIL: 'bot@fernhill.invalid',
-    },
-  }).trim();
-}
 
 /** Deterministic noise in [-1, 1) (a linear congruential generator; only the demo needs it to look random). */
 function noise(seed: number): () => number {

@@ -1,8 +1,8 @@
-import { execFileSync } from 'node:child_process';
 import { mkdtempSync, mkdirSync, rmSync, writeFileSync, appendFileSync } from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
+import { git } from './helpers.js';
 import {
   compareWithBase,
   countLines,
@@ -16,20 +16,6 @@ const dirs: string[] = [];
 afterAll(() => {
   for (const d of dirs) rmSync(d, { recursive: true, force: true });
 });
-
-function git(cwd: string, ...args: string[]): string {
-  return execFileSync('git', args, {
-    cwd,
-    encoding: 'utf8',
-    env: {
-      ...process.env,
-      GIT_AUTHOR_NAME: 'Leadline Test',
-      GIT_AUTHOR_EMAIL: 'test@leadline.invalid',
-      GIT_COMMITTER_NAME: 'Leadline Test',
-      GIT_COMMITTER_EMAIL: 'test@leadline.invalid',
-    },
-  }).trim();
-}
 
 /** A repository with a base commit and a pull-request commit that appends rows. */
 function makeRepo() {

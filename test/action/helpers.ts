@@ -1,3 +1,4 @@
+import { execFileSync } from 'node:child_process';
 // Hand-built results and an in-memory GitHub for the Action's unit tests.
 import type { CheckedObservation, Results, SeriesResult } from '../../src/results.js';
 import type { Issue, IssueApi, IssueComment, IssuePatch } from '../../src/action/github.js';
@@ -191,4 +192,19 @@ export class FakeGitHub implements IssueApi {
     if (this.labelCreationFails) throw Object.assign(new Error('forbidden'), { status: 403 });
     this.labels.add(name);
   }
+}
+
+/** Runs git in `cwd` as a fixed test identity; returns its trimmed output. */
+export function git(cwd: string, ...args: string[]): string {
+  return execFileSync('git', args, {
+    cwd,
+    encoding: 'utf8',
+    env: {
+      ...process.env,
+      GIT_AUTHOR_NAME: 'Leadline Test',
+      GIT_AUTHOR_EMAIL: 'test@leadline.invalid',
+      GIT_COMMITTER_NAME: 'Leadline Test',
+      GIT_COMMITTER_EMAIL: 'test@leadline.invalid',
+    },
+  }).trim();
 }
