@@ -12,6 +12,8 @@ import type { Results } from '../../src/results.js';
 const repo = path.resolve(import.meta.dirname, '..', '..');
 const demo = path.join(repo, 'fixtures', 'demo');
 const run = promisify(execFile);
+/** The command's arguments for a run on the demo scenario. */
+const DEMO = ['run', '--cwd', demo, '--config', 'leadline.yml'];
 
 async function cli(argv: string[], cwd = repo) {
   let out = '';
@@ -33,19 +35,7 @@ describe('the command on the demo scenario', () => {
   it('gives each demo series the verdict its scenario was built for', async () => {
     const dir = tmp();
     const json = path.join(dir, 'results.json');
-    const r = await cli([
-      'run',
-      '--cwd',
-      demo,
-      '--config',
-      'leadline.yml',
-      '--json',
-      json,
-      '--fail-on',
-      'never',
-      '--print',
-      'none',
-    ]);
+    const r = await cli([...DEMO, '--json', json, '--fail-on', 'never', '--print', 'none']);
     expect(r.code).toBe(0);
     const results = JSON.parse(readFileSync(json, 'utf8')) as Results;
     const verdicts = Object.fromEntries(results.series.map((s) => [s.name, s.verdict]));
@@ -76,7 +66,7 @@ describe('the command on the demo scenario', () => {
   });
 
   it('exits 1 when the gate fails and 0 when it passes or is off', async () => {
-    const args = ['run', '--cwd', demo, '--config', 'leadline.yml', '--print', 'none'];
+    const args = [...DEMO, '--print', 'none'];
     expect((await cli([...args, '--fail-on', 'alarm'])).code).toBe(1);
     expect((await cli([...args, '--fail-on', 'limit'])).code).toBe(1);
     expect((await cli([...args, '--fail-on', 'alarm,limit'])).code).toBe(1);
@@ -84,23 +74,14 @@ describe('the command on the demo scenario', () => {
   });
 
   it('prints a terminal summary that names the alarm and says forecasts are not guarantees', async () => {
-    const r = await cli(['run', '--cwd', demo, '--config', 'leadline.yml', '--fail-on', 'alarm']);
+    const r = await cli([...DEMO, '--fail-on', 'alarm']);
     expect(r.code).toBe(1);
     expect(r.out).toMatch(/ALARM\s+label-render/);
     expect(r.out).toMatch(/AT RISK\s+events-db-storage/);
     expect(r.out).toMatch(/Gate failed \(fail-on: alarm\): 1 alarm/);
     expect(r.out).toMatch(/not guarantees/);
     expect(r.out).not.toContain('\u001b['); // not a terminal: no colour codes
-    const coloured = await cli([
-      'run',
-      '--cwd',
-      demo,
-      '--config',
-      'leadline.yml',
-      '--fail-on',
-      'never',
-      '--color',
-    ]);
+    const coloured = await cli([...DEMO, '--fail-on', 'never', '--color']);
     expect(coloured.out).toContain('\u001b[31mALARM');
   });
 
@@ -168,11 +149,7 @@ describe('the command on the demo scenario', () => {
     writeFileSync(path.join(dir, 'mine.hbs'), 'Run verdict: {{verdict.label}} ({{verdict.code}})\n');
     const html = path.join(dir, 'report.html');
     const r = await cli([
-      'run',
-      '--cwd',
-      demo,
-      '--config',
-      'leadline.yml',
+      ...DEMO,
       '--fail-on',
       'never',
       '--template',
@@ -187,15 +164,7 @@ describe('the command on the demo scenario', () => {
     const page = readFileSync(html, 'utf8');
     expect(page).toMatch(/^<!doctype html>/i);
     expect(page).toContain('label-render');
-    const missing = await cli([
-      'run',
-      '--cwd',
-      demo,
-      '--config',
-      'leadline.yml',
-      '--template',
-      path.join(dir, 'none.hbs'),
-    ]);
+    const missing = await cli([...DEMO, '--template', path.join(dir, 'none.hbs')]);
     expect(missing.code).toBe(2);
     expect(missing.err).toMatch(/--template: cannot read .*none\.hbs/);
   });
