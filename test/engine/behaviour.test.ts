@@ -163,15 +163,12 @@ describe('empirical intervals', () => {
   const y = randomWalk(120, 8);
   const f = fit('naive', y);
   const mb = runBacktest(y, ['naive'], { season: 1, minTrain: 10, horizon: 3, levels: [80] }).methods.naive!;
+  const empirical = { levels: [80], kind: 'empirical' as const, paths: 1, seed: 1, backtest: mb };
 
   it('add the quantiles of the backtest errors to the point forecast', () => {
     const out = makeForecast(f, {
       horizon: 3,
-      levels: [80],
-      kind: 'empirical',
-      paths: 1,
-      seed: 1,
-      backtest: mb,
+      ...empirical,
     });
     expect(out.kind).toBe('empirical');
     const sorted = Float64Array.from(mb.errors[1]!).sort();
@@ -188,11 +185,7 @@ describe('empirical intervals', () => {
   it('fall back to analytic with a note naming the numbers when there are too few errors', () => {
     const out = makeForecast(f, {
       horizon: 3,
-      levels: [80],
-      kind: 'empirical',
-      paths: 1,
-      seed: 1,
-      backtest: mb,
+      ...empirical,
       minErrors: 500,
     });
     expect(out.kind).toBe('analytic');
@@ -202,11 +195,7 @@ describe('empirical intervals', () => {
   it('use analytic bands beyond the backtest horizon and say so', () => {
     const out = makeForecast(f, {
       horizon: 5,
-      levels: [80],
-      kind: 'empirical',
-      paths: 1,
-      seed: 1,
-      backtest: mb,
+      ...empirical,
     });
     expect(out.kind).toBe('empirical');
     expect(out.notes.join(' ')).toMatch(/steps 4–5 have fewer than 20 backtest errors/);
