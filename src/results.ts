@@ -1,4 +1,4 @@
-// Results JSON, version 1 (DESIGN.md). Stable: add fields, never rename.
+// Results JSON, version 1 (docs/design.md). Stable: add fields, never rename.
 // The report renderers and the GitHub publishers read only this, so the results file alone
 // (e.g. an artifact handed to a workflow_run job) is enough to render the whole report.
 import type { IntervalKind, MethodName, ScoreName } from './engine/types.js';

@@ -22,7 +22,7 @@ import { fmt, fmtP, meanAndSquares, powerOfTwoBelow } from './numeric.js';
 import { methodLabel } from './methods.js';
 import type { Fit, ResidualChecks, TestResult } from './types.js';
 
-/** Default Ljung–Box lags (DESIGN.md): min(10, floor(T/5)) without a season, min(2m, floor(T/5)) with one; at least 1. */
+/** Default Ljung–Box lags (docs/design.md): min(10, floor(T/5)) without a season, min(2m, floor(T/5)) with one; at least 1. */
 export function defaultLags(n: number, season: number): number {
   const fifth = Math.floor(n / 5);
   const cap = season > 1 ? 2 * Math.floor(season) : 10;

@@ -1,7 +1,7 @@
 // Point forecasts with prediction intervals of three kinds, and probabilities under them.
 //
 // - analytic: point ± q × se, q the Student-t quantile at 0.5 + L/200 with the sigma-hat df
-//   (DESIGN.md), exact under Gaussian white-noise errors.
+//   (docs/design.md), exact under Gaussian white-noise errors.
 // - bootstrap: quantiles per step of simulated paths (simulate.ts), by linear interpolation
 //   between order statistics (Hyndman & Fan definition 7). The paths are kept on the Forecast.
 // - empirical: point + quantiles of the backtest's h-step errors (actual - forecast). A step needs at

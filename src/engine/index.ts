@@ -1,5 +1,5 @@
 // The engine's public surface: pure statistics, no I/O, no global state (the only module-level
-// state is a memo of t quantiles, which cannot change any result). See DESIGN.md for the conventions.
+// state is a memo of t quantiles, which cannot change any result). See docs/design.md for the conventions.
 export * from './types.js';
 export { tQuantile, tCdf, normalQuantile, normalCdf, chiSquareCdf, chiSquareQuantile, fCdf } from './dist.js';
 export { createRandom, type Random } from './random.js';

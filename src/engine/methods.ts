@@ -1,4 +1,4 @@
-// The four baseline methods, exactly per the conventions table in DESIGN.md.
+// The four baseline methods, exactly per the conventions table in docs/design.md.
 //
 // Missing values (NaN; any non-finite value counts as missing):
 // - mean: the level, sigma and T in the standard error use the observed values only (n of them);
@@ -7,10 +7,10 @@
 //   value are NaN and left out of every sum. Forecasts start from the last observed value; when
 //   the newest g values are missing the forecast is g + h steps ahead of that value and the standard
 //   error counts g + h steps. The drift slope runs from the first to the last observed value,
-//   (y_last - y_first) / (last - first), which is the DESIGN slope when nothing is missing.
+//   (y_last - y_first) / (last - first), which is the docs/design.md slope when nothing is missing.
 // - seasonal naive: a residual needs the value and the one a season before. Each step's forecast is
 //   the latest observed value in the same season position; k seasons back gives sigma·sqrt(k).
-// sigma-hat always has df = (number of residuals) - 1, which is the DESIGN df when nothing is
+// sigma-hat always has df = (number of residuals) - 1, which is the docs/design.md df when nothing is
 // missing (mean T-1, naive T-2, seasonal naive T-m-1, drift T-2).
 //
 // Too short: each method needs a sigma with at least 1 degree of freedom, i.e. mean 2 observed
@@ -159,7 +159,7 @@ function fitDifference(
       if (present(fitted[i]!)) fitted[i] = fitted[i]! + slope;
       if (present(residuals[i]!)) residuals[i] = residuals[i]! - slope;
     }
-    // sqrt(sum e^2 / df): squares about zero, not about the residuals' own mean (DESIGN).
+    // sqrt(sum e^2 / df): squares about zero, not about the residuals' own mean (docs/design.md).
     sigma = meanAndSquares(residuals, 0).sd(df);
     coefficients.slope = slope;
     coefficients.span = span;

@@ -12,10 +12,10 @@ export type IntervalKind = 'analytic' | 'bootstrap' | 'empirical';
 /** `auto` is resolved by the engine; see chooseIntervalKind. */
 export type IntervalChoice = IntervalKind | 'auto';
 
-/** Backtest accuracy measures (DESIGN.md). MPE/MAPE in percent over non-zero actuals. */
+/** Backtest accuracy measures (docs/design.md). MPE/MAPE in percent over non-zero actuals. */
 export type ScoreName = 'me' | 'rmse' | 'mae' | 'mpe' | 'mape' | 'mase';
 
-/** One method fitted to y_1..y_T (DESIGN.md conventions table). */
+/** One method fitted to y_1..y_T (docs/design.md conventions table). */
 export interface Fit {
   method: MethodName;
   /** season length m used (1 = none). */
@@ -24,11 +24,11 @@ export interface Fit {
   n: number;
   /** Fitted one-step values, NaN where the method defines none. Length T. */
   fitted: Float64Array;
-  /** Residuals as in DESIGN.md, NaN where undefined or missing. Length T (index t-1 = time t). */
+  /** Residuals as in docs/design.md, NaN where undefined or missing. Length T (index t-1 = time t). */
   residuals: Float64Array;
   /** Number of non-NaN residuals. */
   residualCount: number;
-  /** sigma-hat and its degrees of freedom (DESIGN.md). NaN/0 when not estimable. */
+  /** sigma-hat and its degrees of freedom (docs/design.md). NaN/0 when not estimable. */
   sigma: number;
   sigmaDf: number;
   /** K: parameters estimated from the data (mean 1, naive 0, seasonal naive 0, drift 1). */
@@ -88,7 +88,7 @@ export interface StepMeasures {
 
 export interface MethodBacktest {
   method: MethodName;
-  /** Step-1 measures at top level (DESIGN.md). */
+  /** Step-1 measures at top level (docs/design.md). */
   origins: number;
   me: number;
   rmse: number;

@@ -80,7 +80,7 @@ describe('published table values', () => {
   });
 
   it('an 80% interval uses the 90th percentile and a 95% interval the 97.5th (common practice)', () => {
-    // 0.5 + L/200 (DESIGN.md): the two tails each hold (100 - L)/2 percent.
+    // 0.5 + L/200 (docs/design.md): the two tails each hold (100 - L)/2 percent.
     expect(0.5 + 80 / 200).toBe(0.9);
     expect(0.5 + 95 / 200).toBe(0.975);
     expect(tQuantile(0.5 + 95 / 200, 1e12)).toBeCloseTo(1.959964, 5);

@@ -1,4 +1,4 @@
-// The four methods against the DESIGN.md conventions table, worked by hand on small series.
+// The four methods against the docs/design.md conventions table, worked by hand on small series.
 import { describe, expect, it } from 'vitest';
 import {
   fitMethod,

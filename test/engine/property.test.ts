@@ -1,5 +1,5 @@
 // Property tests (fast-check): the O(T·H) backtest against a plain refit at every origin written
-// here from DESIGN.md, intervals nested by level, widths growing with h where the formula says,
+// here from docs/design.md, intervals nested by level, widths growing with h where the formula says,
 // and bootstrap paths reproducible by seed.
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
@@ -14,7 +14,7 @@ import {
 
 const METHODS: MethodName[] = ['mean', 'naive', 'seasonal-naive', 'drift'];
 
-/** DESIGN.md's table for a series without missing values: point forecasts for steps 1..H. */
+/** docs/design.md's table for a series without missing values: point forecasts for steps 1..H. */
 function plainForecast(method: MethodName, y: number[], m: number, H: number): number[] | null {
   const T = y.length;
   const out: number[] = [];

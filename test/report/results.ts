@@ -1,5 +1,5 @@
 // Hand-built Results for the report tests: small, typed, and internally consistent. Forecasts follow
-// the DESIGN.md conventions (naive and drift, analytic Student-t intervals), so the numbers a report
+// the docs/design.md conventions (naive and drift, analytic Student-t intervals), so the numbers a report
 // shows are the kind the engine produces; the data are invented for these tests only.
 import jStatModule from 'jstat';
 import type {
