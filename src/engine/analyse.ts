@@ -1,9 +1,8 @@
 // The engine's whole job for one series: fit every candidate, backtest, select, forecast with
 // intervals, and check the residuals of the chosen fit.
 import {
-  BOOTSTRAP_ORIGINS,
-  BOOTSTRAP_PATHS,
-  EMPIRICAL_COVERAGE_POINTS,
+  BOOTSTRAP_COVERAGE_NOTE,
+  EMPIRICAL_COVERAGE_NOTE,
   measureCoverage,
   runBacktest,
 } from './backtest.js';
@@ -82,14 +81,8 @@ export function analyse(y: Float64Array, o: EngineOptions): Analysis | AnalysisF
   const chosenBt = backtest.methods[chosen.method]!;
   if (forecast.kind !== 'analytic')
     chosenBt.coverage[forecast.kind] = measureCoverage(y, chosenBt, forecast.kind, base);
-  if (forecast.kind === 'empirical')
-    backtest.notes.push(
-      `Empirical coverage counts, at each origin, only errors whose actuals were known by then (out of sample), from the first origin with at least ${DEFAULT_MIN_ERRORS} of them; at most about ${EMPIRICAL_COVERAGE_POINTS} errors per step are judged, evenly spread over the origins.`,
-    );
-  if (forecast.kind === 'bootstrap')
-    backtest.notes.push(
-      `Bootstrap coverage is measured at up to ${BOOTSTRAP_ORIGINS} origins spread evenly over the backtest, with ${BOOTSTRAP_PATHS} paths each, to keep its cost bounded.`,
-    );
+  if (forecast.kind === 'empirical') backtest.notes.push(EMPIRICAL_COVERAGE_NOTE(DEFAULT_MIN_ERRORS));
+  if (forecast.kind === 'bootstrap') backtest.notes.push(BOOTSTRAP_COVERAGE_NOTE);
   const mb = backtest.methods[chosen.method];
   for (const n of [...chosen.notes, ...backtest.notes, ...(mb?.notes ?? []), ...forecast.notes])
     if (!notes.includes(n)) notes.push(n);

@@ -1,4 +1,4 @@
-// Rolling-origin backtest (DESIGN.md) in O(T·H) per method.
+// Rolling-origin backtest (docs/design.md) in O(T·H) per method.
 //
 // Origins are the training sizes n = minTrain..T-1: the method is fitted to y_1..y_n and forecasts
 // steps h = 1..H (while n + h <= T); error = actual - forecast. Each origin's fit comes from running
@@ -6,7 +6,7 @@
 // deviations of the values (mean method), of the one-step differences (naive, drift) and of the
 // seasonal differences (seasonal naive), plus the first and last observed index and the latest
 // observed index in each season position. The fits are identical to fitMethod on the prefix, so
-// missing values are handled the same way (test/engine/backtest.property.test.ts compares the two).
+// missing values are handled the same way (test/engine/property.test.ts compares the two).
 // Origins where the method cannot be fitted yet, and missing actuals, are skipped.
 //
 // Measures per step: ME, RMSE, MAE, MPE and MAPE (percent, over non-zero actuals), MASE (MAE over
@@ -18,16 +18,23 @@
 //   costs O(log T);
 // - bootstrap: at most BOOTSTRAP_ORIGINS origins spread evenly, BOOTSTRAP_PATHS paths each, to keep
 //   the cost bounded; the paths resample that origin's own centred residuals (simulate.ts).
+//
+// Parts: RunningFit and one subclass per method hold the running state (fitOrigins feeds it);
+// scoreSteps turns the origins' fits into errors and measures, counting analytic coverage on the
+// way; empiricalCoverage and bootstrapCoverage measure the other two kinds.
 import { tQuantileFrom, tQuantileTable } from './dist.js';
 import { DEFAULT_MIN_ERRORS, sortedCopy } from './forecast.js';
 import { methodLabel } from './methods.js';
-import { powerOfTwoBelow, present, sortedQuantile } from './numeric.js';
+import { extremeUnit, Fenwick, inUnits, lowerBound, present, sortedQuantile, upperBound } from './numeric.js';
 import { createRandom } from './random.js';
 import { simulateInto, type SimSpec } from './simulate.js';
 import type { Backtest, IntervalKind, MethodBacktest, MethodName, StepMeasures } from './types.js';
+import { scratch } from './workspace.js';
 
 export const BOOTSTRAP_ORIGINS = 40;
 export const BOOTSTRAP_PATHS = 200;
+/** Errors judged per step by the empirical coverage check, at most (about). */
+export const EMPIRICAL_COVERAGE_POINTS = 100;
 
 export interface BacktestOptions {
   season: number;
@@ -47,104 +54,62 @@ export function runBacktest(y: Float64Array, methods: MethodName[], o: BacktestO
     throw new RangeError(`minTrain must be a whole number of at least 1; got ${o.minTrain}`);
   if (!Number.isInteger(o.horizon) || o.horizon < 1)
     throw new RangeError(`backtest horizon must be a whole number of at least 1; got ${o.horizon}`);
-  const T = y.length;
-  const m = Math.max(1, Math.floor(o.season));
+  const series = prepare(y, o.season);
+  const { ys, m } = series;
+  const T = ys.length;
   const notes: string[] = [];
   const kinds = o.coverage ?? ['analytic', 'empirical', 'bootstrap'];
   const minErrors = o.minErrors ?? DEFAULT_MIN_ERRORS;
 
-  // At extreme magnitudes (beyond 2^±300) work in units of the largest one, rounded to a power of
-  // two so the scaling is exact: squares of errors then neither overflow nor underflow; measures
-  // in units are scaled back.
-  let big = 0;
-  for (let i = 0; i < T; i++) if (present(y[i]!)) big = Math.max(big, Math.abs(y[i]!));
-  const unit = big > 2 ** 300 || (big > 0 && big < 2 ** -300) ? powerOfTwoBelow(big) : 1;
-  const ys = unit === 1 ? y : y.map((v) => v / unit);
-
-  // MASE scale over the whole series.
-  const lag = m > 1 ? m : 1;
-  let sAbs = 0;
-  let nAbs = 0;
-  for (let i = lag; i < T; i++) {
-    const a = ys[i]!;
-    const b = ys[i - lag]!;
-    if (present(a) && present(b)) {
-      sAbs += Math.abs(a - b);
-      nAbs++;
-    }
-  }
-  const scale = nAbs > 0 ? sAbs / nAbs : NaN;
-  if (!(scale > 0))
+  const scoring = scoringOf(ys, m);
+  if (!(scoring.scale > 0))
     notes.push(
-      `MASE is undefined: the series has no ${lag > 1 ? 'seasonal' : 'one-step'} changes to scale the errors by.`,
+      `MASE is undefined: the series has no ${m > 1 ? 'seasonal' : 'one-step'} changes to scale the errors by.`,
     );
   if (T - 1 < o.minTrain)
     notes.push(
       `The backtest has no origin: it trains on at least ${o.minTrain} observations and the series has ${T}.`,
     );
 
-  // 100 / actual, NaN where the actual is zero or missing: percentage errors by multiplication.
-  const inv100 = new Float64Array(T);
-  for (let i = 0; i < T; i++) {
-    const a = ys[i]!;
-    inv100[i] = a !== 0 && Number.isFinite(a) ? 100 / a : NaN;
-  }
   const out: Backtest = { minTrain: o.minTrain, horizon: o.horizon, methods: {}, notes };
-  const work = workspace(T, o.levels.length); // scratch shared by the methods, one after another
   for (const method of methods) {
-    out.methods[method] = backtestMethod(
-      ys,
-      inv100,
-      method,
-      m,
-      o,
-      scale,
-      unit,
-      kinds,
-      minErrors,
-      false,
-      work,
-    ) as MethodBacktest;
+    const scored = scoreSteps(series, method, scoring, {
+      minTrain: o.minTrain,
+      horizon: o.horizon,
+      levels: o.levels,
+      analytic: kinds.includes('analytic'),
+      origins: kinds.includes('empirical'),
+    });
+    const coverage: MethodBacktest['coverage'] = {};
+    if (scored.analytic) coverage.analytic = scored.analytic;
+    if (scored.origins)
+      coverage.empirical = empiricalCoverage({
+        errors: scored.errors,
+        origins: scored.origins,
+        originStride: scored.originStride,
+        levels: o.levels,
+        minErrors,
+      });
+    if (kinds.includes('bootstrap'))
+      coverage.bootstrap = bootstrapCoverage(series, method, {
+        minTrain: o.minTrain,
+        horizon: o.horizon,
+        levels: o.levels,
+        seed: o.seed ?? 1,
+      });
+    out.methods[method] = methodBacktest(method, scored.steps, scored.errors, coverage);
   }
-  if (kinds.includes('empirical'))
-    notes.push(
-      `Empirical coverage counts, at each origin, only errors whose actuals were known by then (out of sample), from the first origin with at least ${minErrors} of them; at most about ${EMPIRICAL_COVERAGE_POINTS} errors per step are judged, evenly spread over the origins.`,
-    );
-  if (kinds.includes('bootstrap'))
-    notes.push(
-      `Bootstrap coverage is measured at up to ${BOOTSTRAP_ORIGINS} origins spread evenly over the backtest, with ${BOOTSTRAP_PATHS} paths each, to keep its cost bounded.`,
-    );
+  if (kinds.includes('empirical')) notes.push(EMPIRICAL_COVERAGE_NOTE(minErrors));
+  if (kinds.includes('bootstrap')) notes.push(BOOTSTRAP_COVERAGE_NOTE);
   return out;
 }
 
-/** Per-origin scratch arrays; every entry a method reads it has written first. */
-interface Workspace {
-  base: Float64Array;
-  slopes: Float64Array;
-  meanFactor: Float64Array;
-  halfWidth2: Float64Array;
-  fcol: Float64Array;
-  vcol: Float64Array;
-  e2col: Float64Array;
-  gaps: Int32Array;
-  spans: Int32Array;
-  latestAt: Int32Array;
-}
+/** What the backtest's notes say about how empirical coverage is counted. */
+export const EMPIRICAL_COVERAGE_NOTE = (minErrors: number): string =>
+  `Empirical coverage counts, at each origin, only errors whose actuals were known by then (out of sample), from the first origin with at least ${minErrors} of them; at most about ${EMPIRICAL_COVERAGE_POINTS} errors per step are judged, evenly spread over the origins.`;
 
-function workspace(T: number, L: number): Workspace {
-  return {
-    base: new Float64Array(T),
-    slopes: new Float64Array(T),
-    meanFactor: new Float64Array(T),
-    halfWidth2: new Float64Array(L * T),
-    fcol: new Float64Array(T),
-    vcol: new Float64Array(T),
-    e2col: new Float64Array(T),
-    gaps: new Int32Array(T),
-    spans: new Int32Array(T),
-    latestAt: new Int32Array(T),
-  };
-}
+/** What the backtest's notes say about how bootstrap coverage is measured. */
+export const BOOTSTRAP_COVERAGE_NOTE = `Bootstrap coverage is measured at up to ${BOOTSTRAP_ORIGINS} origins spread evenly over the backtest, with ${BOOTSTRAP_PATHS} paths each, to keep its cost bounded.`;
 
 /**
  * Coverage of one more interval kind for a method already backtested (with the same options):
@@ -157,174 +122,415 @@ export function measureCoverage(
   kind: 'empirical' | 'bootstrap',
   o: BacktestOptions,
 ): Record<string, number> {
-  const T = y.length;
-  const minErrors = o.minErrors ?? DEFAULT_MIN_ERRORS;
-  if (kind === 'bootstrap') {
-    let big = 0;
-    for (let i = 0; i < T; i++) if (present(y[i]!)) big = Math.max(big, Math.abs(y[i]!));
-    const unit = big > 2 ** 300 || (big > 0 && big < 2 ** -300) ? powerOfTwoBelow(big) : 1;
-    const ys = unit === 1 ? y : y.map((v) => v / unit);
-    const m = Math.max(1, Math.floor(o.season));
-    return backtestMethod(ys, ys, mb.method, m, o, NaN, unit, ['bootstrap'], minErrors, true) as Record<
-      string,
-      number
-    >;
-  }
+  if (kind === 'bootstrap')
+    return bootstrapCoverage(prepare(y, o.season), mb.method, {
+      minTrain: o.minTrain,
+      horizon: o.horizon,
+      levels: o.levels,
+      seed: o.seed ?? 1,
+    });
   // The origin of each stored error: step h's errors come, in order, from the latest origins whose
   // step-h actual is observed (origins run to T - 1 - h; missing actuals leave no error).
+  const T = y.length;
   const maxO = Math.max(0, T - o.minTrain);
-  const origin = new Int32Array(mb.errors.length * maxO);
+  const origins = new Int32Array(mb.errors.length * maxO);
   mb.errors.forEach((e, k) => {
     const h = k + 1;
     let j = e.length - 1;
-    for (let i = T - 1 - h; j >= 0 && i >= 0; i--) if (present(y[i + h]!)) origin[k * maxO + j--] = i;
+    for (let i = T - 1 - h; j >= 0 && i >= 0; i--) if (present(y[i + h]!)) origins[k * maxO + j--] = i;
   });
-  return empiricalCoverage(mb.errors, origin, maxO, o.levels, minErrors);
+  return empiricalCoverage({
+    errors: mb.errors,
+    origins,
+    originStride: maxO,
+    levels: o.levels,
+    minErrors: o.minErrors ?? DEFAULT_MIN_ERRORS,
+  });
 }
 
-function backtestMethod(
-  ys: Float64Array,
-  inv100: Float64Array,
-  method: MethodName,
-  m: number,
-  o: BacktestOptions,
-  scale: number,
-  unit: number,
-  kinds: IntervalKind[],
-  minErrors: number,
-  bootOnly = false,
-  work?: Workspace,
-): MethodBacktest | Record<string, number> {
+// ---------------------------------------------------------------------------------------------
+// The series as the backtest reads it.
+
+interface Prepared {
+  /** Values in units of `unit` (numeric.ts extremeUnit: exact power-of-two rescaling). */
+  ys: Float64Array;
+  unit: number;
+  /** Season length, at least 1. */
+  m: number;
+}
+
+function prepare(y: Float64Array, season: number): Prepared {
+  const unit = extremeUnit(y);
+  return { ys: inUnits(y, unit), unit, m: Math.max(1, Math.floor(season)) };
+}
+
+/** What the measures share across methods: the MASE scale and 100 / actual. */
+interface Scoring {
+  /** In-sample MAE of the one-step (m = 1) or seasonal differences over the whole series, in units. */
+  scale: number;
+  /** 100 / actual, NaN where the actual is zero or missing: percentage errors by multiplication. */
+  inv100: Float64Array;
+}
+
+function scoringOf(ys: Float64Array, m: number): Scoring {
   const T = ys.length;
-  const H = o.horizon;
-  const minTrain = o.minTrain;
-  const maxO = Math.max(0, T - minTrain);
-  const L = o.levels.length;
-  const probs = o.levels.map((l) => 1 - (1 - l / 100) / 2);
-  const alphas = o.levels.map((l) => (1 - l / 100) / 2);
-  const tables = probs.map((p) => tQuantileTable(p));
-  const wantEmp = kinds.includes('empirical');
-  const wantBoot = kinds.includes('bootstrap');
-  const code = method === 'mean' ? 0 : method === 'naive' ? 1 : method === 'drift' ? 2 : 3;
+  const lag = m > 1 ? m : 1;
+  let sAbs = 0;
+  let nAbs = 0;
+  for (let i = lag; i < T; i++) {
+    const a = ys[i]!;
+    const b = ys[i - lag]!;
+    if (present(a) && present(b)) {
+      sAbs += Math.abs(a - b);
+      nAbs++;
+    }
+  }
+  const inv100 = scratch.f64('backtest.inv100', T);
+  for (let i = 0; i < T; i++) {
+    const a = ys[i]!;
+    inv100[i] = a !== 0 && Number.isFinite(a) ? 100 / a : NaN;
+  }
+  return { scale: nAbs > 0 ? sAbs / nAbs : NaN, inv100 };
+}
 
-  // Pass 1, over the origins in time order: the running state, and from it each origin's fit as
-  // a few numbers — base value (level or last observed value), slope, gap to the last observed
-  // value, drift span, and per level (q_df sigma)^2, the squared half-width per unit of the
-  // standard error's variance factor. Index = last training index i (training size i + 1).
-  const ws = work ?? workspace(T, L);
-  const base = ws.base;
-  const slopes = code === 2 ? ws.slopes : null;
-  const gaps = code === 1 || code === 2 ? ws.gaps : null;
-  const spans = code === 2 ? ws.spans : null;
-  const meanFactor = code === 0 ? ws.meanFactor : null;
-  const halfWidth2 = ws.halfWidth2;
-  let wN = 0;
-  let wMean = 0;
-  let wM2 = 0;
-  let dN = 0;
-  let dMean = 0;
-  let dM2 = 0;
-  let first = -1;
-  let last = -1;
-  const latest = code === 3 ? new Int32Array(m).fill(-1) : null;
-  // seasonal naive: latestAt[j] = latest observed index <= j in j's season position.
-  const latestAt = code === 3 ? ws.latestAt : null;
-  let phases = 0;
-  const lagD = code === 3 ? m : 1;
-  let i0 = -1; // first origin with a fit; every later origin has one too
+// ---------------------------------------------------------------------------------------------
+// Running fit state, one class per method.
 
-  // Bootstrap coverage: the origins it is measured at, the observed values (mean) or differences
-  // (the others) in order as the resampling pool, and the paths' buffers.
-  const boot = wantBoot ? bootstrapPlan(T, minTrain) : null;
-  const pool = wantBoot ? new Float64Array(T) : null;
-  const bootRnd = createRandom(o.seed ?? 1);
-  const bootPaths = wantBoot ? new Float64Array(BOOTSTRAP_PATHS * H) : null;
-  const col = new Float64Array(BOOTSTRAP_PATHS);
-  const bootInside = new Int32Array(L);
-  let bootTotal = 0;
+/** Welford's running mean and sum of squared deviations. */
+class Welford {
+  n = 0;
+  mean = 0;
+  m2 = 0;
 
-  for (let i = 0; i < T - 1; i++) {
-    const v = ys[i]!;
+  add(x: number): void {
+    this.n++;
+    const d = x - this.mean;
+    this.mean += d / this.n;
+    this.m2 += d * (x - this.mean);
+  }
+}
+
+/**
+ * Each origin's fit as a few numbers, indexed by the last training index i (training size i + 1):
+ * base value (level or last observed value), slope, gap to the last observed value, drift span,
+ * mean variance factor, latest observed index in i's season position. Workspace scratch: a method
+ * writes every entry it reads.
+ */
+interface OriginTable {
+  base: Float64Array;
+  slopes: Float64Array;
+  meanFactor: Float64Array;
+  gaps: Int32Array;
+  spans: Int32Array;
+  latestAt: Int32Array;
+}
+
+function originTable(T: number): OriginTable {
+  return {
+    base: scratch.f64('backtest.base', T),
+    slopes: scratch.f64('backtest.slopes', T),
+    meanFactor: scratch.f64('backtest.meanFactor', T),
+    gaps: scratch.i32('backtest.gaps', T),
+    spans: scratch.i32('backtest.spans', T),
+    latestAt: scratch.i32('backtest.latestAt', T),
+  };
+}
+
+const EMPTY = new Float64Array(0);
+
+/**
+ * One method fitted to the growing training window y[0..i], updated in O(1) per observation:
+ * push(i) takes in y[i] (i = 0, 1, … in order); fitAt(i) records the fit on y[0..i] in the origin
+ * table and returns sigma^2 (its df in `df`), or NaN while the method cannot be fitted; column()
+ * writes the step-h point forecasts and variance factors of a range of origins; spec(i) describes
+ * the fit at origin i for simulation. `pool`, when given, collects the values (mean) or differences
+ * (the others) in order: the bootstrap's resampling pool.
+ */
+abstract class RunningFit {
+  readonly stats = new Welford();
+  first = -1;
+  last = -1;
+  df = 0;
+
+  constructor(
+    readonly method: MethodName,
+    protected readonly ys: Float64Array,
+    protected readonly table: OriginTable,
+    protected readonly pool: Float64Array | null,
+  ) {}
+
+  push(i: number): void {
+    const v = this.ys[i]!;
     const ok = Number.isFinite(v);
     if (ok) {
-      if (code === 0) {
-        if (pool) pool[wN] = v;
-        wN++;
-        const d = v - wMean;
-        wMean += d / wN;
-        wM2 += d * (v - wMean);
-      } else if (i >= lagD) {
-        const b = ys[i - lagD]!;
-        if (Number.isFinite(b)) {
-          const x = v - b;
-          if (pool) pool[dN] = x;
-          dN++;
-          const d = x - dMean;
-          dMean += d / dN;
-          dM2 += d * (x - dMean);
-        }
-      }
-      if (first < 0) first = i;
-      last = i;
+      this.take(i, v);
+      if (this.first < 0) this.first = i;
+      this.last = i;
     }
-    if (latest) {
-      const ph = i % m;
-      if (ok) {
-        if (latest[ph]! < 0) phases++;
-        latest[ph] = i;
-        latestAt![i] = i;
-      } else latestAt![i] = i >= m ? latestAt![i - m]! : -1;
-    }
-    if (i + 1 < minTrain) continue;
-    let df: number;
-    let sigma2: number;
-    if (code === 0) {
-      if (wN < 2) continue;
-      df = wN - 1;
-      sigma2 = Math.max(0, wM2) / df;
-      base[i] = wMean;
-      meanFactor![i] = 1 + 1 / wN;
-    } else if (code === 1 || code === 2) {
-      if (dN < 2) continue;
-      df = dN - 1;
-      base[i] = ys[last]!;
-      gaps![i] = i - last;
-      if (code === 1) sigma2 = Math.max(0, dM2) / df;
-      else {
-        const span = last - first;
-        const slope = (ys[last]! - ys[first]!) / span;
-        const off = dMean - slope;
-        sigma2 = Math.max(0, dM2 + dN * off * off) / df;
-        slopes![i] = slope;
-        spans![i] = span;
-      }
-    } else {
-      if (dN < 2 || phases < m) continue;
-      df = dN - 1;
-      sigma2 = Math.max(0, dM2) / df;
-    }
-    if (i0 < 0) i0 = i;
-    for (let l = 0; l < L; l++) {
-      const q = tQuantileFrom(tables[l]!, probs[l]!, df);
-      halfWidth2[l * T + i] = q * q * sigma2;
-    }
-    if (boot && boot[i] === 1) {
-      const hMax = Math.min(H, T - 1 - i);
-      const spec = originSpec(code, pool!, ys, i, m, wN, wMean, dN, dMean, first, last, latest);
-      simulateInto(bootPaths!, spec, hMax, BOOTSTRAP_PATHS, bootRnd, 'bootstrap');
-      bootTotal += countInside(bootPaths!, hMax, ys, i, col, alphas, bootInside);
+    this.placed(i, ok);
+  }
+
+  abstract fitAt(i: number): number;
+  abstract column(h: number, from: number, to: number, f: Float64Array, v: Float64Array): void;
+
+  spec(i: number): SimSpec {
+    const n = this.stats.n;
+    return {
+      method: this.method,
+      pool: this.pool!,
+      poolLength: n,
+      shift: this.stats.mean,
+      scale: Math.sqrt(n / (n - 1)),
+      sigma: NaN, // resampling only: the Gaussian mode is not used here
+      level: 0,
+      last: this.last >= 0 ? this.ys[this.last]! : NaN,
+      gap: i - this.last,
+      slope: 0,
+      paramScale: 0,
+      season: 1,
+      base: EMPTY,
+      shocks: new Int32Array(0),
+    };
+  }
+
+  protected abstract take(i: number, v: number): void;
+  protected placed(_i: number, _ok: boolean): void {}
+
+  protected add(x: number): void {
+    if (this.pool) this.pool[this.stats.n] = x;
+    this.stats.add(x);
+  }
+}
+
+class RunningMean extends RunningFit {
+  protected take(_i: number, v: number): void {
+    this.add(v);
+  }
+
+  fitAt(i: number): number {
+    const w = this.stats;
+    if (w.n < 2) return NaN;
+    this.df = w.n - 1;
+    this.table.base[i] = w.mean;
+    this.table.meanFactor[i] = 1 + 1 / w.n;
+    return Math.max(0, w.m2) / this.df;
+  }
+
+  column(_h: number, from: number, to: number, f: Float64Array, v: Float64Array): void {
+    const { base, meanFactor } = this.table;
+    for (let i = from; i <= to; i++) {
+      f[i] = base[i]!;
+      v[i] = meanFactor[i]!;
     }
   }
 
-  if (bootOnly) return shares(o.levels, bootInside, bootTotal);
+  override spec(i: number): SimSpec {
+    const w = this.stats;
+    return { ...super.spec(i), level: w.mean, paramScale: 1 / Math.sqrt(w.n) };
+  }
+}
 
-  // Pass 2, step by step: each origin's forecast and variance factor for step h (method by
-  // method), then the error and every running sum in scalars.
+/** The methods fitted to differences at a lag: naive and drift (lag 1), seasonal naive (lag m). */
+abstract class RunningDifferences extends RunningFit {
+  protected lag = 1;
+
+  protected take(i: number, v: number): void {
+    if (i < this.lag) return;
+    const b = this.ys[i - this.lag]!;
+    if (Number.isFinite(b)) this.add(v - b);
+  }
+}
+
+class RunningNaive extends RunningDifferences {
+  fitAt(i: number): number {
+    const d = this.stats;
+    if (d.n < 2) return NaN;
+    this.df = d.n - 1;
+    this.table.base[i] = this.ys[this.last]!;
+    this.table.gaps[i] = i - this.last;
+    return Math.max(0, d.m2) / this.df;
+  }
+
+  column(h: number, from: number, to: number, f: Float64Array, v: Float64Array): void {
+    const { base, gaps } = this.table;
+    for (let i = from; i <= to; i++) {
+      f[i] = base[i]!;
+      v[i] = h + gaps[i]!;
+    }
+  }
+}
+
+class RunningDrift extends RunningDifferences {
+  fitAt(i: number): number {
+    const d = this.stats;
+    if (d.n < 2) return NaN;
+    this.df = d.n - 1;
+    const t = this.table;
+    t.base[i] = this.ys[this.last]!;
+    t.gaps[i] = i - this.last;
+    const span = this.last - this.first;
+    const slope = (this.ys[this.last]! - this.ys[this.first]!) / span;
+    const off = d.mean - slope;
+    t.slopes[i] = slope;
+    t.spans[i] = span;
+    return Math.max(0, d.m2 + d.n * off * off) / this.df;
+  }
+
+  column(h: number, from: number, to: number, f: Float64Array, v: Float64Array): void {
+    const { base, gaps, slopes, spans } = this.table;
+    for (let i = from; i <= to; i++) {
+      const k = h + gaps[i]!;
+      f[i] = base[i]! + k * slopes[i]!;
+      v[i] = k * (1 + k / spans[i]!);
+    }
+  }
+
+  override spec(i: number): SimSpec {
+    const span = this.last - this.first;
+    return {
+      ...super.spec(i),
+      slope: (this.ys[this.last]! - this.ys[this.first]!) / span,
+      paramScale: 1 / Math.sqrt(span),
+    };
+  }
+}
+
+class RunningSeasonalNaive extends RunningDifferences {
+  /** Latest observed index in each season position, -1 before the first. */
+  private readonly latest: Int32Array;
+  private phases = 0;
+
+  constructor(
+    ys: Float64Array,
+    table: OriginTable,
+    pool: Float64Array | null,
+    private readonly m: number,
+  ) {
+    super('seasonal-naive', ys, table, pool);
+    this.lag = m;
+    this.latest = new Int32Array(m).fill(-1);
+  }
+
+  protected override placed(i: number, ok: boolean): void {
+    const latestAt = this.table.latestAt; // latest observed index <= i in i's season position
+    const m = this.m;
+    if (ok) {
+      const ph = i % m;
+      if (this.latest[ph]! < 0) this.phases++;
+      this.latest[ph] = i;
+      latestAt[i] = i;
+    } else latestAt[i] = i >= m ? latestAt[i - m]! : -1;
+  }
+
+  fitAt(_i: number): number {
+    const d = this.stats;
+    if (d.n < 2 || this.phases < this.m) return NaN;
+    this.df = d.n - 1;
+    return Math.max(0, d.m2) / this.df;
+  }
+
+  column(h: number, from: number, to: number, f: Float64Array, v: Float64Array): void {
+    const { latestAt } = this.table;
+    const m = this.m;
+    const back = m * Math.ceil(h / m);
+    for (let i = from; i <= to; i++) {
+      const s0 = latestAt[i + h - back]!;
+      f[i] = this.ys[s0]!;
+      v[i] = (i + h - s0) / m;
+    }
+  }
+
+  override spec(i: number): SimSpec {
+    const m = this.m;
+    const shocks = new Int32Array(m);
+    const base = new Float64Array(m);
+    for (let h = 0; h < m; h++) {
+      const t = i + h + 1;
+      const s0 = this.latest[t % m]!;
+      base[h] = this.ys[s0]!;
+      shocks[h] = (t - s0) / m;
+    }
+    return { ...super.spec(i), season: m, base, shocks };
+  }
+}
+
+function runningFit(method: MethodName, s: Prepared, pool: Float64Array | null): RunningFit {
+  const table = originTable(s.ys.length);
+  switch (method) {
+    case 'mean':
+      return new RunningMean(method, s.ys, table, pool);
+    case 'naive':
+      return new RunningNaive(method, s.ys, table, pool);
+    case 'drift':
+      return new RunningDrift(method, s.ys, table, pool);
+    case 'seasonal-naive':
+      return new RunningSeasonalNaive(s.ys, table, pool, s.m);
+  }
+}
+
+/**
+ * Feeds y[0..T-2] to the running fit in time order and fits it at every origin (last training
+ * index i >= minTrain - 1); `atOrigin(i, sigma2, df)` is called at each origin with a fit. Returns
+ * the first origin with a fit (every later origin has one too), or -1.
+ */
+function fitOrigins(
+  fit: RunningFit,
+  T: number,
+  minTrain: number,
+  atOrigin: (i: number, sigma2: number, df: number) => void,
+): number {
+  let i0 = -1;
+  for (let i = 0; i < T - 1; i++) {
+    fit.push(i);
+    if (i + 1 < minTrain) continue;
+    const sigma2 = fit.fitAt(i);
+    if (sigma2 !== sigma2) continue;
+    if (i0 < 0) i0 = i;
+    atOrigin(i, sigma2, fit.df);
+  }
+  return i0;
+}
+
+// ---------------------------------------------------------------------------------------------
+// Errors and measures (with analytic coverage counted on the way).
+
+interface ScoreOptions {
+  minTrain: number;
+  horizon: number;
+  levels: number[];
+  /** Count analytic coverage. */
+  analytic: boolean;
+  /** Record each error's origin (for empirical coverage). */
+  origins: boolean;
+}
+
+interface Scored {
+  steps: StepMeasures[];
+  /** Errors per step in actual units, in origin order. */
+  errors: Float64Array[];
+  /** Origin (last training index) of error j of step h at (h - 1) * originStride + j. */
+  origins: Int32Array | null;
+  originStride: number;
+  analytic: Record<string, number> | null;
+}
+
+function scoreSteps(s: Prepared, method: MethodName, scoring: Scoring, o: ScoreOptions): Scored {
+  const { ys, unit } = s;
+  const { scale, inv100 } = scoring;
+  const T = ys.length;
+  const H = o.horizon;
+  const maxO = Math.max(0, T - o.minTrain);
+  const fit = runningFit(method, s, null);
+  const analytic = o.analytic ? new AnalyticCount(o.levels, T) : null;
+  const i0 = fitOrigins(fit, T, o.minTrain, (i, sigma2, df) => analytic?.atOrigin(i, sigma2, df));
+
+  // Step by step: each origin's forecast and variance factor for step h, then the error and every
+  // running sum in scalars.
   const errBuf = new Float64Array(H * maxO);
-  const errOrigin = wantEmp ? new Int32Array(H * maxO) : null;
-  const { fcol, vcol, e2col } = ws;
-  const inside = new Float64Array(L);
-  let covered = 0;
+  const origins = o.origins ? new Int32Array(H * maxO) : null;
+  const fcol = scratch.f64('backtest.forecast', T);
+  const vcol = scratch.f64('backtest.factor', T);
+  const e2col = scratch.f64('backtest.e2', T);
   const steps: StepMeasures[] = [];
   const errors: Float64Array[] = [];
   for (let h = 1; h <= H; h++) {
@@ -338,30 +544,7 @@ function backtestMethod(
     let sAP = 0;
     const off = (h - 1) * maxO;
     if (i0 >= 0 && iEnd >= i0) {
-      if (code === 0) {
-        for (let i = i0; i <= iEnd; i++) {
-          fcol[i] = base[i]!;
-          vcol[i] = meanFactor![i]!;
-        }
-      } else if (code === 1) {
-        for (let i = i0; i <= iEnd; i++) {
-          fcol[i] = base[i]!;
-          vcol[i] = h + gaps![i]!;
-        }
-      } else if (code === 2) {
-        for (let i = i0; i <= iEnd; i++) {
-          const k = h + gaps![i]!;
-          fcol[i] = base[i]! + k * slopes![i]!;
-          vcol[i] = k * (1 + k / spans![i]!);
-        }
-      } else {
-        const back = m * Math.ceil(h / m);
-        for (let i = i0; i <= iEnd; i++) {
-          const s0 = latestAt![i + h - back]!;
-          fcol[i] = ys[s0]!;
-          vcol[i] = (i + h - s0) / m;
-        }
-      }
+      fit.column(h, i0, iEnd, fcol, vcol);
       for (let i = i0; i <= iEnd; i++) {
         const a = ys[i + h]!;
         if (!Number.isFinite(a)) {
@@ -370,7 +553,7 @@ function backtestMethod(
         }
         const e = a - fcol[i]!;
         errBuf[off + c] = e;
-        if (errOrigin) errOrigin[off + c] = i;
+        if (origins) origins[off + c] = i;
         c++;
         sE += e;
         const e2 = e * e;
@@ -384,25 +567,15 @@ function backtestMethod(
           sAP += Math.abs(pct);
         }
         e2col[i] = e2;
-        covered++;
       }
-      // Inside the analytic interval: e^2 <= (q sigma)^2 x factor, level by level in a tight loop
-      // (NaN where the actual is missing, which compares false). Branch-free: the outcome is
-      // random, so a branch would often be mispredicted.
-      for (let l = 0; l < L; l++) {
-        const row = l * T;
-        let n = 0;
-        for (let i = i0; i <= iEnd; i++) n += Number(e2col[i]! <= halfWidth2[row + i]! * vcol[i]!);
-        inside[l] += n;
-      }
+      analytic?.step(i0, iEnd, e2col, vcol, c);
     }
-    const mae = (sA / c) * unit;
     steps.push({
       step: h,
       origins: c,
       me: c > 0 ? (sE / c) * unit : NaN,
       rmse: c > 0 ? Math.sqrt(sE2 / c) * unit : NaN,
-      mae: c > 0 ? mae : NaN,
+      mae: c > 0 ? (sA / c) * unit : NaN,
       mpe: cP > 0 ? sP / cP : NaN,
       mape: cP > 0 ? sAP / cP : NaN,
       mase: c > 0 && scale > 0 ? sA / c / scale : NaN,
@@ -411,14 +584,17 @@ function backtestMethod(
     if (unit !== 1) for (let j = 0; j < c; j++) e[j] = e[j]! * unit;
     errors.push(e);
   }
+  return { steps, errors, origins, originStride: maxO, analytic: analytic?.shares() ?? null };
+}
 
-  const notes: string[] = [];
-  const coverage: MethodBacktest['coverage'] = {};
-  if (kinds.includes('analytic')) coverage.analytic = shares(o.levels, inside, covered);
-  if (wantEmp && errOrigin)
-    coverage.empirical = empiricalCoverage(errors, errOrigin, maxO, o.levels, minErrors);
-  if (wantBoot) coverage.bootstrap = shares(o.levels, bootInside, bootTotal);
+function methodBacktest(
+  method: MethodName,
+  steps: StepMeasures[],
+  errors: Float64Array[],
+  coverage: MethodBacktest['coverage'],
+): MethodBacktest {
   const s1 = steps[0]!;
+  const notes: string[] = [];
   if (s1.origins === 0)
     notes.push(`The ${methodLabel(method)} method has no backtest origin it could be fitted at.`);
   return {
@@ -443,82 +619,94 @@ function shares(levels: number[], inside: ArrayLike<number>, total: number): Rec
   return r;
 }
 
+// ---------------------------------------------------------------------------------------------
+// Coverage, one kind at a time.
+
 /**
- * Whether x lies within [Q(a), Q(1 - a)] of a sample, Q the definition-7 quantile, given
- * lt = #{sample < x} and le = #{sample <= x}: the order statistics usually settle it; only when x
- * falls between the two order statistics a quantile interpolates does `exact` compute it.
+ * Analytic coverage: per level, the errors with e^2 <= (q_df sigma)^2 x variance factor, q the
+ * Student-t quantile of that origin's df. atOrigin() records each origin's squared half-width per
+ * unit of variance factor; step() counts one step's origins.
  */
-function within(
-  x: number,
-  c: number,
-  a: number,
-  lt: number,
-  le: number,
-  exact: (c: number, p: number) => number,
-): boolean {
-  // Lower bound Q(a) = x_(j+1) + g (x_(j+2) - x_(j+1)), 1-based order statistics.
-  const pl = (c - 1) * a;
-  const jl = Math.floor(pl);
-  const gl = pl - jl;
-  // x >= x_(k) iff le >= k; x > x_(k) iff lt >= k.
-  if (le < jl + 1) return false;
-  if (!(le >= (gl > 0 ? jl + 2 : jl + 1)) && x < exact(c, a)) return false;
-  const pu = (c - 1) * (1 - a);
-  const ju = Math.floor(pu);
-  const gu = pu - ju;
-  if (lt < ju + 1) return true;
-  if (lt >= (gu > 0 ? ju + 2 : ju + 1)) return false;
-  return x <= exact(c, 1 - a);
+class AnalyticCount {
+  private readonly halfWidth2: Float64Array;
+  private readonly probs: number[];
+  private readonly tables: Float64Array[];
+  private readonly inside: Float64Array;
+  private total = 0;
+
+  constructor(
+    private readonly levels: number[],
+    private readonly T: number,
+  ) {
+    this.probs = levels.map((l) => 1 - (1 - l / 100) / 2);
+    this.tables = this.probs.map((p) => tQuantileTable(p));
+    this.halfWidth2 = scratch.f64('backtest.halfWidth2', levels.length * T);
+    this.inside = new Float64Array(levels.length);
+  }
+
+  atOrigin(i: number, sigma2: number, df: number): void {
+    for (let l = 0; l < this.levels.length; l++) {
+      const q = tQuantileFrom(this.tables[l]!, this.probs[l]!, df);
+      this.halfWidth2[l * this.T + i] = q * q * sigma2;
+    }
+  }
+
+  /**
+   * Origins from..to of one step; e2 is NaN where the actual is missing, which compares false.
+   * Level by level in a tight, branch-free loop: the outcome is random, so a branch would often be
+   * mispredicted.
+   */
+  step(from: number, to: number, e2: Float64Array, factor: Float64Array, errors: number): void {
+    const hw2 = this.halfWidth2;
+    for (let l = 0; l < this.levels.length; l++) {
+      const row = l * this.T;
+      let n = 0;
+      for (let i = from; i <= to; i++) n += Number(e2[i]! <= hw2[row + i]! * factor[i]!);
+      this.inside[l] += n;
+    }
+    this.total += errors;
+  }
+
+  shares(): Record<string, number> {
+    return shares(this.levels, this.inside, this.total);
+  }
 }
 
-/** Errors judged per step by the empirical coverage check, at most (about). */
-export const EMPIRICAL_COVERAGE_POINTS = 100;
+interface EmpiricalCoverageOptions {
+  /** Errors per step, in origin order. */
+  errors: Float64Array[];
+  /** Origin of error j of step h at (h - 1) * originStride + j. */
+  origins: Int32Array;
+  originStride: number;
+  levels: number[];
+  /** Errors that must be known before an origin is judged. */
+  minErrors: number;
+}
 
 /** Empirical coverage with only errors known at each origin (see the file comment). */
-function empiricalCoverage(
-  errors: Float64Array[],
-  errOrigin: Int32Array,
-  maxO: number,
-  levels: number[],
-  minErrors: number,
-): Record<string, number> {
+function empiricalCoverage(o: EmpiricalCoverageOptions): Record<string, number> {
+  const { errors, levels, minErrors } = o;
   const L = levels.length;
   const alphas = levels.map((l) => (1 - l / 100) / 2);
   const inside = new Int32Array(L);
   let total = 0;
+  const tree = new Fenwick(0);
   for (let h = 0; h < errors.length; h++) {
     const e = errors[h]!;
     const N = e.length;
     if (N <= minErrors) continue;
-    const orig = errOrigin.subarray(h * maxO, h * maxO + N);
+    const orig = o.origins.subarray(h * o.originStride, h * o.originStride + N);
     const sorted = sortedCopy(e);
     // Each error's range of positions among the sorted errors: [lowerBound, upperBound).
-    const lo = new Int32Array(N);
-    const hi = new Int32Array(N);
+    const lo = scratch.i32('empirical.lo', N);
+    const hi = scratch.i32('empirical.hi', N);
     for (let j = 0; j < N; j++) {
       lo[j] = lowerBound(sorted, e[j]!);
       hi[j] = upperBound(sorted, e[j]!);
     }
-    // Fenwick tree over positions in `sorted`: tree index p + 1 counts inserted errors at p.
-    const tree = new Int32Array(N + 1);
-    let top = 1;
-    while (top * 2 <= N) top *= 2;
-    const prefix = (k: number): number => {
-      let s = 0;
-      for (let q = k; q > 0; q -= q & -q) s += tree[q]!;
-      return s;
-    };
-    const kth = (k: number): number => {
-      let pos = 0;
-      for (let step = top; step > 0; step >>= 1) {
-        const nx = pos + step;
-        if (nx <= N && tree[nx]! < k) {
-          pos = nx;
-          k -= tree[nx]!;
-        }
-      }
-      return sorted[pos]!;
-    };
+    // Tree positions are positions in `sorted`; it counts the errors known so far.
+    tree.reset(N);
+    const kth = (k: number): number => sorted[tree.kth(k)]!;
     const exact = (c: number, p: number): number => {
       const pos = (c - 1) * p;
       const j = Math.floor(pos);
@@ -533,13 +721,13 @@ function empiricalCoverage(
     for (let j = 0; j < N; j++) {
       const oj = orig[j]!;
       while (known < j && orig[known]! + h + 1 <= oj) {
-        for (let k = lo[known]! + 1; k <= N; k += k & -k) tree[k]!++;
+        tree.add(lo[known]!);
         known++;
       }
       if (known < minErrors || j % stride !== 0) continue;
       const x = e[j]!;
-      const lt = prefix(lo[j]!);
-      const le = prefix(hi[j]!);
+      const lt = tree.below(lo[j]!);
+      const le = tree.below(hi[j]!);
       for (let l = 0; l < L; l++) if (within(x, known, alphas[l]!, lt, le, exact)) inside[l]++;
       total++;
     }
@@ -547,33 +735,42 @@ function empiricalCoverage(
   return shares(levels, inside, total);
 }
 
-/** Number of entries < x in an ascending array (branch-free halving: the comparisons are random). */
-function lowerBound(a: Float64Array, x: number): number {
-  let n = a.length;
-  if (n === 0) return 0;
-  let base = 0;
-  while (n > 1) {
-    const half = n >>> 1;
-    base += Number(a[base + half - 1]! < x) * half;
-    n -= half;
-  }
-  return base + Number(a[base]! < x);
+interface BootstrapCoverageOptions {
+  minTrain: number;
+  horizon: number;
+  levels: number[];
+  seed: number;
 }
 
-/** Number of entries <= x in an ascending array. */
-function upperBound(a: Float64Array, x: number): number {
-  let n = a.length;
-  if (n === 0) return 0;
-  let base = 0;
-  while (n > 1) {
-    const half = n >>> 1;
-    base += Number(a[base + half - 1]! <= x) * half;
-    n -= half;
-  }
-  return base + Number(a[base]! <= x);
+/**
+ * Bootstrap coverage: at the origins bootstrapPlan marks, BOOTSTRAP_PATHS paths resampling that
+ * origin's own centred residuals, and per level the steps whose actual lies inside the paths'
+ * interval. A pass of its own over the origins, with its own running fit.
+ */
+function bootstrapCoverage(
+  s: Prepared,
+  method: MethodName,
+  o: BootstrapCoverageOptions,
+): Record<string, number> {
+  const { ys } = s;
+  const T = ys.length;
+  const H = o.horizon;
+  const alphas = o.levels.map((l) => (1 - l / 100) / 2);
+  const marks = bootstrapPlan(T, o.minTrain);
+  const fit = runningFit(method, s, new Float64Array(T));
+  const rnd = createRandom(o.seed);
+  const paths = new Float64Array(BOOTSTRAP_PATHS * H);
+  const col = new Float64Array(BOOTSTRAP_PATHS);
+  const inside = new Int32Array(o.levels.length);
+  let total = 0;
+  fitOrigins(fit, T, o.minTrain, (i) => {
+    if (marks[i] !== 1) return;
+    const hMax = Math.min(H, T - 1 - i);
+    simulateInto(paths, fit.spec(i), hMax, BOOTSTRAP_PATHS, rnd, 'bootstrap');
+    total += countInside(paths, hMax, ys, i, col, alphas, inside);
+  });
+  return shares(o.levels, inside, total);
 }
-
-const EMPTY = new Float64Array(0);
 
 /** Marks (by last training index) at most BOOTSTRAP_ORIGINS origins spread evenly over the backtest. */
 function bootstrapPlan(T: number, minTrain: number): Uint8Array {
@@ -587,53 +784,6 @@ function bootstrapPlan(T: number, minTrain: number): Uint8Array {
     marks[n - 1] = 1;
   }
   return marks;
-}
-
-/** The simulation spec of a method fitted to y[0..i], from the running state (see simulate.ts). */
-function originSpec(
-  code: number,
-  pool: Float64Array,
-  ys: Float64Array,
-  i: number,
-  m: number,
-  wN: number,
-  wMean: number,
-  dN: number,
-  dMean: number,
-  first: number,
-  last: number,
-  latest: Int32Array | null,
-): SimSpec {
-  const n = code === 0 ? wN : dN;
-  const spec: SimSpec = {
-    method: code === 0 ? 'mean' : code === 1 ? 'naive' : code === 2 ? 'drift' : 'seasonal-naive',
-    pool,
-    poolLength: n,
-    shift: code === 0 ? wMean : dMean,
-    scale: Math.sqrt(n / (n - 1)),
-    sigma: NaN, // resampling only: the Gaussian mode is not used here
-    level: wMean,
-    last: last >= 0 ? ys[last]! : NaN,
-    gap: i - last,
-    slope: code === 2 ? (ys[last]! - ys[first]!) / (last - first) : 0,
-    paramScale: code === 0 ? 1 / Math.sqrt(wN) : code === 2 ? 1 / Math.sqrt(last - first) : 0,
-    season: code === 3 ? m : 1,
-    base: EMPTY,
-    shocks: new Int32Array(0),
-  };
-  if (code === 3 && latest) {
-    const k = new Int32Array(m);
-    const base = new Float64Array(m);
-    for (let h = 0; h < m; h++) {
-      const t = i + h + 1;
-      const s0 = latest[t % m]!;
-      base[h] = ys[s0]!;
-      k[h] = (t - s0) / m;
-    }
-    spec.base = base;
-    spec.shocks = k;
-  }
-  return spec;
 }
 
 /** Counts, per level, the steps whose actual lies inside the paths' interval; returns the steps counted. */
@@ -672,4 +822,32 @@ function countInside(
     total++;
   }
   return total;
+}
+
+/**
+ * Whether x lies within [Q(a), Q(1 - a)] of a sample of c, Q the definition-7 quantile, given
+ * lt = #{sample < x} and le = #{sample <= x}: the order statistics usually settle it; only when x
+ * falls between the two order statistics a quantile interpolates does `exact` compute it.
+ */
+function within(
+  x: number,
+  c: number,
+  a: number,
+  lt: number,
+  le: number,
+  exact: (c: number, p: number) => number,
+): boolean {
+  // Lower bound Q(a) = x_(j+1) + g (x_(j+2) - x_(j+1)), 1-based order statistics.
+  const pl = (c - 1) * a;
+  const jl = Math.floor(pl);
+  const gl = pl - jl;
+  // x >= x_(k) iff le >= k; x > x_(k) iff lt >= k.
+  if (le < jl + 1) return false;
+  if (!(le >= (gl > 0 ? jl + 2 : jl + 1)) && x < exact(c, a)) return false;
+  const pu = (c - 1) * (1 - a);
+  const ju = Math.floor(pu);
+  const gu = pu - ju;
+  if (lt < ju + 1) return true;
+  if (lt >= (gu > 0 ? ju + 2 : ju + 1)) return false;
+  return x <= exact(c, 1 - a);
 }

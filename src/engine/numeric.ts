@@ -89,6 +89,98 @@ export function powerOfTwoBelow(x: number): number {
 }
 
 /**
+ * The unit to work in for a series of extreme magnitude: when its largest finite value in size lies
+ * beyond 2^±300, that value rounded down to a power of two (so dividing by it is exact and squares
+ * of differences neither overflow nor underflow); otherwise 1.
+ */
+export function extremeUnit(y: ArrayLike<number>): number {
+  let big = 0;
+  for (let i = 0; i < y.length; i++) if (present(y[i]!)) big = Math.max(big, Math.abs(y[i]!));
+  return big > 2 ** 300 || (big > 0 && big < 2 ** -300) ? powerOfTwoBelow(big) : 1;
+}
+
+/** The series in units of `unit` (the array itself when the unit is 1). Exact for a power of two. */
+export function inUnits(y: Float64Array, unit: number): Float64Array {
+  return unit === 1 ? y : y.map((v) => v / unit);
+}
+
+/** Number of entries < x in an ascending array (branch-free halving: the comparisons are random). */
+export function lowerBound(a: ArrayLike<number>, x: number, n = a.length): number {
+  if (n === 0) return 0;
+  let base = 0;
+  while (n > 1) {
+    const half = n >>> 1;
+    base += Number(a[base + half - 1]! < x) * half;
+    n -= half;
+  }
+  return base + Number(a[base]! < x);
+}
+
+/** Number of entries <= x in an ascending array (branch-free, as lowerBound). */
+export function upperBound(a: ArrayLike<number>, x: number, n = a.length): number {
+  if (n === 0) return 0;
+  let base = 0;
+  while (n > 1) {
+    const half = n >>> 1;
+    base += Number(a[base + half - 1]! <= x) * half;
+    n -= half;
+  }
+  return base + Number(a[base]! <= x);
+}
+
+/**
+ * A Fenwick (binary indexed) tree of counts over positions 0..n-1 (Fenwick 1994): add one at a
+ * position, count the positions below k, and find the k-th smallest occupied position, each in
+ * O(log n). `reset(n)` empties it for reuse with up to its capacity.
+ */
+export class Fenwick {
+  private tree: Int32Array;
+  private n = 0;
+  private top = 1;
+
+  constructor(capacity: number) {
+    this.tree = new Int32Array(capacity + 1);
+  }
+
+  reset(n: number): void {
+    if (n + 1 > this.tree.length) this.tree = new Int32Array(n + 1);
+    else this.tree.fill(0, 0, n + 1);
+    this.n = n;
+    let top = 1;
+    while (top * 2 <= n) top *= 2;
+    this.top = top;
+  }
+
+  /** Counts one more at position p (0-based). */
+  add(p: number): void {
+    const t = this.tree;
+    for (let k = p + 1; k <= this.n; k += k & -k) t[k]!++;
+  }
+
+  /** The count at positions 0..k-1. */
+  below(k: number): number {
+    const t = this.tree;
+    let s = 0;
+    for (let q = k; q > 0; q -= q & -q) s += t[q]!;
+    return s;
+  }
+
+  /** The position (0-based) holding the k-th counted item (k from 1). */
+  kth(k: number): number {
+    const t = this.tree;
+    let pos = 0;
+    for (let step = this.top; step > 0; step >>= 1) {
+      const nx = pos + step;
+      if (nx <= this.n && t[nx]! < k) {
+        pos = nx;
+        k -= t[nx]!;
+      }
+    }
+    return pos;
+  }
+}
+
+/**
  * Sample quantile of an ascending sorted array by linear interpolation between order statistics:
  * x_(j) + g (x_(j+1) - x_(j)) with position (n - 1) p (Hyndman & Fan 1996, definition 7).
  * NaN for an empty array or p outside [0, 1].
