@@ -27,6 +27,8 @@ import type {
   SeriesResult,
   Verdict,
 } from './results.js';
+import { RESULTS_SCHEMA_ID } from './results.js';
+
 import { timeAfterLast, timeAtIndex } from './time.js';
 import { VERSION } from './version.js';
 
@@ -124,6 +126,7 @@ export function buildResults(plan: Plan, outcome: IngestOutcome, o: BuildOptions
   const verdict = runVerdict(results);
   const gate = decideGate(o.failOn, summary);
   const out: Results = {
+    $schema: RESULTS_SCHEMA_ID,
     version: 1,
     generator: { name: 'leadline', version: VERSION },
     generatedAt: (o.now ?? new Date()).toISOString(),
@@ -319,7 +322,7 @@ function blankResult(
     Partial<SeriesResult>,
 ): SeriesResult {
   // Field order as in DESIGN.md's results format; `rest` fills in the others.
-  const { name, file, column, key, ...rest } = fields;
+  const { name, file, column, key, season, seasonSource, ...rest } = fields;
   return {
     name,
     metric: m.name,
@@ -329,6 +332,8 @@ function blankResult(
     observations: 0,
     missing: 0,
     spacing: 'row',
+    season,
+    seasonSource,
     method: null,
     intervalKind: null,
     sigma: null,

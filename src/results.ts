@@ -1,193 +1,263 @@
 // Results JSON, version 1 (docs/design.md). Stable: add fields, never rename.
 // The report renderers and the GitHub publishers read only this, so the results file alone
 // (e.g. an artifact handed to a workflow_run job) is enough to render the whole report.
-import type { IntervalKind, MethodName, ScoreName } from './engine/types.js';
+//
+// The contract is defined once, here, as a zod schema: the TypeScript types below are inferred from
+// it, `leadline merge` validates every results file it reads with it (files from forks are untrusted),
+// and scripts/schema.ts writes leadline-results.schema.json from it (a test fails when that is stale).
+// In the file, a number that is not finite (NaN, ±Infinity) is written as null, as JSON.stringify
+// does; reading turns such a null back into NaN, so a results file read back renders as it was written.
+// String and list caps bound what an untrusted file can make Leadline hold; real runs stay far below.
+import { z } from 'zod';
+import { METHOD_NAMES, type IntervalKind, type MethodName, type ScoreName } from './engine/types.js';
 
-export type Verdict = 'ok' | 'alarm' | 'at-risk' | 'insufficient-data' | 'error';
-export type Direction = 'above' | 'below' | 'both';
-export type FalseAlarmControl = 'none' | 'bonferroni' | 'fdr';
-export type Spacing = 'minute' | 'hour' | 'day' | 'week' | 'month' | 'quarter' | 'year' | 'row';
-/** What makes the run's gate fail. */
-export type FailOn = 'alarm' | 'limit' | 'both' | 'never';
+/** The `$schema` of every results file and the `$id` of leadline-results.schema.json. */
+export const RESULTS_SCHEMA_ID = 'urn:leadline:results:1';
+
+const INTERVAL_KINDS = ['analytic', 'bootstrap', 'empirical'] as const satisfies readonly IntervalKind[];
+const SCORE_NAMES = ['me', 'rmse', 'mae', 'mpe', 'mape', 'mase'] as const satisfies readonly ScoreName[];
+const methodName = z.enum(METHOD_NAMES as [MethodName, ...MethodName[]]);
+const intervalKind = z.enum(INTERVAL_KINDS);
+
+/** Longest text field (names, messages, reasons); a list of notes holds at most MAX_NOTES of them. */
+export const MAX_TEXT = 4000;
+const MAX_NOTES = 200;
+/** Most points in a per-series list (history, forecast, checked observations, per-step measures). */
+const MAX_POINTS = 1_000_000;
+
+const text = (max = MAX_TEXT) => z.string().max(max);
+const int = z.number().int();
+const count = z.number().int().min(0);
+/** A number that may be non-finite in memory: null in the file, NaN once read. */
+const real = z.union([z.number(), z.null().transform(() => Number.NaN)]);
+const notes = z.array(text()).max(MAX_NOTES);
+const time = text(64)
+  .nullable()
+  .meta({ description: 'ISO 8601 UTC when the series has times, otherwise null.' });
+
+export const verdictSchema = z.enum(['ok', 'alarm', 'at-risk', 'insufficient-data', 'error']);
+export const directionSchema = z.enum(['above', 'below', 'both']);
+export const falseAlarmSchema = z.enum(['none', 'bonferroni', 'fdr']);
+export const spacingSchema = z.enum(['minute', 'hour', 'day', 'week', 'month', 'quarter', 'year', 'row']);
+export const failOnSchema = z.enum(['alarm', 'limit', 'both', 'never']);
 
 /** Bounds keyed by level in percent, e.g. { "80": 12.5, "95": 14.1 }. */
-export type LevelMap = Record<string, number>;
+const levelMap = z.record(text(16), real);
 
-export interface ForecastPoint {
-  step: number;
-  /** ISO 8601 UTC when the series has times, otherwise null. */
-  time: string | null;
-  mean: number;
-  lower: LevelMap;
-  upper: LevelMap;
-}
+const forecastPoint = z.strictObject({
+  step: int,
+  time,
+  mean: real,
+  lower: levelMap,
+  upper: levelMap,
+});
 
-export interface TestSummary {
-  statistic: number;
-  df: number | null;
-  pValue: number;
-  ok: boolean;
-  finding: string;
-}
+const testSummary = {
+  statistic: real,
+  df: z.number().nullable(),
+  pValue: real,
+  ok: z.boolean(),
+  finding: text(),
+};
 
-export interface ResidualCheckSummary {
-  ljungBox: TestSummary & { lags: number };
-  bias: TestSummary & { mean: number; zeroByConstruction: boolean };
-  normality: TestSummary & { skewness: number; kurtosis: number };
-  spread: TestSummary & { test: string };
-  acf: number[];
-  acfBound: number;
-}
+const residualChecks = z.strictObject({
+  ljungBox: z.strictObject({ ...testSummary, lags: int }),
+  bias: z.strictObject({ ...testSummary, mean: real, zeroByConstruction: z.boolean() }),
+  normality: z.strictObject({ ...testSummary, skewness: real, kurtosis: real }),
+  spread: z.strictObject({ ...testSummary, test: text(200) }),
+  acf: z.array(real).max(MAX_POINTS),
+  acfBound: real,
+});
 
-export interface MeasureSet {
-  origins: number;
-  me: number | null;
-  rmse: number | null;
-  mae: number | null;
-  mpe: number | null;
-  mape: number | null;
-  mase: number | null;
-}
+const measures = {
+  origins: count,
+  me: z.number().nullable(),
+  rmse: z.number().nullable(),
+  mae: z.number().nullable(),
+  mpe: z.number().nullable(),
+  mape: z.number().nullable(),
+  mase: z.number().nullable(),
+};
 
-export interface MethodBacktestSummary extends MeasureSet {
+const methodBacktest = z.strictObject({
+  ...measures,
   /** Per-step measures, steps 1..H. */
-  steps: (MeasureSet & { step: number })[];
+  steps: z.array(z.strictObject({ step: int, ...measures })).max(MAX_POINTS),
   /** Share of backtest actuals inside each interval kind, keyed by kind then level. */
-  coverage: Partial<Record<IntervalKind, LevelMap>>;
+  coverage: z.partialRecord(intervalKind, levelMap),
   /** The selection score (mean over steps of `score`). */
-  score: number | null;
-}
+  score: z.number().nullable(),
+});
 
-export interface BacktestSummary {
-  minTrain: number;
-  horizon: number;
-  score: ScoreName;
-  methods: Partial<Record<MethodName, MethodBacktestSummary>>;
+const backtestSummary = z.strictObject({
+  minTrain: int,
+  horizon: int,
+  score: z.enum(SCORE_NAMES),
+  methods: z.partialRecord(methodName, methodBacktest),
   /** Why the chosen method won. */
-  reason: string;
-}
+  reason: text(),
+});
 
-export interface CheckedObservation {
+const checkedObservation = z.strictObject({
   /** 0-based index into the series. */
-  index: number;
+  index: count,
   /** 1-based line in the CSV file (header is line 1), null for gap-filled points. */
-  row: number | null;
-  time: string | null;
-  value: number;
+  row: count.nullable(),
+  time,
+  value: real,
   /** Forecast made from the origin just before the first checked observation. */
-  step: number;
-  mean: number;
-  lower: number;
-  upper: number;
-  level: number;
-  /** Interval kind the observation was judged with (chosen from the history before it under \`auto\`). */
-  intervalKind?: IntervalKind;
+  step: int,
+  mean: real,
+  lower: real,
+  upper: real,
+  level: z.number().gt(0).lt(100),
+  /** Interval kind the observation was judged with (chosen from the history before it under `auto`). */
+  intervalKind: intervalKind.optional(),
   /** Outside the interval at `level` (either side). */
-  outside: boolean;
+  outside: z.boolean(),
   /** Which side it left by, if any. */
-  side: 'above' | 'below' | null;
+  side: z.enum(['above', 'below']).nullable(),
   /** Tail probability under the predictive distribution, sided to match `direction`. */
-  pValue: number;
+  pValue: real,
   /** p after the run's false-alarm adjustment (equal to pValue for `none`). */
-  adjustedP: number;
+  adjustedP: real,
   /** Standard errors away from the point forecast (signed). */
-  z: number;
+  z: real,
   /** Outside on the side that matters, after adjustment. */
-  alarm: boolean;
-}
+  alarm: z.boolean(),
+});
 
-export interface LimitResult {
-  side: 'above' | 'below';
-  value: number;
+const crossing = z.strictObject({ step: int, time }).nullable();
+
+const limitResult = z.strictObject({
+  side: z.enum(['above', 'below']),
+  value: real,
   /** Window in steps, and as configured (e.g. "30d"). */
-  within: number;
-  withinLabel: string;
-  risk: number;
+  within: int,
+  withinLabel: text(100),
+  risk: real,
   /** First step where the point forecast crosses, or null within the window. */
-  pointCrossing: { step: number; time: string | null } | null;
+  pointCrossing: crossing,
   /** First step where the bound at 1 - risk crosses. */
-  boundCrossing: { step: number; time: string | null } | null;
+  boundCrossing: crossing,
   /** Probability of crossing at any step within the window (first passage, simulated paths). */
-  probability: number;
-  paths: number;
-  atRisk: boolean;
+  probability: real,
+  paths: count,
+  atRisk: z.boolean(),
   /** Already beyond the limit at the last observation. */
-  alreadyCrossed: boolean;
-}
+  alreadyCrossed: z.boolean(),
+});
 
-export interface HistoryPoint {
-  index: number;
-  row: number | null;
-  time: string | null;
-  value: number | null;
-}
+const historyPoint = z.strictObject({
+  index: count,
+  row: count.nullable(),
+  time,
+  value: z.number().nullable(),
+});
 
-export interface SeriesResult {
+export const seriesResultSchema = z.strictObject({
   /** Display name: metric name, plus column and key where a metric yields several series. */
-  name: string;
-  metric: string;
-  file: string;
-  column: string;
-  key: string | null;
-  observations: number;
-  missing: number;
-  spacing: Spacing;
-  season: number;
-  seasonSource: 'config' | 'auto';
-  method: MethodName | null;
-  intervalKind: IntervalKind | null;
-  sigma: number | null;
-  sigmaDf: number | null;
-  levels: number[];
-  alarmLevel: number;
-  direction: Direction;
-  forecast: ForecastPoint[];
-  residualChecks: ResidualCheckSummary | null;
-  backtest: BacktestSummary | null;
-  checked: CheckedObservation[];
-  limit: LimitResult | null;
+  name: text(),
+  metric: text(),
+  file: text(),
+  column: text(),
+  key: text().nullable(),
+  observations: count,
+  missing: count,
+  spacing: spacingSchema,
+  season: int,
+  seasonSource: z.enum(['config', 'auto']),
+  method: methodName.nullable(),
+  intervalKind: intervalKind.nullable(),
+  sigma: z.number().nullable(),
+  sigmaDf: z.number().nullable(),
+  levels: z.array(z.number()).max(100),
+  alarmLevel: z.number().gt(0).lt(100),
+  direction: directionSchema,
+  forecast: z.array(forecastPoint).max(MAX_POINTS),
+  residualChecks: residualChecks.nullable(),
+  backtest: backtestSummary.nullable(),
+  checked: z.array(checkedObservation).max(MAX_POINTS),
+  limit: limitResult.nullable(),
   /** The last observations (capped; see notes) for charts. */
-  history: HistoryPoint[];
+  history: z.array(historyPoint).max(MAX_POINTS),
   /** Residuals of the chosen method aligned with `history` (null where undefined). */
-  residuals: (number | null)[];
-  verdict: Verdict;
+  residuals: z.array(z.number().nullable()).max(MAX_POINTS),
+  verdict: verdictSchema,
   /** One line saying why the verdict is what it is. */
-  reason: string;
-  notes: string[];
-}
+  reason: text(),
+  notes,
+});
 
-export interface Problem {
-  /** 'config' | 'data' | 'internal' */
-  kind: 'config' | 'data' | 'internal';
-  message: string;
-  file: string | null;
-  line: number | null;
-  column: number | null;
-  keyPath: string | null;
-  metric: string | null;
-}
+export const problemSchema = z.strictObject({
+  kind: z.enum(['config', 'data', 'internal']),
+  message: text(),
+  file: text().nullable(),
+  line: count.nullable(),
+  column: count.nullable(),
+  keyPath: text().nullable(),
+  metric: text().nullable(),
+});
 
-export interface Results {
-  version: 1;
-  generator: { name: 'leadline'; version: string };
-  generatedAt: string;
-  config: string | null;
-  verdict: Verdict;
-  gate: { failOn: FailOn; passed: boolean; reason: string };
-  summary: {
-    metrics: number;
-    series: number;
-    alarms: number;
-    atRisk: number;
-    insufficient: number;
-    errors: number;
-    checkedObservations: number;
-    /** Sum of (1 - level) over checked observations: alarms expected by chance alone. */
-    expectedFalseAlarms: number;
-    falseAlarms: FalseAlarmControl;
-  };
-  series: SeriesResult[];
-  problems: Problem[];
+export const summarySchema = z.strictObject({
+  metrics: count,
+  series: count,
+  alarms: count,
+  atRisk: count,
+  insufficient: count,
+  errors: count,
+  checkedObservations: count,
+  /** Sum of (1 - level) over checked observations: alarms expected by chance alone. */
+  expectedFalseAlarms: real,
+  falseAlarms: falseAlarmSchema,
+});
+
+/** Everything in a results file but its series: what `leadline merge` checks before reading them. */
+export const resultsHeadSchema = z.strictObject({
+  $schema: z.literal(RESULTS_SCHEMA_ID),
+  version: z.literal(1),
+  generator: z.strictObject({ name: z.literal('leadline'), version: text(64) }),
+  generatedAt: text(64),
+  config: text().nullable(),
+  verdict: verdictSchema,
+  gate: z.strictObject({ failOn: failOnSchema, passed: z.boolean(), reason: text() }),
+  summary: summarySchema,
+  problems: z.array(problemSchema).max(MAX_POINTS),
   /** Run-wide notes, e.g. that a pull request's base commit was not in the clone. */
-  notes?: string[];
+  notes: notes.optional(),
+});
+
+export const resultsSchema = resultsHeadSchema
+  .extend({ series: z.array(seriesResultSchema).max(10_000_000) })
+  .meta({
+    $id: RESULTS_SCHEMA_ID,
+    title: 'Leadline results',
+    description:
+      'What one Leadline run found: the run verdict and gate, and for every series its forecast, backtest, residual checks, checked observations and limit. Numbers that are not finite are null.',
+  });
+
+export type Verdict = z.output<typeof verdictSchema>;
+export type Direction = z.output<typeof directionSchema>;
+export type FalseAlarmControl = z.output<typeof falseAlarmSchema>;
+export type Spacing = z.output<typeof spacingSchema>;
+/** What makes the run's gate fail. */
+export type FailOn = z.output<typeof failOnSchema>;
+/** Bounds keyed by level in percent, e.g. { "80": 12.5, "95": 14.1 }. */
+export type LevelMap = Record<string, number>;
+export type ForecastPoint = z.output<typeof forecastPoint>;
+export type TestSummary = z.output<z.ZodObject<typeof testSummary>>;
+export type ResidualCheckSummary = z.output<typeof residualChecks>;
+export type MeasureSet = z.output<z.ZodObject<typeof measures>>;
+export type MethodBacktestSummary = z.output<typeof methodBacktest>;
+export type BacktestSummary = z.output<typeof backtestSummary>;
+export type CheckedObservation = z.output<typeof checkedObservation>;
+export type LimitResult = z.output<typeof limitResult>;
+export type HistoryPoint = z.output<typeof historyPoint>;
+export type SeriesResult = z.output<typeof seriesResultSchema>;
+export type Problem = z.output<typeof problemSchema>;
+export type Results = z.output<typeof resultsSchema>;
+
+/** The JSON Schema of a results file (what is in the file: `io: 'input'`, so non-finite numbers are null). */
+export function resultsJsonSchema(): Record<string, unknown> {
+  return z.toJSONSchema(resultsSchema, { target: 'draft-2020-12', io: 'input' }) as Record<string, unknown>;
 }

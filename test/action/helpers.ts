@@ -69,6 +69,7 @@ export function results(s: SeriesResult[], extra: Partial<Results> = {}): Result
     (failOn === 'alarm' || failOn === 'both' ? alarms : 0) +
     (failOn === 'limit' || failOn === 'both' ? atRisk : 0);
   return {
+    $schema: 'urn:leadline:results:1',
     version: 1,
     generator: { name: 'leadline', version: '0.0.0-test' },
     generatedAt: '2026-01-01T00:00:00.000Z',

@@ -281,6 +281,7 @@ export function results(list: SeriesResult[], extra: Partial<Results> = {}): Res
         ? 'at-risk'
         : 'ok';
   return {
+    $schema: 'urn:leadline:results:1',
     version: 1,
     generator: { name: 'leadline', version: '0.1.0' },
     generatedAt: '2026-12-01T06:00:00.000Z',
