@@ -697,14 +697,11 @@ function empiricalCoverage(o: EmpiricalCoverageOptions): Record<string, number> 
     if (N <= minErrors) continue;
     const orig = o.origins.subarray(h * o.originStride, h * o.originStride + N);
     const sorted = sortedCopy(e);
-    // Each error's range of positions among the sorted errors: [lowerBound, upperBound).
+    // Each error's first position among the sorted errors (ties share it): the tree counts the
+    // errors known so far at these positions, so below(lowerBound(x)) counts known errors < x and
+    // below(upperBound(x)) those <= x.
     const lo = scratch.i32('empirical.lo', N);
-    const hi = scratch.i32('empirical.hi', N);
-    for (let j = 0; j < N; j++) {
-      lo[j] = lowerBound(sorted, e[j]!);
-      hi[j] = upperBound(sorted, e[j]!);
-    }
-    // Tree positions are positions in `sorted`; it counts the errors known so far.
+    for (let j = 0; j < N; j++) lo[j] = lowerBound(sorted, e[j]!);
     tree.reset(N);
     const kth = (k: number): number => sorted[tree.kth(k)]!;
     const exact = (c: number, p: number): number => {
@@ -727,7 +724,7 @@ function empiricalCoverage(o: EmpiricalCoverageOptions): Record<string, number> 
       if (known < minErrors || j % stride !== 0) continue;
       const x = e[j]!;
       const lt = tree.below(lo[j]!);
-      const le = tree.below(hi[j]!);
+      const le = tree.below(upperBound(sorted, x));
       for (let l = 0; l < L; l++) if (within(x, known, alphas[l]!, lt, le, exact)) inside[l]++;
       total++;
     }

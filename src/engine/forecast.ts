@@ -55,7 +55,7 @@ const sortedCache = new WeakMap<Float64Array, Float64Array>();
 export function sortedCopy(xs: Float64Array): Float64Array {
   let s = sortedCache.get(xs);
   if (!s) {
-    s = Float64Array.from(xs).sort();
+    s = xs.slice().sort();
     sortedCache.set(xs, s);
   }
   return s;

@@ -280,3 +280,27 @@ function select(a: Float64Array, lo: number, hi: number, k: number): void {
     else return;
   }
 }
+
+/**
+ * x rounded to `digits` significant digits and written back as the shortest double that prints so
+ * (so JSON carries "0.0812" rather than "0.08123456789012345"). Non-finite x is returned as is.
+ */
+export function significant(x: number, digits = 6): number {
+  return Number.isFinite(x) && x !== 0 ? Number(x.toPrecision(digits)) : x;
+}
+
+/**
+ * x rounded to the decimal place `digits` below the leading digit of `scale` (its uncertainty, e.g. a
+ * standard error): digits beyond that carry no information. With no usable scale (0, NaN), x is
+ * rounded to 12 significant digits instead.
+ */
+export function toScale(x: number, scale: number, digits = 4): number {
+  if (!Number.isFinite(x) || x === 0) return x;
+  if (!(scale > 0) || !Number.isFinite(scale)) return significant(x, 12);
+  const decimals = digits - 1 - Math.floor(Math.log10(scale));
+  if (decimals <= 0) {
+    const q = 10 ** -decimals;
+    return Math.round(x / q) * q;
+  }
+  return decimals > 100 ? x : Number(x.toFixed(decimals));
+}
