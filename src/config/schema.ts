@@ -3,7 +3,7 @@
 // metric cannot do without; defaults are applied afterwards (defaults.ts), in this order: the metric's
 // own value, then `defaults:`, then the built-in DEFAULTS. The `default` shown in the JSON Schema is
 // the built-in one.
-import { z } from 'zod';
+import * as z from 'zod';
 import { METHOD_NAMES } from '../engine/types.js';
 
 /** A duration such as `30d`: a positive number and one of m (minutes), h, d, w, mo (months), q, y. */
