@@ -1,18 +1,17 @@
-// Headless Chromium for the report tests (Debian's chromium driven by playwright-core). A missing
-// browser is a failure with a clear message, never a silent skip: CI installs it.
-import { existsSync } from 'node:fs';
+// Headless Chromium for the report tests, driven by playwright-core. Which browser (and what happens
+// without one) is decided once per run in test/chromium.ts, which vitest.config.ts asks: it passes
+// the browser it found in LEADLINE_CHROMIUM, and leaves these tests out when there is none.
 import { chromium, type Browser } from 'playwright-core';
-
-export const CHROMIUM = '/usr/bin/chromium';
+import { findChromium } from '../chromium.js';
 
 export async function launch(): Promise<Browser> {
-  if (!existsSync(CHROMIUM))
+  const { found, tried } = findChromium();
+  if (!found)
     throw new Error(
-      `${CHROMIUM} is missing: the report tests render in real headless Chromium. Install it with ` +
-        '`apt-get install -y chromium` (.ci/run does this in CI).',
+      `No Chromium (tried ${tried.join(', ')}): install it (Debian: apt-get install -y chromium) or set LEADLINE_CHROMIUM.`,
     );
   return chromium.launch({
-    executablePath: CHROMIUM,
+    executablePath: found,
     args: ['--headless', '--no-sandbox', '--disable-gpu', '--disable-background-networking'],
   });
 }
