@@ -8,7 +8,7 @@
 // In the file, a number that is not finite (NaN, ±Infinity) is written as null, as JSON.stringify
 // does; reading turns such a null back into NaN, so a results file read back renders as it was written.
 // String and list caps bound what an untrusted file can make Leadline hold; real runs stay far below.
-import { z } from 'zod';
+import * as z from 'zod';
 import { METHOD_NAMES, type IntervalKind, type MethodName, type ScoreName } from './engine/types.js';
 
 /** The `$schema` of every results file and the `$id` of leadline-results.schema.json. */
