@@ -4,10 +4,12 @@
 import { appendFile } from 'node:fs/promises';
 import * as core from '@actions/core';
 import { isLeadlineError } from '../errors.js';
-import { inputFiles, resultsJson, writeOutput } from '../files.js';
+import { filesRead, outputProblems, inputGuard, InputGuard, resultsJson, writeOutput } from '../files.js';
 import { runJob, type JobOptions } from '../job.js';
 import { renderHtml, renderMarkdown } from '../report/index.js';
 import type { Results } from '../results.js';
+import { logSafe, visible } from '../untrusted.js';
+import { VERSION } from '../version.js';
 import { planAnnotations, type Annotation } from './annotations.js';
 import { destination, isPullRequestEvent, readEvent, type Destination } from './event.js';
 import { compareWithBase, isTracked, systemGit, type GitRunner } from './git.js';
@@ -76,6 +78,56 @@ function warn(message: string): void {
   used.warning++;
   core.warning(message);
 }
+/** A log line: untrusted text in it cannot act as a workflow command (see logSafe). */
+function info(message: string): void {
+  core.info(logSafe(message));
+}
+
+/** The results of a run that could not analyse anything: the error as the one problem. */
+function failedRun(e: unknown, s: Settings): Results {
+  const located = isLeadlineError(e);
+  const message = located
+    ? e.message
+    : `Leadline stopped on an unexpected error: ${(e as Error)?.message ?? String(e)}`;
+  return {
+    version: 1,
+    generator: { name: 'leadline', version: VERSION },
+    generatedAt: new Date().toISOString(),
+    config: s.config,
+    verdict: 'error',
+    gate: {
+      failOn: s.failOn,
+      passed: false,
+      reason: located ? `Leadline could not run: ${e.describe()}` : message,
+    },
+    summary: {
+      metrics: 0,
+      series: 0,
+      alarms: 0,
+      atRisk: 0,
+      insufficient: 0,
+      errors: 0,
+      checkedObservations: 0,
+      expectedFalseAlarms: 0,
+      falseAlarms: 'none',
+    },
+    series: [],
+    problems: [
+      {
+        kind: located ? (e.kind === 'config' ? 'config' : 'data') : 'internal',
+        message,
+        file: located ? e.file : null,
+        line: located ? e.line : null,
+        column: located ? e.column : null,
+        keyPath: located ? e.keyPath : null,
+        metric: null,
+      },
+    ],
+  };
+}
+
+/** Room kept in the job summary for the lines appended after publishing. */
+const SUMMARY_FOOTER_ROOM = 8 * 1024;
 
 async function runAction(d: ActionDeps): Promise<void> {
   used.warning = 0;
@@ -100,19 +152,38 @@ async function runAction(d: ActionDeps): Promise<void> {
     if (cmp.ok) {
       newRows = cmp.newRows;
       const files = Object.keys(cmp.newRows);
-      core.info(
+      info(
         files.length === 0
           ? `Pull request #${pr.number} changes no file under ${s.workingDirectory}: no row is checked.`
           : `Pull request #${pr.number}: checking the rows it adds to ${files.length} changed file${files.length === 1 ? '' : 's'}.`,
       );
-      for (const f of cmp.added) core.info(`${f} is new in this pull request: only its last row is checked.`);
+      for (const f of cmp.added)
+        info(`${visible(f)} is new in this pull request: only its last row is checked.`);
     } else {
       baseNote = cmp.note;
       core.notice(cmp.note);
     }
   }
 
+  // Outputs are checked before the job: none may be an input or share a path with another.
+  const failures: string[] = [];
+  const before = await inputGuard(s.workingDirectory, s.config);
+  const wanted = (
+    [
+      ['results', s.results],
+      ['markdown', s.markdown],
+      ['html', s.html],
+    ] as const
+  ).flatMap(([label, file]) => (file ? [{ label, path: file }] : []));
+  const blocked = new Set<string>();
+  for (const p of outputProblems(wanted, before)) {
+    blocked.add(p.label);
+    failures.push(p.message);
+  }
+
+  // Whatever happens in the job, the results file, outputs and summary are written.
   let results: Results;
+  let jobError: unknown = null;
   try {
     results = await d.job({
       cwd: s.workingDirectory,
@@ -122,29 +193,22 @@ async function runAction(d: ActionDeps): Promise<void> {
       ...(baseNote ? { baseNote } : {}),
     });
   } catch (e) {
-    if (!isLeadlineError(e)) throw e;
-    // The config could not be read: no results to publish, but the summary and outputs still say so.
-    core.setOutput('verdict', 'error');
-    core.setOutput('alarms', '0');
-    core.setOutput('at-risk', '0');
-    core.setOutput('results', '');
-    core.setOutput('comment-url', '');
-    await writeSummary(s, `## Leadline could not run\n\n${escapeText(e.describe())}\n`);
-    throw e;
+    jobError = e;
+    results = failedRun(e, s);
   }
-  core.info(`Leadline verdict: ${results.verdict}. ${results.gate.reason}`);
+  info(`Leadline verdict: ${results.verdict}. ${results.gate.reason}`);
 
   // Output files. A failure here fails the step after everything else is done.
-  const failures: string[] = [];
-  const protect = inputFiles(s.workingDirectory, results, s.config);
+  const guard = new InputGuard(s.workingDirectory, s.config, before.patterns, filesRead(results));
   const save = async (file: string, label: string, text: () => string | Iterable<string>) => {
+    if (blocked.has(label)) return;
     try {
       if (await isTracked(d.git, s.workspace, file))
         throw new Error(
           `refusing to write to ${file}: it is a file of the repository. Choose a path outside it, e.g. under $RUNNER_TEMP.`,
         );
-      await writeOutput(file, text(), protect, label);
-      core.info(`Wrote ${label}: ${file}`);
+      await writeOutput(file, text(), guard, label);
+      info(`Wrote ${label}: ${file}`);
     } catch (e) {
       failures.push(isLeadlineError(e) ? e.describe() : `${label}: ${(e as Error).message}`);
     }
@@ -161,47 +225,95 @@ async function runAction(d: ActionDeps): Promise<void> {
   core.setOutput('at-risk', String(results.summary.atRisk));
   core.setOutput('results', failures.some((f) => f.startsWith('results')) ? '' : s.results);
 
-  const published = await tryPublish(d, s, dest, results, key, link, token);
-  core.setOutput('comment-url', published.url ?? '');
-  if (published.warning) warn(published.warning);
-
-  const gateFails = !results.gate.passed;
-  const plan = planAnnotations(
-    results,
-    { cwd: s.workingDirectory, workspace: s.workspace },
-    { warning: used.warning, error: used.error + failures.length + (gateFails ? 1 : 0) },
-  );
-  for (const a of plan.shown) annotate(a);
-  if (plan.overflow) annotate(plan.overflow);
-
-  const footer: string[] = [];
-  if (published.url) footer.push(`Report ${published.action}: ${published.url}`);
-  if (published.warning) footer.push(`⚠️ ${escapeText(published.warning)}`);
-  for (const f of failures) footer.push(`❌ ${escapeText(f)}`);
+  // The summary is written before publishing, so a stalled API cannot lose it.
+  const footer = failures.map((f) => `❌ ${escapeText(f)}`);
   const suffix = footer.length > 0 ? `\n\n---\n\n${footer.join('\n\n')}\n` : '';
   let summary: string;
   try {
+    if (jobError) throw jobError;
     summary = fitRendering(
       (maxChars) => d.renderMarkdown(results, { maxChars, fullReportNote: fullReportNote(link) }),
       1_000_000,
-      SUMMARY_MAX_BYTES,
+      SUMMARY_MAX_BYTES - SUMMARY_FOOTER_ROOM,
       suffix,
     );
   } catch (e) {
-    // A renderer bug must not cost the summary its verdict.
+    // A renderer bug (or a job that never finished) must not cost the summary its verdict.
+    const why =
+      e === jobError
+        ? escapeText(
+            isLeadlineError(e)
+              ? e.describe()
+              : `Leadline stopped on an unexpected error (please report it): ${(e as Error)?.message ?? String(e)}`,
+          )
+        : `The report could not be rendered (${escapeText((e as Error).message)}); the results file has everything.`;
     summary =
-      `## Leadline: ${results.verdict}\n\n${escapeText(results.gate.reason)}\n\n` +
-      `The report could not be rendered (${escapeText((e as Error).message)}); the results file has everything.${suffix}`;
-    failures.push(`summary: the report could not be rendered: ${(e as Error).message}`);
+      e === jobError
+        ? `## Leadline could not run\n\n${why}\n${suffix}`
+        : `## Leadline: ${results.verdict}\n\n${escapeText(results.gate.reason)}\n\n${why}${suffix}`;
+    if (e !== jobError) failures.push(`summary: the report could not be rendered: ${(e as Error).message}`);
   }
   await writeSummary(s, summary);
+
+  const published = jobError
+    ? { url: null, action: 'skipped', warning: null }
+    : await publishWithin(s.run.publishTimeoutMs, (signal) =>
+        tryPublish(d, s, dest, results, key, link, token, signal),
+      );
+  core.setOutput('comment-url', published.url ?? '');
+  if (published.warning) warn(published.warning);
+  const after: string[] = [];
+  if (published.url) after.push(`Report ${published.action}: ${published.url}`);
+  if (published.warning) after.push(`⚠️ ${escapeText(published.warning)}`);
+  if (after.length > 0) await writeSummary(s, `\n---\n\n${after.join('\n\n')}\n`);
+
+  const gateFails = !results.gate.passed;
+  try {
+    const plan = planAnnotations(
+      results,
+      { cwd: s.workingDirectory, workspace: s.workspace },
+      { warning: used.warning, error: used.error + failures.length + (gateFails ? 1 : 0) },
+    );
+    for (const a of plan.shown) annotate(a);
+    if (plan.overflow) annotate(plan.overflow);
+  } catch (e) {
+    failures.push(`annotations: ${(e as Error).message}`);
+  }
 
   for (const f of failures) {
     used.error++;
     core.error(`Leadline: ${f}`);
   }
+  if (jobError) throw jobError;
   if (gateFails) core.setFailed(results.gate.reason);
   else if (failures.length > 0) core.setFailed(`Leadline could not write ${failures.length} output file(s).`);
+}
+
+/**
+ * Runs the publishing stage with a deadline: past `ms` its requests are abandoned and the stage
+ * reports that it stopped, naming the limit.
+ */
+async function publishWithin(
+  ms: number,
+  stage: (signal: AbortSignal) => Promise<Published>,
+): Promise<Published> {
+  const stop = new AbortController();
+  let timer: NodeJS.Timeout | undefined;
+  const late = new Promise<Published>((resolve) => {
+    timer = setTimeout(() => {
+      stop.abort();
+      resolve({
+        url: null,
+        action: 'failed',
+        warning: `Publishing the report stopped after ${Math.round(ms / 1000)} s, Leadline's limit for the publishing stage: the GitHub API did not answer in time. The verdict, job summary, outputs and results file are unaffected; the next run will try again.`,
+      });
+    }, ms);
+  });
+  try {
+    return await Promise.race([stage(stop.signal), late]);
+  } finally {
+    clearTimeout(timer);
+  }
 }
 
 interface Published {
@@ -219,10 +331,11 @@ async function tryPublish(
   key: string,
   link: string | null,
   token: string,
+  signal: AbortSignal,
 ): Promise<Published> {
   if (dest.kind === 'none') {
     if (dest.why) return { url: null, action: 'skipped', warning: dest.why };
-    core.info('No comment or tracking issue for this event (comment: off, or an event without one).');
+    info('No comment or tracking issue for this event (comment: off, or an event without one).');
     return { url: null, action: 'skipped', warning: null };
   }
   const where = dest.kind === 'comment' ? `${dest.what} #${dest.issue}` : 'the tracking issue';
@@ -244,6 +357,8 @@ async function tryPublish(
     repo: s.run.repository.repo,
     apiUrl: s.run.apiUrl,
     retryBaseMs: s.run.retryBaseMs,
+    requestTimeoutMs: s.run.requestTimeoutMs,
+    signal,
   });
   // The renderer counts the marker within maxChars; withMarker and cutTo only guard a renderer that
   // leaves it out.
@@ -265,10 +380,11 @@ async function tryPublish(
     if (dest.kind === 'comment') {
       const mark = marker('report', key);
       const out = await upsertComment(api, dest.issue, mark, body(mark));
-      core.info(
+      info(
         `Report ${out.action} on ${where}: ${out.url}${out.removed ? ` (${out.removed} duplicate${out.removed === 1 ? '' : 's'} removed)` : ''}`,
       );
-      return { url: out.url, action: out.action, warning: null };
+      for (const n of out.notes) info(n);
+      return { url: out.url, action: out.action, warning: out.notes.length > 0 ? out.notes.join(' ') : null };
     }
     const mark = marker('tracking', key);
     const out = await syncTrackingIssue(api, {
@@ -282,8 +398,8 @@ async function tryPublish(
       closeNote: closeNote(link),
       reopenNote: reopenNote(results, link),
     });
-    for (const n of out.notes) core.info(n);
-    core.info(
+    for (const n of out.notes) info(n);
+    info(
       out.action === 'none'
         ? 'All clear and no tracking issue is open: nothing to post.'
         : `Tracking issue ${out.action}: ${out.url}`,
@@ -321,7 +437,7 @@ function annotate(a: Annotation): void {
 /** Writes the job summary once; skipped (with a log line) outside a runner. Never throws. */
 async function writeSummary(s: Settings, text: string): Promise<void> {
   if (!s.run.summaryPath) {
-    core.info('GITHUB_STEP_SUMMARY is not set (not on a runner): no job summary written.');
+    info('GITHUB_STEP_SUMMARY is not set (not on a runner): no job summary written.');
     return;
   }
   try {

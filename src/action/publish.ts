@@ -2,7 +2,8 @@
 // issue per config. Pure logic over IssueApi; the markers make Leadline's own comments and issues
 // findable again, so nothing is ever duplicated.
 import type { Issue, IssueApi, IssueComment } from './github.js';
-import { httpStatus } from './github.js';
+import { ApiFault, httpStatus } from './github.js';
+import { visible } from '../untrusted.js';
 
 /**
  * The hidden marker for a config's report, e.g. `<!-- leadline:report:.github/leadline.yml -->`.
@@ -29,15 +30,44 @@ function oldestFirst<T extends { createdAt: string }>(key: (x: T) => number) {
   return (a: T, b: T) => a.createdAt.localeCompare(b.createdAt) || key(a) - key(b);
 }
 
-async function deleteTolerant(api: IssueApi, id: number): Promise<boolean> {
+/**
+ * Deletes a duplicate of the report. Never throws: the report itself is already posted, so a failed
+ * delete is a note saying just that.
+ */
+async function deleteDuplicate(api: IssueApi, c: IssueComment, notes: string[]): Promise<boolean> {
   try {
-    await api.deleteComment(id);
+    await api.deleteComment(c.id);
     return true;
   } catch (e) {
     // A racing run may have removed it already.
     if (httpStatus(e) === 404) return false;
-    throw e;
+    notes.push(
+      `Could not delete the duplicate report comment ${c.url} (${describeError(e)}); the report itself is posted, so only the older copy remains.`,
+    );
+    return false;
   }
+}
+
+/** Marked items written by someone else: ignored, and said once. */
+function ignoredNote<T extends { author: string | null; url: string }>(
+  foreign: T[],
+  me: string,
+  what: string,
+): string[] {
+  if (foreign.length === 0) return [];
+  const by = [...new Set(foreign.map((f) => visible(f.author ?? 'an unknown author')))].join(', ');
+  return [
+    `Ignored ${foreign.length} ${what}${foreign.length === 1 ? '' : 's'} carrying Leadline's marker but written by ${by}, not by ${visible(me)} (this token): Leadline edits, deletes and closes only its own (${foreign
+      .slice(0, 3)
+      .map((f) => f.url)
+      .join(', ')}).`,
+  ];
+}
+
+/** Splits marked items into this token's own and others'. */
+function byIdentity<T extends { body: string; author: string | null }>(items: T[], mark: string, me: string) {
+  const marked = items.filter((i) => isMarked(i.body, mark));
+  return { own: marked.filter((i) => i.author === me), foreign: marked.filter((i) => i.author !== me) };
 }
 
 export interface CommentOutcome {
@@ -45,6 +75,8 @@ export interface CommentOutcome {
   url: string;
   /** Duplicate marked comments removed (left by earlier races). */
   removed: number;
+  /** What else happened: marked comments of others ignored, duplicates that could not be deleted. */
+  notes: string[];
 }
 
 /**
@@ -59,28 +91,31 @@ export async function upsertComment(
 ): Promise<CommentOutcome> {
   const text = withMarker(body, mark);
   const order = oldestFirst<IssueComment>((c) => c.id);
-  const mine = (await api.listComments(issue)).filter((c) => isMarked(c.body, mark)).sort(order);
+  const me = await api.identity();
+  const { own, foreign } = byIdentity(await api.listComments(issue), mark, me);
+  const notes = ignoredNote(foreign, me, 'comment');
+  const mine = own.sort(order);
   if (mine.length > 0) {
     const [keep, ...extra] = mine;
     const updated = keep!.body === text ? keep! : await api.updateComment(keep!.id, text);
     let removed = 0;
-    for (const c of extra) if (await deleteTolerant(api, c.id)) removed++;
-    return { action: 'updated', url: updated.url, removed };
+    for (const c of extra) if (await deleteDuplicate(api, c, notes)) removed++;
+    return { action: 'updated', url: updated.url, removed, notes };
   }
   const created = await api.createComment(issue, text);
   // Two runs for the same pull request (a quick second push) can both see no comment and both
   // create one. Listing again after creating makes every racer see every marked comment; all of them
   // agree on the oldest, so exactly one survives whichever run finishes last, and it carries the body
   // of the last run to write.
-  const after = (await api.listComments(issue)).filter((c) => isMarked(c.body, mark)).sort(order);
-  if (after.length <= 1) return { action: 'created', url: created.url, removed: 0 };
+  const after = byIdentity(await api.listComments(issue), mark, me).own.sort(order);
+  if (after.length <= 1) return { action: 'created', url: created.url, removed: 0, notes };
   const [keep, ...extra] = after;
   let removed = 0;
   if (keep!.id !== created.id) {
     await api.updateComment(keep!.id, text);
   }
-  for (const c of extra) if (await deleteTolerant(api, c.id)) removed++;
-  return { action: keep!.id === created.id ? 'created' : 'updated', url: keep!.url, removed };
+  for (const c of extra) if (await deleteDuplicate(api, c, notes)) removed++;
+  return { action: keep!.id === created.id ? 'created' : 'updated', url: keep!.url, removed, notes };
 }
 
 export interface TrackingRequest {
@@ -115,8 +150,11 @@ export async function syncTrackingIssue(api: IssueApi, r: TrackingRequest): Prom
   const notes: string[] = [];
   const body = withMarker(r.body, r.mark);
   const order = oldestFirst<Issue>((i) => i.number);
-  const list = async () => (await api.listIssues(r.label)).filter((i) => isMarked(i.body, r.mark));
-  const found = await list();
+  const me = await api.identity();
+  const list = async () => byIdentity(await api.listIssues(r.label), r.mark, me);
+  const first = await list();
+  notes.push(...ignoredNote(first.foreign, me, 'issue'));
+  const found = first.own;
   const open = found.filter((i) => i.state === 'open').sort(order);
   const closeDuplicates = async (keep: Issue, others: Issue[]) => {
     for (const d of others) {
@@ -171,7 +209,7 @@ export async function syncTrackingIssue(api: IssueApi, r: TrackingRequest): Prom
     notes.push(`The issue was created without the label "${r.label}" (GitHub refused it).`);
   }
   // Same race as for comments: two scheduled runs may both have found nothing.
-  const after = (await list()).filter((i) => i.state === 'open').sort(order);
+  const after = (await list()).own.filter((i) => i.state === 'open').sort(order);
   if (after.length > 1) {
     const [keep, ...dups] = after;
     if (keep!.number !== created.number) await api.updateIssue(keep!.number, { title: r.title, body });
@@ -186,7 +224,9 @@ export async function syncTrackingIssue(api: IssueApi, r: TrackingRequest): Prom
   return { action: 'created', url: created.url, number: created.number, notes };
 }
 
+/** One line saying what went wrong with a GitHub call: which call, and what happened to it. */
 export function describeError(e: unknown): string {
+  if (e instanceof ApiFault) return `${e.call}: ${e.message}${e.retried ? ', also after retries' : ''}`;
   const status = httpStatus(e);
   const msg = (e as Error | null)?.message ?? String(e);
   return status ? `HTTP ${status}: ${msg}` : msg;
@@ -197,6 +237,12 @@ export function publishWarning(e: unknown, where: string, permission: 'pull-requ
   const status = httpStatus(e);
   const head = `Leadline could not publish the report to ${where} (${describeError(e)}).`;
   const tail = ' The verdict, job summary, outputs and results file are unaffected.';
+  if (e instanceof ApiFault && e.kind === 'reply') {
+    const maybe = /create|update/.test(e.call)
+      ? ` GitHub may have carried out the request all the same: look at ${where}.`
+      : '';
+    return head + maybe + ' The next run will try again.' + tail;
+  }
   if (status === 403 || status === 404) {
     return (
       head +
@@ -207,5 +253,10 @@ export function publishWarning(e: unknown, where: string, permission: 'pull-requ
       tail
     );
   }
-  return head + ' Retries did not help; the next run will try again.' + tail;
+  const retried = e instanceof ApiFault ? e.retried : status !== null && status >= 500;
+  return (
+    head +
+    (retried ? ' Retries did not help; the next run will try again.' : ' The next run will try again.') +
+    tail
+  );
 }

@@ -60,6 +60,22 @@ export interface RunContext {
    * failure). 1000 normally; LEADLINE_RETRY_DELAY_MS shortens it for Leadline's own tests.
    */
   retryBaseMs: number;
+  /**
+   * Longest wait for one GitHub API request (30 s) and for the whole publishing stage (3 min), so a
+   * stalled API cannot hold the runner. LEADLINE_REQUEST_TIMEOUT_MS and LEADLINE_PUBLISH_TIMEOUT_MS
+   * shorten them for Leadline's own tests.
+   */
+  requestTimeoutMs: number;
+  publishTimeoutMs: number;
+}
+
+/** Defaults of the two time limits above. */
+export const REQUEST_TIMEOUT_MS = 30_000;
+export const PUBLISH_TIMEOUT_MS = 180_000;
+
+function positiveMs(text: string | undefined, fallback: number): number {
+  const n = Number(text ?? '');
+  return text && Number.isFinite(n) && n > 0 ? n : fallback;
 }
 
 /** The action.yml defaults, repeated so a run without the runner's INPUT_* defaults behaves the same. */
@@ -214,6 +230,8 @@ export function readSettings(input: InputReader, env: NodeJS.ProcessEnv, cwd = p
       runId: env.GITHUB_RUN_ID || null,
       summaryPath: env.GITHUB_STEP_SUMMARY || null,
       retryBaseMs: Number.isFinite(retry) && retry >= 0 && env.LEADLINE_RETRY_DELAY_MS ? retry : 1000,
+      requestTimeoutMs: positiveMs(env.LEADLINE_REQUEST_TIMEOUT_MS, REQUEST_TIMEOUT_MS),
+      publishTimeoutMs: positiveMs(env.LEADLINE_PUBLISH_TIMEOUT_MS, PUBLISH_TIMEOUT_MS),
     },
   };
 }

@@ -5,7 +5,7 @@ import { isLeadlineError, LeadlineError } from '../errors.js';
 import { runJob } from '../job.js';
 import { renderHtml, renderMarkdown } from '../report/index.js';
 import type { Results } from '../results.js';
-import { inputFiles, resultsJson, writeOutput } from '../files.js';
+import { checkOutputs, filesRead, inputGuard, InputGuard, resultsJson, writeOutput } from '../files.js';
 import { VERSION } from '../version.js';
 import { HELP, parseCli, type CliSettings } from './args.js';
 import { renderSummary } from './summary.js';
@@ -39,6 +39,16 @@ export async function main(argv: string[], io: CliIo): Promise<number> {
     const template = settings.template
       ? await readTemplate(path.resolve(io.cwd, settings.template))
       : undefined;
+    const outputs = (
+      [
+        [settings.json, '--json'],
+        [settings.markdown, '--markdown'],
+        [settings.html, '--html'],
+      ] as const
+    ).flatMap(([p, label]) => (p ? [{ path: path.resolve(io.cwd, p), label }] : []));
+    // Before any work: an output naming an input, or two outputs naming one file, is refused.
+    const before = await inputGuard(cwd, settings.config);
+    checkOutputs(outputs, before);
     let lastShown = 0;
     const started = Date.now();
     results = await runJob({
@@ -55,7 +65,7 @@ export async function main(argv: string[], io: CliIo): Promise<number> {
         }
       },
     });
-    const inputs = inputFiles(cwd, results, settings.config);
+    const inputs = new InputGuard(cwd, settings.config, before.patterns, filesRead(results));
     const markdown = () =>
       renderMarkdown(results, { ...(template ? { template } : {}), fullReportNote: fullNote(settings) });
     if (settings.json)

@@ -106,6 +106,13 @@ export class FakeGitHub implements IssueApi {
   /** Status to fail the next matching call with. */
   failWith: { call: string; status: number } | null = null;
   labelCreationFails = false;
+  /** The token's login; comments and issues are written as `author` (default: the same). */
+  me = 'github-actions[bot]';
+  author = 'github-actions[bot]';
+
+  async identity() {
+    return this.me;
+  }
 
   private tick(): string {
     this.clock += 1000;
@@ -117,12 +124,13 @@ export class FakeGitHub implements IssueApi {
       throw Object.assign(new Error(`fake ${this.failWith.status}`), { status: this.failWith.status });
     }
   }
-  addComment(issue: number, body: string): IssueComment {
+  addComment(issue: number, body: string, author = this.author): IssueComment {
     const c = {
       id: this.nextId++,
       body,
       createdAt: this.tick(),
       url: `https://example.test/c/${this.nextId - 1}`,
+      author,
     };
     this.comments.set(issue, [...(this.comments.get(issue) ?? []), c]);
     return c;
@@ -173,6 +181,7 @@ export class FakeGitHub implements IssueApi {
       body,
       createdAt: this.tick(),
       url: `https://example.test/i/${number}`,
+      author: this.author as string | null,
       labels,
     };
     this.issues.push(i);

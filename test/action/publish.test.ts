@@ -57,7 +57,7 @@ describe('upsertComment', () => {
     gh.addComment(7, `${MARK}\nnewer`);
     gh.addComment(7, `${MARK}\nnewest`);
     const out = await upsertComment(gh, 7, MARK, 'fresh');
-    expect(out).toEqual({ action: 'updated', url: old.url, removed: 2 });
+    expect(out).toEqual({ action: 'updated', url: old.url, removed: 2, notes: [] });
     expect(gh.comments.get(7)!.map((c) => c.body)).toEqual([`${MARK}\nfresh`]);
   });
 
