@@ -9,8 +9,8 @@
  * soft hyphens, Hangul fillers and interlinear annotation marks. Zero-width (non-)joiners stay: scripts
  * and emoji need them.
  */
-// eslint-disable-next-line no-control-regex -- matching control characters is the point
 const INVISIBLE =
+  // eslint-disable-next-line no-control-regex -- matching control characters is the point
   /[\u0000-\u0009\u000b-\u001f\u007f-\u009f\u00ad\u061c\u115f\u1160\u180e\u200b\u200e\u200f\u2028-\u202e\u2060-\u2064\u2066-\u206f\u3164\ufeff\uffa0\ufff9-\ufffb]/g;
 const INVISIBLE_WITH_NEWLINE = new RegExp(INVISIBLE.source.replace('\\u000b', '\\u000a\\u000b'), 'g');
 

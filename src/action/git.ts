@@ -72,8 +72,8 @@ export function countLines(bytes: Buffer): number {
 }
 
 /**
- * Parses `git cat-file --batch` output into one entry per request: the object's bytes, or null
- * when git reports it missing (or ambiguous).
+ * Parses `git cat-file --batch` output into one entry per request (object ids, one per line): the
+ * object's bytes, or null when git reports it missing (or ambiguous).
  */
 export function parseBatch(out: Buffer, requests: number): (Buffer | null)[] {
   const res: (Buffer | null)[] = [];
@@ -153,17 +153,29 @@ export async function compareWithBase(
   }
   if (changed.length === 0) return { ok: true, newRows: {}, added: [] };
 
-  // One git process for every file, however many the pull request touches.
-  const requests = changed.map((c) => `${c.status === 'A' ? 'HEAD' : baseSha}:./${c.file}`);
-  const batch = await git.run(['cat-file', '--batch'], { cwd, input: requests.join('\n') + '\n' });
+  // Object ids come from NUL-delimited tree listings, so no file name (not even one holding a
+  // newline) is ever written to a line-based git request; then one git process reads every blob,
+  // asked for by id alone.
+  const baseIds = await treeIds(git, cwd, baseSha);
+  const headIds = changed.some((c) => c.status === 'A') ? await treeIds(git, cwd, 'HEAD') : new Map();
+  if (baseIds === null || headIds === null)
+    return { ok: false, note: missingBaseNote(baseSha, 'git ls-tree failed') };
+  const ids = changed.map((c) => (c.status === 'A' ? headIds : baseIds).get(c.file) ?? null);
+  const requests = ids.filter((id): id is string => id !== null);
+  const batch =
+    requests.length === 0
+      ? { code: 0, stdout: Buffer.alloc(0), stderr: '' }
+      : await git.run(['cat-file', '--batch'], { cwd, input: requests.join('\n') + '\n' });
   if (batch.code !== 0)
     return { ok: false, note: missingBaseNote(baseSha, `git cat-file failed: ${firstLine(batch.stderr)}`) };
   const blobs = parseBatch(batch.stdout, requests.length);
 
   const newRows: Record<string, number> = {};
   const added: string[] = [];
+  let next = 0;
   changed.forEach((c, i) => {
-    const blob = blobs[i];
+    if (ids[i] === null) return;
+    const blob = blobs[next++];
     if (!blob) return;
     const key = c.file.split('\\').join('/');
     if (c.status === 'A') {
@@ -172,6 +184,24 @@ export async function compareWithBase(
     } else newRows[key] = countLines(blob);
   });
   return { ok: true, newRows, added };
+}
+
+/**
+ * Every file under `cwd` in commit `rev` (paths relative to cwd, as `git diff --relative` gives them)
+ * -> its blob id, from `git ls-tree -r -z`: NUL-delimited, so file names are taken byte for byte.
+ * Null when git fails.
+ */
+export async function treeIds(git: GitRunner, cwd: string, rev: string): Promise<Map<string, string> | null> {
+  const r = await git.run(['-c', 'core.quotepath=off', 'ls-tree', '-r', '-z', rev, '--', '.'], { cwd });
+  if (r.code !== 0) return null;
+  const ids = new Map<string, string>();
+  for (const entry of r.stdout.toString('utf8').split('\0')) {
+    const tab = entry.indexOf('\t');
+    if (tab < 0) continue;
+    const [, type, id] = entry.slice(0, tab).split(' ');
+    if (type === 'blob' && id) ids.set(entry.slice(tab + 1), id);
+  }
+  return ids;
 }
 
 /**

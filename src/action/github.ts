@@ -82,6 +82,11 @@ export class ApiFault extends Error {
   }
 }
 
+/** A time limit as said in messages: "30 s", or "400 ms" below a second. */
+export function limitText(ms: number): string {
+  return ms < 1000 ? `${Math.round(ms)} ms` : `${Math.round(ms / 1000)} s`;
+}
+
 /** HTTP answers @octokit/plugin-retry gives up on at once; others are retried (3 times). */
 const NOT_RETRIED = new Set([400, 401, 403, 404, 410, 422, 451]);
 
@@ -95,7 +100,7 @@ export function apiFault(e: unknown, call: string, timeoutMs: number): ApiFault 
     return new ApiFault(`HTTP ${status}: ${text}`, call, status, 'http', !NOT_RETRIED.has(status));
   if (/abort|timeout/i.test(`${err?.name} ${text}`))
     return new ApiFault(
-      `no answer within ${Math.round(timeoutMs / 1000)} s (Leadline's limit per request)`,
+      `no answer within ${limitText(timeoutMs)} (Leadline's limit per request)`,
       call,
       null,
       'timeout',

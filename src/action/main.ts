@@ -13,7 +13,7 @@ import { VERSION } from '../version.js';
 import { planAnnotations, type Annotation } from './annotations.js';
 import { destination, isPullRequestEvent, readEvent, type Destination } from './event.js';
 import { compareWithBase, isTracked, systemGit, type GitRunner } from './git.js';
-import { octokitApi, type IssueApi, type OctokitSettings } from './github.js';
+import { limitText, octokitApi, type IssueApi, type OctokitSettings } from './github.js';
 import {
   describeError,
   marker,
@@ -305,7 +305,7 @@ async function publishWithin(
       resolve({
         url: null,
         action: 'failed',
-        warning: `Publishing the report stopped after ${Math.round(ms / 1000)} s, Leadline's limit for the publishing stage: the GitHub API did not answer in time. The verdict, job summary, outputs and results file are unaffected; the next run will try again.`,
+        warning: `Publishing the report stopped after ${limitText(ms)}, Leadline's limit for the publishing stage: the GitHub API did not answer in time. The verdict, job summary, outputs and results file are unaffected; the next run will try again.`,
       });
     }, ms);
   });

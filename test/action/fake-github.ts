@@ -17,6 +17,7 @@ interface StoredComment {
   issue: number;
   body: string;
   created_at: string;
+  author: string;
 }
 interface StoredIssue {
   number: number;
@@ -37,6 +38,10 @@ export interface Failure {
   times: number;
   message?: string;
   headers?: Record<string, string>;
+  /** Answer with this text as the body instead of a JSON error (e.g. a malformed JSON reply). */
+  raw?: string;
+  /** Wait this long before answering (a stalled API). */
+  delayMs?: number;
 }
 
 export class FakeGitHubServer {
@@ -65,6 +70,7 @@ export class FakeGitHubServer {
   }
 
   async stop(): Promise<void> {
+    this.server?.closeAllConnections();
     await new Promise<void>((resolve) => this.server?.close(() => resolve()));
   }
 
@@ -73,8 +79,8 @@ export class FakeGitHubServer {
     return new Date(this.clock).toISOString();
   }
 
-  addComment(issue: number, body: string): StoredComment {
-    const c = { id: this.nextComment++, issue, body, created_at: this.stamp() };
+  addComment(issue: number, body: string, author = 'github-actions[bot]'): StoredComment {
+    const c = { id: this.nextComment++, issue, body, created_at: this.stamp(), author };
     this.comments.push(c);
     return c;
   }
@@ -116,7 +122,7 @@ export class FakeGitHubServer {
       created_at: c.created_at,
       updated_at: c.created_at,
       html_url: `https://github.test/${this.owner}/${this.repo}/issues/${c.issue}#issuecomment-${c.id}`,
-      user: { login: 'github-actions[bot]', type: 'Bot' },
+      user: { login: c.author, type: c.author.endsWith('[bot]') ? 'Bot' : 'User' },
     };
   }
 
@@ -130,6 +136,7 @@ export class FakeGitHubServer {
       labels: i.labels.map((name) => ({ name })),
       created_at: i.created_at,
       html_url: `https://github.test/${this.owner}/${this.repo}/issues/${i.number}`,
+      user: { login: 'github-actions[bot]', type: 'Bot' },
       ...(i.pull_request ? { pull_request: i.pull_request } : {}),
     };
   }
@@ -157,8 +164,17 @@ export class FakeGitHubServer {
     const fail = this.failures.find((f) => f.times > 0 && f.method === call.method && f.path.test(call.path));
     if (fail) {
       fail.times--;
+      if (fail.delayMs) await new Promise((r) => setTimeout(r, fail.delayMs));
+      if (res.destroyed) return;
+      if (fail.raw !== undefined) {
+        call.status = fail.status;
+        res.writeHead(fail.status, { 'content-type': 'application/json; charset=utf-8', ...fail.headers });
+        return void res.end(fail.raw);
+      }
       return send(fail.status, { message: fail.message ?? `injected ${fail.status}` }, fail.headers);
     }
+    // The workflow token may not read its own user, as on GitHub.
+    if (call.path === '/user') return send(403, { message: 'Resource not accessible by integration' });
     if (this.barrier && this.barrier.method === call.method && this.barrier.path.test(call.path)) {
       // Hold matching calls until `count` of them are waiting, then answer all: forces a race.
       const b = this.barrier;

@@ -136,7 +136,11 @@ describe('compareWithBase in a real repository', () => {
         if (args.includes('diff') && args.some((a) => a.includes('...')))
           return { code: 128, stdout: Buffer.alloc(0), stderr: 'fatal: no merge base' };
         if (args.includes('diff')) return { code: 0, stdout: Buffer.from('M\0a.csv\0'), stderr: '' };
-        expect(input).toBe('bbbbbbb:./a.csv\n');
+        if (args.includes('ls-tree')) {
+          expect(args).toContain('bbbbbbb');
+          return { code: 0, stdout: Buffer.from(`100644 blob ${'1'.repeat(40)}\ta.csv\0`), stderr: '' };
+        }
+        expect(input).toBe(`${'1'.repeat(40)}\n`);
         return {
           code: 0,
           stdout: Buffer.from('1111111111111111111111111111111111111111 blob 4\nh\n1\n\n'),

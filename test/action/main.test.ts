@@ -167,6 +167,8 @@ describe('run', () => {
           return { code: 0, stdout: Buffer.alloc(0), stderr: '' };
         if (args.includes('diff'))
           return { code: 0, stdout: Buffer.from('M\0metrics/latency.csv\0'), stderr: '' };
+        if (args.includes('ls-tree'))
+          return { code: 0, stdout: Buffer.from('100644 blob 1234567\tmetrics/latency.csv\0'), stderr: '' };
         if (args[0] === 'cat-file')
           return { code: 0, stdout: Buffer.from('1234567 blob 6\nh\n1\n2\n\n'), stderr: '' };
         return { code: 1, stdout: Buffer.alloc(0), stderr: '' };
