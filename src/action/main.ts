@@ -7,7 +7,7 @@ import { isLeadlineError } from '../errors.js';
 import { filesRead, outputProblems, inputGuard, InputGuard, resultsJson, writeOutput } from '../files.js';
 import { runJob, type JobOptions } from '../job.js';
 import { renderHtml, renderMarkdown } from '../report/index.js';
-import type { Results } from '../results.js';
+import { RESULTS_SCHEMA_ID, type Results } from '../results.js';
 import { logSafe, visible } from '../untrusted.js';
 import { VERSION } from '../version.js';
 import { planAnnotations, type Annotation } from './annotations.js';
@@ -90,6 +90,7 @@ function failedRun(e: unknown, s: Settings): Results {
     ? e.message
     : `Leadline stopped on an unexpected error: ${(e as Error)?.message ?? String(e)}`;
   return {
+    $schema: RESULTS_SCHEMA_ID,
     version: 1,
     generator: { name: 'leadline', version: VERSION },
     generatedAt: new Date().toISOString(),
