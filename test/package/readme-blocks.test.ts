@@ -57,6 +57,21 @@ describe('README.md YAML blocks', () => {
   });
 });
 
+describe("the README's set-up commands", () => {
+  const setup = codeBlocks()
+    .filter((b) => b.heading === 'Set-up' && b.lang === 'sh')
+    .map((b) => b.code.trim());
+
+  it('are one command for the demo and one for the tests', () => {
+    expect(setup).toEqual(['npm ci && npm run demo', 'npm ci && npm test']);
+  });
+
+  it('.ci/run runs the test command exactly as the README gives it', () => {
+    const ci = readFileSync(new URL('../../.ci/run', import.meta.url), 'utf8');
+    expect(ci.split('\n')).toContain(setup[1]);
+  });
+});
+
 describe('config examples against leadline.schema.json (Ajv)', () => {
   const configs = yamlBlocks.filter((b) => /^version: 1$/m.test(b.code));
   it.each(configs.map((b) => [where(b), b] as const))('%s is valid', (_, b) => {
