@@ -192,7 +192,11 @@ function analyseOne(s: Series, m: MetricPlan, o: BuildOptions): SeriesResult {
     notes.push('This file is unchanged in the pull request: no row was checked.');
   if (o.newRows && newFrom !== undefined && indices.length === 0)
     notes.push('The pull request adds no observation to this series.');
-  const { checked, notes: checkNotes } = checkObservations({
+  const {
+    checked,
+    notes: checkNotes,
+    judge,
+  } = checkObservations({
     values: s.values,
     rows: s.rows,
     timeAt: (i) => timeAtIndex(s, i),
@@ -221,10 +225,15 @@ function analyseOne(s: Series, m: MetricPlan, o: BuildOptions): SeriesResult {
     ...base,
     method: a.chosen.method,
     intervalKind: a.forecast.kind,
-    sigma: finiteOrNull(a.chosen.sigma),
-    sigmaDf: a.chosen.sigmaDf,
+    // One sigma and one set of residual checks: those of the model that judged the checked rows.
+    sigma: finiteOrNull((judge?.fit ?? a.chosen).sigma),
+    sigmaDf: (judge?.fit ?? a.chosen).sigmaDf,
     forecast: forecastPoints(a, s, m.horizon),
-    residualChecks: summariseChecks(a.checks),
+    residualChecks: summariseChecks(
+      judge?.checks ?? a.checks,
+      judge ? 'before-checked' : 'all',
+      (judge?.fit ?? a.chosen).n,
+    ),
     backtest: summariseBacktest(a),
     checked,
     limit,
@@ -419,11 +428,23 @@ function forecastPoints(a: Analysis, s: Series, horizon: number): ForecastPoint[
   return out;
 }
 
-function summariseChecks(c: ResidualChecks): ResidualCheckSummary {
-  const t = (x: { statistic: number; df: number | null; pValue: number; ok: boolean; finding: string }) => ({
+function summariseChecks(
+  c: ResidualChecks,
+  basis: 'before-checked' | 'all',
+  observations: number,
+): ResidualCheckSummary {
+  const t = (x: {
+    statistic: number;
+    df: number | null;
+    pValue: number;
+    adjustedP: number;
+    ok: boolean;
+    finding: string;
+  }) => ({
     statistic: x.statistic,
     df: x.df,
     pValue: x.pValue,
+    adjustedP: x.adjustedP,
     ok: x.ok,
     finding: x.finding,
   });
@@ -434,6 +455,11 @@ function summariseChecks(c: ResidualChecks): ResidualCheckSummary {
     spread: { ...t(c.spread), test: c.spread.name },
     acf: c.acf,
     acfBound: c.acfBound,
+    adjustment: 'holm',
+    family: c.family,
+    caveat: c.caveat,
+    basis,
+    observations,
   };
 }
 

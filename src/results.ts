@@ -56,6 +56,8 @@ const testSummary = {
   statistic: real,
   df: z.number().nullable(),
   pValue: real,
+  /** Holm-adjusted over the series' family of residual checks; `ok` means it is at least 0.05. */
+  adjustedP: real.optional(),
   ok: z.boolean(),
   finding: text(),
 };
@@ -67,6 +69,21 @@ const residualChecks = z.strictObject({
   spread: z.strictObject({ ...testSummary, test: text(200) }),
   acf: z.array(real).max(MAX_POINTS),
   acfBound: real,
+  /**
+   * The checks form one family per series, Holm-adjusted (at most a 5% chance that a clean series has
+   * any check flagged); `family` counts the checks computed. `caveat`: some check is flagged — a
+   * caveat about the model's intervals, not an alarm.
+   */
+  adjustment: z.literal('holm').optional(),
+  family: count.optional(),
+  caveat: z.boolean().optional(),
+  /**
+   * Whose residuals: the model that judged the checked rows ('before-checked': the chosen method fitted
+   * to the history before the first of them), or the fit to every observation ('all').
+   */
+  basis: z.enum(['before-checked', 'all']).optional(),
+  /** Length of the history (rows, missing ones included) that model was fitted to. */
+  observations: count.optional(),
 });
 
 const measures = {
@@ -119,6 +136,13 @@ const checkedObservation = z.strictObject({
   side: z.enum(['above', 'below']).nullable(),
   /** Tail probability under the predictive distribution, sided to match `direction`. */
   pValue: real,
+  /**
+   * Where pValue comes from: the Student-t (analytic), the bootstrap or empirical sample's share, or
+   * the Student-t tail scaled to that sample beyond it (src/engine/forecast.ts).
+   */
+  pValueBasis: z.enum(['student-t', 'sample', 'tail-model']).optional(),
+  /** 'upper' when pValue is only an upper bound (a sample with no spread on that side), else null. */
+  pValueBound: z.literal('upper').nullable().optional(),
   /** p after the run's false-alarm adjustment (equal to pValue for `none`). */
   adjustedP: real,
   /** Standard errors away from the point forecast (signed). */
@@ -169,6 +193,11 @@ export const seriesResultSchema = z.strictObject({
   seasonSource: z.enum(['config', 'auto']),
   method: methodName.nullable(),
   intervalKind: intervalKind.nullable(),
+  /**
+   * sigma-hat and its df of the model whose residuals `residualChecks` examine: with checked rows, the
+   * chosen method fitted to the history before the first of them (the one sigma behind their z and
+   * intervals); otherwise the fit to every observation.
+   */
   sigma: z.number().nullable(),
   sigmaDf: z.number().nullable(),
   levels: z.array(z.number()).max(100),

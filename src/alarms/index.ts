@@ -1,6 +1,7 @@
 // Which observations are checked, which of them raise alarms, and which limits are at risk.
 // Pure: takes a series' values and the engine's analysis, returns plain data.
 import {
+  runBacktest,
   runResidualTests,
   chooseIntervalKind,
   fitMethod,
@@ -12,6 +13,8 @@ import {
   type Analysis,
   type Fit,
   type Forecast,
+  type MethodBacktest,
+  type ResidualChecks,
 } from '../engine/index.js';
 import type { MetricOptions } from '../config/types.js';
 import type { CheckedObservation, Direction, FalseAlarmControl, LimitResult } from '../results.js';
@@ -60,17 +63,25 @@ export interface CheckContext {
 export interface CheckOutcome {
   checked: CheckedObservation[];
   notes: string[];
+  /**
+   * The model that judged the checked rows (fitted to the history before the first of them) and its
+   * residual checks; null when nothing was checked.
+   */
+  judge: { fit: Fit; checks: ResidualChecks } | null;
 }
 
 /**
  * Judges each checked observation against the forecast made from the origin just before the first
  * of them, with the chosen method fitted to the observations up to that origin only (so several new
- * rows are judged against what was forecast before any of them arrived). Interval kind is the one
- * the full analysis chose. `alarm` here is before any run-wide false-alarm adjustment.
+ * rows are judged against what was forecast before any of them arrived). Everything the judgement
+ * uses comes from that history alone: the residual checks, the `auto` interval kind, and the
+ * backtest errors of empirical intervals (a backtest of the history before the origin, so every
+ * error's actual came before it). A checked observation's interval therefore cannot depend on its
+ * own value. `alarm` here is before any run-wide false-alarm adjustment.
  */
 export function checkObservations(c: CheckContext): CheckOutcome {
   const notes: string[] = [];
-  if (c.indices.length === 0) return { checked: [], notes };
+  if (c.indices.length === 0) return { checked: [], notes, judge: null };
   const origin = c.indices[0]!; // forecasts are made from y_1..y_origin (0-based prefix length)
   const prefix = c.values.subarray(0, origin);
   const fit = fitMethod(c.analysis.chosen.method, prefix, c.season);
@@ -78,15 +89,31 @@ export function checkObservations(c: CheckContext): CheckOutcome {
     notes.push(
       `No observation was checked: the ${c.analysis.chosen.method} method needs more history before the checked rows (${fit.reason}).`,
     );
-    return { checked: [], notes };
+    return { checked: [], notes, judge: null };
   }
   const horizon = c.indices[c.indices.length - 1]! - origin + 1;
-  const mb = c.analysis.backtest.methods[fit.method];
+  const checks = runResidualTests(fit);
+  const auto = c.options.intervals === 'auto';
+  // The backtest of the prefix, only when empirical intervals may be used (it is their sample).
+  const mayBeEmpirical =
+    c.options.intervals === 'empirical' ||
+    (auto && !(checks.ljungBox.ok && checks.bias.ok && checks.spread.ok));
+  let mb: MethodBacktest | undefined;
+  if (mayBeEmpirical) {
+    const full = c.analysis.backtest;
+    mb = runBacktest(prefix, [fit.method], {
+      season: c.season,
+      minTrain: full.minTrain,
+      horizon: full.horizon,
+      levels: [c.options.alarmLevel],
+      coverage: [],
+    }).methods[fit.method];
+  }
   // With `intervals: auto` the kind is chosen from the residuals known at the origin, so an anomaly
   // among the checked rows cannot widen (or reshape) the interval it is judged against.
-  let kind = c.options.intervals === 'auto' ? c.analysis.forecast.kind : c.options.intervals;
-  if (c.options.intervals === 'auto') {
-    const prior = chooseIntervalKind(runResidualTests(fit), mb);
+  let kind = auto ? c.analysis.forecast.kind : c.options.intervals;
+  if (auto) {
+    const prior = chooseIntervalKind(checks, mb);
     kind = prior.kind;
     if (prior.kind !== c.analysis.forecast.kind)
       notes.push(
@@ -100,7 +127,7 @@ export function checkObservations(c: CheckContext): CheckOutcome {
     paths: c.options.paths,
     seed: c.options.seed,
     ...(mb ? { backtest: mb } : {}),
-    checks: c.analysis.checks,
+    checks,
   });
   for (const n of fc.notes) if (!notes.includes(n)) notes.push(n);
   const band = fc.bands.find((b) => b.level === c.options.alarmLevel) ?? fc.bands[0]!;
@@ -111,7 +138,7 @@ export function checkObservations(c: CheckContext): CheckOutcome {
     const lower = band.lower[step - 1]!;
     const upper = band.upper[step - 1]!;
     const side = value > upper ? 'above' : value < lower ? 'below' : null;
-    const { p, z } = tailProbability(fc, step, value, c.options.direction);
+    const { p, z, basis, bound } = tailProbability(fc, step, value, c.options.direction);
     const onBadSide = side !== null && (c.options.direction === 'both' || c.options.direction === side);
     return {
       index,
@@ -127,14 +154,15 @@ export function checkObservations(c: CheckContext): CheckOutcome {
       outside: side !== null,
       side,
       pValue: p,
+      pValueBasis: basis,
+      pValueBound: bound,
       adjustedP: p,
       z,
-      // Without run-wide control an alarm is exactly "outside the interval on the watched side"; the
-      // p-value is reported beside it (for empirical intervals its resolution is 1/(errors + 1)).
+      // Without run-wide control an alarm is exactly "outside the interval on the watched side".
       alarm: onBadSide,
     };
   });
-  return { checked, notes };
+  return { checked, notes, judge: { fit, checks } };
 }
 
 /**

@@ -287,6 +287,7 @@ abstract class RunningFit {
       gap: i - this.last,
       slope: 0,
       paramScale: 0,
+      df: n - 1, // sigma-hat's df at this origin: its uncertainty is drawn per path (simulate.ts)
       season: 1,
       base: EMPTY,
       shocks: new Int32Array(0),

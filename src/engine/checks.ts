@@ -3,22 +3,31 @@
 // The residuals used are the non-missing ones in time order (a gap simply joins the residuals on
 // either side). n below is their number.
 // - ACF: r_k = sum_{t=1..n-k} (e_t - ebar)(e_{t+k} - ebar) / sum_t (e_t - ebar)^2, k = 1..L.
-// - Ljung–Box (Ljung & Box 1978): Q = n(n+2) sum_{k=1..L} r_k^2 / (n-k), df = L - K with K the
-//   method's estimated parameters; p = 1 - F_chi2(Q; df). L defaults to defaultLags(T, m) and is
-//   cut to n - 1 and raised to K + 1 when needed so that df >= 1.
+// - Ljung–Box (Ljung & Box 1978): Q = n(n+2) sum_{k=1..L} r_k^2 / (n-k), df = L for all four
+//   baselines; p = 1 - F_chi2(Q; df). No ARMA coefficient is estimated: removing a mean (mean) or
+//   the mean difference (drift) does not use up a degree of freedom, since r_k is already taken
+//   about the residual mean. L defaults to defaultLags(T, m) and is cut to n - 1.
 // - Bias: one-sample t-test of the mean residual, t = ebar / (s / sqrt(n)), n - 1 df, two-sided.
 //   The mean method's residuals, and the drift method's when no value is missing, sum to zero
 //   exactly (the drift residuals telescope), so bias is reported as zero by construction there.
 // - Normality: Jarque–Bera (Jarque & Bera 1980), JB = n/6 (S^2 + (K - 3)^2 / 4) with S = m3/m2^1.5
 //   the skewness and K = m4/m2^2 the kurtosis (3 for a normal; central moments with divisor n);
 //   p = 1 - F_chi2(JB; 2).
-// - Changing spread: a Goldfeld–Quandt-style F test (Goldfeld & Quandt 1965) comparing the sample
-//   variance of the last third of the residuals with that of the first third (the middle third left
-//   out), F = s_last^2 / s_first^2 with (n3 - 1, n1 - 1) df, two-sided p = 2 min(F_F, 1 - F_F).
+// - Changing spread: the Brown–Forsythe test (Brown & Forsythe 1974; Levene's test centred on the
+//   median), robust to heavy tails, on the first and last thirds of the residuals (the middle third
+//   left out): z = |e - median of its third|, F = (N - 2) n1 n3 (zbar_3 - zbar_1)^2 / (N SSW) with
+//   SSW the within-third sum of squares of z (one-way ANOVA of z over the two thirds), df (1, N - 2),
+//   N = n1 + n3, p = 1 - F_F(F; 1, N - 2). The direction is the sign of zbar_3 - zbar_1.
 // Tests with zero residual variance (a constant series) or too few residuals are not computed:
 // statistic and p are NaN, ok is true, and the finding says why.
+//
+// The four tests form one family per series: a clean series would fail at least one of four 5%
+// tests about 15-19% of the time. Holm's step-down procedure (Holm 1979) controls the chance of any
+// false flag at 5%: with the m computed p-values sorted, p_(i) adjusted = max_{j<=i} min(1,
+// (m - j + 1) p_(j)); a test is flagged (ok false) when its adjusted p is below 0.05. A flag is a
+// caveat about the model (its intervals may be off), not a finding about the newest data.
 import { chiSquareCdf, fCdf, tCdf } from './dist.js';
-import { fmt, fmtP, meanAndSquares, powerOfTwoBelow } from './numeric.js';
+import { fmt, fmtP, meanAndSquares, powerOfTwoBelow, sortedQuantile } from './numeric.js';
 import { methodLabel } from './methods.js';
 import type { Fit, ResidualChecks, TestResult } from './types.js';
 
@@ -32,7 +41,15 @@ export function defaultLags(n: number, season: number): number {
 const ALPHA = 0.05;
 
 function notComputed(name: string, why: string, df: number | null = null): TestResult {
-  return { name, statistic: NaN, df, pValue: NaN, ok: true, finding: `${name} not computed: ${why}` };
+  return {
+    name,
+    statistic: NaN,
+    df,
+    pValue: NaN,
+    adjustedP: NaN,
+    ok: true,
+    finding: `${name} not computed: ${why}`,
+  };
 }
 
 export function runResidualTests(fit: Fit, lags?: number): ResidualChecks {
@@ -50,19 +67,19 @@ export function runResidualTests(fit: Fit, lags?: number): ResidualChecks {
   for (let i = 0; i < n; i++) d[i] = (e[i]! - mean) / k;
   const constant = !(ss > 0);
   const label = methodLabel(fit.method);
-  const K = fit.parameters;
+  const family: Pending[] = [];
 
   // ACF and Ljung–Box.
   let L = Math.floor(lags ?? defaultLags(fit.n, fit.season));
-  L = Math.min(Math.max(L, K + 1), n - 1);
+  L = Math.min(Math.max(L, 1), n - 1);
   const acf: number[] = [];
   let ljungBox: ResidualChecks['ljungBox'];
-  if (constant || L < 1 || L - K < 1) {
+  if (constant || L < 1) {
     ljungBox = {
       ...notComputed(
         'Ljung–Box',
         constant ? 'the residuals are all equal (sigma 0).' : `too few residuals (${n}) for any lag.`,
-        Math.max(0, L - K),
+        Math.max(0, L),
       ),
       lags: Math.max(0, L),
     };
@@ -79,20 +96,23 @@ export function runResidualTests(fit: Fit, lags?: number): ResidualChecks {
       q += (r * r) / (n - lag);
     }
     q *= n * (n + 2);
-    const df = L - K;
+    const df = L;
     const p = 1 - chiSquareCdf(q, df);
-    const ok = !(p < ALPHA);
     ljungBox = {
       name: 'Ljung–Box',
       statistic: q,
       df,
       pValue: p,
-      ok,
+      adjustedP: p,
+      ok: true,
       lags: L,
-      finding: ok
-        ? `No autocorrelation detected in the residuals (Ljung–Box Q = ${fmt(q)} over ${L} lags, df ${df}, ${fmtP(p)}).`
-        : `The residuals are autocorrelated (Ljung–Box Q = ${fmt(q)} over ${L} lags, df ${df}, ${fmtP(p)}): the ${label} method leaves a pattern unexplained, so the intervals are likely too narrow and neighbouring alarms are not independent.`,
+      finding: '',
     };
+    family.push({
+      test: ljungBox,
+      good: `No autocorrelation detected in the residuals (Ljung–Box Q = ${fmt(q)} over ${L} lags, df ${df}, ${fmtP(p)})`,
+      bad: `The residuals are autocorrelated (Ljung–Box Q = ${fmt(q)} over ${L} lags, df ${df}, ${fmtP(p)}): the ${label} method leaves a pattern unexplained, so the intervals are likely too narrow and neighbouring alarms are not independent`,
+    });
   }
 
   // Bias.
@@ -104,6 +124,7 @@ export function runResidualTests(fit: Fit, lags?: number): ResidualChecks {
       statistic: 0,
       df: n - 1,
       pValue: 1,
+      adjustedP: 1,
       ok: true,
       mean: 0,
       zeroByConstruction: true,
@@ -127,19 +148,22 @@ export function runResidualTests(fit: Fit, lags?: number): ResidualChecks {
     const s = sd(n - 1);
     const t = mean / (s / Math.sqrt(n));
     const p = Math.min(1, 2 * tCdf(-Math.abs(t), n - 1));
-    const ok = !(p < ALPHA);
     bias = {
       name: 'bias t-test',
       statistic: t,
       df: n - 1,
       pValue: p,
-      ok,
+      adjustedP: p,
+      ok: true,
       mean,
       zeroByConstruction: false,
-      finding: ok
-        ? `No bias detected: the mean residual ${fmt(mean)} is consistent with zero (t = ${fmt(t)}, df ${n - 1}, ${fmtP(p)}).`
-        : `The residuals average ${fmt(mean)}, not zero (t = ${fmt(t)}, df ${n - 1}, ${fmtP(p)}): the one-step forecasts run ${mean > 0 ? 'low' : 'high'} by about that much${fit.method === 'naive' || fit.method === 'seasonal-naive' ? ', which a trend would explain (the drift method allows for one)' : ''}, and intervals centred on them are off-centre.`,
+      finding: '',
     };
+    family.push({
+      test: bias,
+      good: `No bias detected: the mean residual ${fmt(mean)} is consistent with zero (t = ${fmt(t)}, df ${n - 1}, ${fmtP(p)})`,
+      bad: `The residuals average ${fmt(mean)}, not zero (t = ${fmt(t)}, df ${n - 1}, ${fmtP(p)}): the one-step forecasts run ${mean > 0 ? 'low' : 'high'} by about that much${fit.method === 'naive' || fit.method === 'seasonal-naive' ? ', which a trend would explain (the drift method allows for one)' : ''}, and intervals centred on them are off-centre`,
+    });
   }
 
   // Normality (Jarque–Bera).
@@ -172,24 +196,27 @@ export function runResidualTests(fit: Fit, lags?: number): ResidualChecks {
     const Ku = m4 / (m2 * m2);
     const jb = (n / 6) * (S * S + ((Ku - 3) * (Ku - 3)) / 4);
     const p = 1 - chiSquareCdf(jb, 2);
-    const ok = !(p < ALPHA);
     normality = {
       name: 'Jarque–Bera',
       statistic: jb,
       df: 2,
       pValue: p,
-      ok,
+      adjustedP: p,
+      ok: true,
       skewness: S,
       kurtosis: Ku,
-      finding: ok
-        ? `The residuals are consistent with a normal distribution (Jarque–Bera = ${fmt(jb)}, ${fmtP(p)}; skewness ${fmt(S, 2)}, kurtosis ${fmt(Ku, 3)}).`
-        : `The residuals are not normal (Jarque–Bera = ${fmt(jb)}, ${fmtP(p)}; skewness ${fmt(S, 2)}, kurtosis ${fmt(Ku, 3)} against 3 for a normal): Student-t intervals may misstate the tails${Ku > 3 ? ' (heavy tails make extreme values commoner than they allow)' : ''}; bootstrap and empirical intervals do not assume normality.`,
+      finding: '',
     };
+    family.push({
+      test: normality,
+      good: `The residuals are consistent with a normal distribution (Jarque–Bera = ${fmt(jb)}, ${fmtP(p)}; skewness ${fmt(S, 2)}, kurtosis ${fmt(Ku, 3)})`,
+      bad: `The residuals are not normal (Jarque–Bera = ${fmt(jb)}, ${fmtP(p)}; skewness ${fmt(S, 2)}, kurtosis ${fmt(Ku, 3)} against 3 for a normal): Student-t intervals may misstate the tails${Ku > 3 ? ' (heavy tails make extreme values commoner than they allow)' : ''}; bootstrap and empirical intervals do not assume normality`,
+    });
   }
 
-  // Changing spread: Goldfeld–Quandt-style F, last third against first third.
+  // Changing spread: Brown–Forsythe, last third against first third.
   const third = Math.floor(n / 3);
-  const spreadName = 'Goldfeld–Quandt F';
+  const spreadName = 'Brown–Forsythe';
   let spread: TestResult;
   if (constant || third < 3) {
     spread = notComputed(
@@ -199,41 +226,103 @@ export function runResidualTests(fit: Fit, lags?: number): ResidualChecks {
         : `too few residuals (${n}; at least 9 are needed).`,
     );
   } else {
-    const first = meanAndSquares(e.subarray(0, third));
-    const last = meanAndSquares(e.subarray(n - third));
-    const df1 = third - 1;
-    const s1 = first.sd(df1);
-    const s3 = last.sd(df1);
-    const v1 = s1 * s1;
-    const v3 = s3 * s3;
-    const F = (s3 / s1) * (s3 / s1);
-    if (!(v1 > 0) || !Number.isFinite(F)) {
+    const bf = brownForsythe(d.subarray(0, third), d.subarray(n - third));
+    const df2 = 2 * third - 2;
+    if (!(bf.ssw > 0)) {
+      // Every residual of each third sits at the same distance from its third's median.
+      const grown = bf.last > bf.first;
       spread = {
-        ...notComputed(spreadName, 'the first third of the residuals has no spread at all.', df1),
-        ok: !(v3 > 0),
+        ...notComputed(spreadName, 'the first and last thirds of the residuals do not vary in spread.', df2),
+        ok: bf.last === bf.first,
         finding:
-          v3 > 0
-            ? `The residuals do not vary at all in the first third of the series but do in the last: the spread has grown, so intervals built from the whole history are too narrow now.`
-            : `${spreadName} not computed: the residuals do not vary in the first and last thirds.`,
+          bf.last === bf.first
+            ? `${spreadName} not computed: the residuals of the first and last thirds spread exactly alike.`
+            : `The residuals of each third sit at one distance from its median, ${fmt(bf.first * k)} in the first third and ${fmt(bf.last * k)} in the last: the spread has ${grown ? 'grown' : 'shrunk'}, so intervals built from the whole history are too ${grown ? 'narrow' : 'wide'} now.`,
       };
     } else {
-      const c = fCdf(F, df1, df1);
-      const p = Math.min(1, 2 * Math.min(c, 1 - c));
-      const ok = !(p < ALPHA);
-      spread = {
-        name: spreadName,
-        statistic: F,
-        df: df1,
-        pValue: p,
-        ok,
-        finding: ok
-          ? `No change in the spread of the residuals detected (Goldfeld–Quandt F = ${fmt(F)}, variance of the last third over the first, df ${df1} and ${df1}, ${fmtP(p)}).`
-          : `The spread of the residuals ${F > 1 ? 'grows' : 'shrinks'} over time (Goldfeld–Quandt F = ${fmt(F)}, variance of the last third over the first, df ${df1} and ${df1}, ${fmtP(p)}): intervals use one sigma for the whole history, so they are likely too ${F > 1 ? 'narrow' : 'wide'} for the next observations.`,
-      };
+      const F = bf.statistic;
+      const p = 1 - fCdf(F, 1, df2);
+      const grows = bf.last > bf.first;
+      const words = `Brown–Forsythe F = ${fmt(F)}, absolute deviations from the median in the last third against the first, df 1 and ${df2}, ${fmtP(p)}`;
+      spread = { name: spreadName, statistic: F, df: df2, pValue: p, adjustedP: p, ok: true, finding: '' };
+      family.push({
+        test: spread,
+        good: `No change in the spread of the residuals detected (${words})`,
+        bad: `The spread of the residuals ${grows ? 'grows' : 'shrinks'} over time (${words}): intervals use one sigma for the whole history, so they are likely too ${grows ? 'narrow' : 'wide'} for the next observations`,
+      });
     }
   }
 
-  return { acf, acfBound: n > 0 ? 1.96 / Math.sqrt(n) : NaN, ljungBox, bias, normality, spread };
+  const flagged = holm(family);
+  return {
+    acf,
+    acfBound: n > 0 ? 1.96 / Math.sqrt(n) : NaN,
+    ljungBox,
+    bias,
+    normality,
+    spread,
+    family: family.length,
+    caveat: flagged || [ljungBox, bias, normality, spread].some((t) => !t.ok),
+  };
+}
+
+interface Pending {
+  test: TestResult;
+  good: string;
+  bad: string;
+}
+
+/**
+ * Holm's step-down adjustment over the family's p-values (see the file comment); sets each test's
+ * adjustedP, ok and finding. Returns true when any test is flagged.
+ */
+function holm(family: Pending[]): boolean {
+  const m = family.length;
+  const order = family.map((_, i) => i).sort((a, b) => family[a]!.test.pValue - family[b]!.test.pValue);
+  let running = 0;
+  let any = false;
+  order.forEach((idx, rank) => {
+    const t = family[idx]!;
+    running = Math.max(running, Math.min(1, (m - rank) * t.test.pValue));
+    t.test.adjustedP = running;
+    t.test.ok = !(running < ALPHA);
+    any ||= !t.test.ok;
+    const adj = m > 1 ? `; Holm-adjusted over the ${m} checks, ${fmtP(running)}` : '';
+    if (t.test.ok)
+      t.test.finding =
+        t.test.pValue < ALPHA
+          ? `${t.good}: below 5% on its own, but not once the ${m} checks run on these residuals are allowed for${adj}.`
+          : `${t.good}.`;
+    else t.test.finding = `${t.bad}${adj}. This is a caveat about the model, not about the newest data.`;
+  });
+  return any;
+}
+
+/**
+ * Brown–Forsythe statistic for two groups (Brown & Forsythe 1974): one-way ANOVA F of the absolute
+ * deviations from each group's median. `first` and `last` are the mean absolute deviations.
+ */
+export function brownForsythe(
+  a: ArrayLike<number>,
+  b: ArrayLike<number>,
+): { statistic: number; first: number; last: number; ssw: number } {
+  const za = absDeviations(a);
+  const zb = absDeviations(b);
+  const n1 = za.length;
+  const n2 = zb.length;
+  const N = n1 + n2;
+  const m1 = meanAndSquares(za);
+  const m2 = meanAndSquares(zb);
+  const ssw = m1.ss + m2.ss;
+  const diff = m2.mean - m1.mean;
+  const ssb = ((n1 * n2) / N) * diff * diff;
+  return { statistic: ((N - 2) * ssb) / ssw, first: m1.mean, last: m2.mean, ssw };
+}
+
+function absDeviations(x: ArrayLike<number>): Float64Array {
+  const s = Float64Array.from(x).sort();
+  const med = sortedQuantile(s, 0.5);
+  return s.map((v) => Math.abs(v - med));
 }
 
 /** True when the drift residuals run without a gap from the first to the last observed value. */

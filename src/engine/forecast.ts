@@ -2,12 +2,28 @@
 //
 // - analytic: point ± q × se, q the Student-t quantile at 0.5 + L/200 with the sigma-hat df
 //   (docs/design.md), exact under Gaussian white-noise errors.
-// - bootstrap: quantiles per step of simulated paths (simulate.ts), by linear interpolation
-//   between order statistics (Hyndman & Fan definition 7). The paths are kept on the Forecast.
+// - bootstrap: quantiles per step of simulated paths (simulate.ts). The paths are kept on the Forecast.
 // - empirical: point + quantiles of the backtest's h-step errors (actual - forecast). A step needs at
 //   least `minErrors` (default 20) errors; when step 1 has fewer, the whole forecast falls back to
 //   analytic; later steps with fewer (or beyond the backtest horizon) use analytic bands. Both say so
 //   in a note.
+//
+// Bootstrap and empirical kinds share one predictive distribution per step, built from their sample
+// (the paths' values, or the point forecast plus the errors):
+// - the body, between probabilities 1 - u and u, is the sample's own: quantiles by Hyndman & Fan
+//   (1996) definition 6, position p (n + 1), whose expected coverage of a new exchangeable draw is
+//   exactly p; tail probabilities are the sample share at or beyond the value;
+// - beyond u (and below 1 - u) a Student-t tail with nu = the sigma-hat df, centred on the sample
+//   median c and scaled on each side so it meets the sample at u: Q(P) = c + (Q(u) - c) q_nu(P) /
+//   q_nu(u), and P(Y >= x) = 1 - F_nu(q_nu(u) (x - c) / (Q(u) - c)).
+//   u = max(0.8, min(1 - 5 / b, 1 - 10 / n)), b the independent observations behind the sample (the
+//   residuals a bootstrap resamples; the errors / h for h-step errors, whose origins overlap), n the
+//   sample size: the sample speaks only where at least 5 of its independent observations lie beyond.
+// So p-values keep their meaning far beyond the sample (run-wide control can work: a count over
+// 1,000 paths could never go below 1/1,001), and a short history (T = 30) or long step (h = 14)
+// leans on the Student-t shape with its small-sample df instead of a few extreme order statistics.
+// Where the sample has no spread on a side there is no tail to scale: the p-value is then the
+// sample's (1 + count) / (1 + b), reported as an upper bound.
 import { runResidualTests } from './checks.js';
 import { tCdf, tQuantile } from './dist.js';
 import { fmtP, selectQuantiles, sortedQuantile } from './numeric.js';
@@ -83,20 +99,22 @@ export function chooseIntervalKind(
   minErrors: number = DEFAULT_MIN_ERRORS,
 ): { kind: IntervalKind; reason: string } {
   const problems: string[] = [];
-  if (!checks.ljungBox.ok) problems.push(`autocorrelated (Ljung–Box ${fmtP(checks.ljungBox.pValue)})`);
-  if (!checks.bias.ok) problems.push(`biased (t-test ${fmtP(checks.bias.pValue)})`);
-  if (!checks.spread.ok) problems.push(`of changing spread (Goldfeld–Quandt ${fmtP(checks.spread.pValue)})`);
+  const p = (t: ResidualChecks['spread']): string =>
+    Number.isFinite(t.adjustedP) ? `, Holm-adjusted ${fmtP(t.adjustedP)}` : '';
+  if (!checks.ljungBox.ok) problems.push(`autocorrelated (Ljung–Box${p(checks.ljungBox)})`);
+  if (!checks.bias.ok) problems.push(`biased (t-test${p(checks.bias)})`);
+  if (!checks.spread.ok) problems.push(`of changing spread (${checks.spread.name}${p(checks.spread)})`);
   const least = fewestErrors(bt);
   const enough = least >= minErrors;
   if (problems.length > 0 && enough)
     return {
       kind: 'empirical',
-      reason: `empirical, because the residuals are ${problems.join(', ')}, which analytic and bootstrap intervals assume away; the backtest has at least ${least} out-of-sample errors at every step (${minErrors} needed).`,
+      reason: `empirical, because the residuals are ${problems.join(', ')}, which analytic and bootstrap intervals assume away; the backtest has at least ${least} out-of-sample errors at every step (${minErrors} needed).${!checks.ljungBox.ok ? ' Empirical intervals hold their level on average over autocorrelated errors, not at every moment: they are too narrow just after a large excursion (the next errors follow it) and too wide in quiet spells, so alarms cluster after excursions.' : ''}`,
     };
   if (!checks.normality.ok)
     return {
       kind: 'bootstrap',
-      reason: `bootstrap, because the residuals are not normal (Jarque–Bera ${fmtP(checks.normality.pValue)}) and bootstrap paths keep their shape${problems.length > 0 ? `; empirical would suit the ${problems.join(', ')} residuals better but the backtest has only ${least} errors at its thinnest step (${minErrors} needed)` : ''}.`,
+      reason: `bootstrap, because the residuals are not normal (Jarque–Bera${p(checks.normality)}) and bootstrap paths keep their shape${problems.length > 0 ? `; empirical would suit the ${problems.join(', ')} residuals better but the backtest has only ${least} errors at its thinnest step (${minErrors} needed)` : ''}.`,
     };
   if (problems.length > 0)
     return {
@@ -177,47 +195,39 @@ export function makeForecast(fit: Fit, o: ForecastOptions): Forecast {
     nPaths = o.paths;
     paths = simulatePaths(fit, H, nPaths, o.seed, 'bootstrap');
   }
-  // Bootstrap bands: the quantiles of each step's paths by selection (a full sort of each step is
-  // left until a tail probability asks for it).
-  let bootQ: Float64Array | null = null;
-  const nl = o.levels.length;
-  if (paths) {
-    const probs = new Float64Array(2 * nl);
-    o.levels.forEach((l, k) => {
-      probs[2 * k] = (1 - l / 100) / 2;
-      probs[2 * k + 1] = 1 - (1 - l / 100) / 2;
-    });
-    bootQ = new Float64Array(2 * nl * H);
-    const work = new Float64Array(nPaths);
-    const q = new Float64Array(2 * nl);
-    for (let h = 0; h < H; h++) {
+  const nu = df > 0 ? df : Infinity;
+  const base: number[] = [];
+  for (let h = 1; h <= H; h++)
+    base.push(
+      paths ? fit.residualCount : empiricalErrors?.[h - 1]?.length ? empiricalErrors[h - 1]!.length / h : 0,
+    );
+  // Bootstrap: each step's median, body edges and band quantiles by selection (a full sort of a step
+  // is left until a tail probability asks for it).
+  const work = paths ? new Float64Array(nPaths) : null;
+  const bands: IntervalBand[] = o.levels.map((level) => ({
+    level,
+    lower: new Float64Array(H),
+    upper: new Float64Array(H),
+  }));
+  for (let h = 0; h < H; h++) {
+    const errs = empiricalErrors?.[h];
+    let q: ((prob: number) => number) | null = null;
+    if (paths && work) {
       for (let p = 0; p < nPaths; p++) work[p] = paths[p * H + h]!;
-      selectQuantiles(work, probs, q);
-      bootQ.set(q, h * 2 * nl);
-    }
-  }
-
-  const bands: IntervalBand[] = [];
-  for (const [k, level] of o.levels.entries()) {
-    const lower = new Float64Array(H);
-    const upper = new Float64Array(H);
-    const a = (1 - level / 100) / 2;
-    const q = tQuantile(1 - a, df);
-    for (let h = 0; h < H; h++) {
-      const errs = empiricalErrors?.[h];
-      if (bootQ) {
-        lower[h] = bootQ[h * 2 * nl + 2 * k]!;
-        upper[h] = bootQ[h * 2 * nl + 2 * k + 1]!;
-      } else if (errs && errs.length > 0) {
-        lower[h] = mean[h]! + sortedQuantile(errs, a);
-        upper[h] = mean[h]! + sortedQuantile(errs, 1 - a);
+      q = splicedQuantiles(work, 0, base[h]!, nu, o.levels);
+    } else if (errs && errs.length > 0) q = splicedQuantiles(errs, mean[h]!, base[h]!, nu, o.levels, true);
+    o.levels.forEach((level, k) => {
+      const a = (1 - level / 100) / 2;
+      const band = bands[k]!;
+      if (q) {
+        band.lower[h] = q(a);
+        band.upper[h] = q(1 - a);
       } else {
-        const w = se[h]! === 0 ? 0 : q * se[h]!;
-        lower[h] = mean[h]! - w;
-        upper[h] = mean[h]! + w;
+        const w = se[h]! === 0 ? 0 : tQuantile(1 - a, df) * se[h]!;
+        band.lower[h] = mean[h]! - w;
+        band.upper[h] = mean[h]! + w;
       }
-    }
-    bands.push({ level, lower, upper });
+    });
   }
   if (fit.sigma === 0) notes.push('sigma is 0: the intervals collapse to the point forecast.');
   return {
@@ -232,7 +242,59 @@ export function makeForecast(fit: Fit, o: ForecastOptions): Forecast {
     paths,
     nPaths,
     empiricalErrors,
+    sampleBase: paths || empiricalErrors ? base : null,
     notes,
+  };
+}
+
+/** Where the sample's body ends (see the file comment): u for `base` independent observations, n draws. */
+export function tailStart(base: number, n: number): number {
+  return Math.max(0.8, Math.min(1 - 5 / base, 1 - 10 / n));
+}
+
+/** Definition-7 probability whose quantile is the definition-6 quantile at p (clamped to the sample). */
+function def6(p: number, n: number): number {
+  return n > 1 ? Math.min(1, Math.max(0, (p * (n + 1) - 1) / (n - 1))) : 0;
+}
+
+/**
+ * The spliced quantile function of a sample (file comment) at the probabilities a band needs, by
+ * selection: `work` is reordered unless `sorted` (then it is read as ascending). Values are
+ * offset + sample.
+ */
+function splicedQuantiles(
+  work: Float64Array,
+  offset: number,
+  base: number,
+  nu: number,
+  levels: number[],
+  sorted = false,
+): (prob: number) => number {
+  const n = work.length;
+  const u = tailStart(base, n);
+  const probs = [0.5, 1 - u, u];
+  for (const l of levels) {
+    const a = (1 - l / 100) / 2;
+    if (a >= 1 - u) probs.push(a, 1 - a);
+  }
+  const at = new Map<number, number>();
+  if (sorted) for (const p of probs) at.set(p, offset + sortedQuantile(work, def6(p, n)));
+  else {
+    const out = new Float64Array(probs.length);
+    selectQuantiles(
+      work,
+      probs.map((p) => def6(p, n)),
+      out,
+    );
+    probs.forEach((p, k) => at.set(p, offset + out[k]!));
+  }
+  const c = at.get(0.5)!;
+  const qu = tQuantile(u, nu);
+  return (prob) => {
+    const v = at.get(prob);
+    if (v !== undefined) return v;
+    if (prob > u) return c + ((at.get(u)! - c) * tQuantile(prob, nu)) / qu;
+    return c + ((at.get(1 - u)! - c) * tQuantile(1 - prob, nu)) / qu;
   };
 }
 
@@ -251,13 +313,27 @@ function stepOk(fc: Forecast, step: number): boolean {
   return Number.isInteger(step) && step >= 1 && step <= fc.horizon;
 }
 
+/** The sample behind a step of a bootstrap or empirical forecast (ascending), or null for a t step. */
+function sampleAt(fc: Forecast, step: number): { sorted: Float64Array; offset: number; base: number } | null {
+  const base = fc.sampleBase?.[step - 1] ?? 0;
+  if (fc.kind === 'bootstrap' && fc.paths)
+    return { sorted: columnsOf(fc.paths, fc.nPaths, fc.horizon)[step - 1]!, offset: 0, base };
+  const errs = fc.empiricalErrors?.[step - 1];
+  if (fc.kind === 'empirical' && errs && errs.length > 0)
+    return { sorted: errs, offset: fc.mean[step - 1]!, base };
+  return null;
+}
+
+/** How a p-value was obtained: the Student-t, the sample's share, or the t tail beyond the sample. */
+export type PValueBasis = 'student-t' | 'sample' | 'tail-model';
+
 /**
  * Tail probability of `value` at `step` under the forecast's own predictive distribution:
  * - analytic (and empirical steps without enough errors): Student-t with the sigma df,
  *   P(Y >= value) = 1 - F_t((value - mean)/se);
- * - bootstrap: the share of paths at or beyond the value, as (1 + count)/(1 + nPaths) so that a
- *   value beyond every path gets a small positive p rather than 0 (Davison & Hinkley 1997, eq. 4.11);
- * - empirical: the same with the backtest errors added to the point forecast.
+ * - bootstrap and empirical: the spliced distribution of the file comment (the sample's share in its
+ *   body, the scaled Student-t tail beyond). Where the sample has no spread on the value's side the
+ *   share (1 + count) / (1 + b) is returned with `bound: 'upper'`: the p-value is at most that.
  * 'both' is twice the smaller tail, capped at 1. z = (value - mean)/se (0 when value = mean, ±Infinity
  * when se = 0). NaN for a step outside 1..horizon.
  */
@@ -266,28 +342,51 @@ export function tailProbability(
   step: number,
   value: number,
   side: 'above' | 'below' | 'both',
-): { p: number; z: number } {
-  if (!stepOk(fc, step) || Number.isNaN(value)) return { p: NaN, z: NaN };
+): { p: number; z: number; basis: PValueBasis; bound: 'upper' | null } {
+  if (!stepOk(fc, step) || Number.isNaN(value)) return { p: NaN, z: NaN, basis: 'student-t', bound: null };
   const mu = fc.mean[step - 1]!;
   const s = fc.se[step - 1]!;
   const diff = value - mu;
   const z = diff === 0 ? 0 : s > 0 ? diff / s : diff > 0 ? Infinity : -Infinity;
+  const sample = sampleAt(fc, step);
   let above: number;
   let below: number;
-  const errs = fc.empiricalErrors?.[step - 1];
-  if (fc.kind === 'bootstrap' && fc.paths) {
-    const col = columnsOf(fc.paths, fc.nPaths, fc.horizon)[step - 1]!;
-    const n = col.length;
-    const lt = lowerBound(col, value); // count < value
-    const le = upperBound(col, value); // count <= value
-    above = (1 + (n - lt)) / (1 + n);
-    below = (1 + le) / (1 + n);
-  } else if (fc.kind === 'empirical' && errs && errs.length > 0) {
-    const n = errs.length;
-    const lt = lowerBound(errs, diff);
-    const le = upperBound(errs, diff);
-    above = (1 + (n - lt)) / (1 + n);
-    below = (1 + le) / (1 + n);
+  let basis: PValueBasis = 'student-t';
+  let boundAbove = false;
+  let boundBelow = false;
+  if (sample) {
+    const { sorted, offset, base } = sample;
+    const n = sorted.length;
+    const x = value - offset;
+    const u = tailStart(base, n);
+    const nu = fc.df > 0 ? fc.df : Infinity;
+    const c = sortedQuantile(sorted, def6(0.5, n));
+    const hi = sortedQuantile(sorted, def6(u, n));
+    const lo = sortedQuantile(sorted, def6(1 - u, n));
+    const qu = tQuantile(u, nu);
+    const shareAbove = (n - lowerBound(sorted, x)) / n;
+    const shareBelow = upperBound(sorted, x) / n;
+    basis = 'sample';
+    if (x > hi) {
+      basis = 'tail-model';
+      if (hi > c) above = 1 - tCdf((qu * (x - c)) / (hi - c), nu);
+      else {
+        above = (1 + shareAbove * base) / (1 + base);
+        boundAbove = true;
+      }
+      below = 1 - above;
+    } else if (x < lo) {
+      basis = 'tail-model';
+      if (lo < c) below = tCdf((qu * (x - c)) / (c - lo), nu);
+      else {
+        below = (1 + shareBelow * base) / (1 + base);
+        boundBelow = true;
+      }
+      above = 1 - below;
+    } else {
+      above = shareAbove;
+      below = shareBelow;
+    }
   } else if (s > 0) {
     above = 1 - tCdf(z, fc.df);
     below = tCdf(z, fc.df);
@@ -295,23 +394,38 @@ export function tailProbability(
     above = diff >= 0 ? 1 : 0;
     below = diff <= 0 ? 1 : 0;
   }
-  const p = side === 'above' ? above : side === 'below' ? below : Math.min(1, 2 * Math.min(above, below));
-  return { p, z };
+  let p: number;
+  let bound: boolean;
+  if (side === 'above') [p, bound] = [above, boundAbove];
+  else if (side === 'below') [p, bound] = [below, boundBelow];
+  else {
+    p = Math.min(1, 2 * Math.min(above, below));
+    bound = above <= below ? boundAbove : boundBelow;
+  }
+  return { p, z, basis, bound: bound ? 'upper' : null };
 }
 
 /**
  * Predictive quantile at `step` for probability `prob` (e.g. 0.95 for a one-sided upper bound), from
- * the forecast's own distribution (t, paths or backtest errors as in tailProbability). NaN for a
- * step outside 1..horizon or prob outside [0, 1].
+ * the forecast's own distribution (t, or the spliced sample distribution as in tailProbability). NaN
+ * for a step outside 1..horizon or prob outside [0, 1].
  */
 export function quantileAt(fc: Forecast, step: number, prob: number): number {
   if (!stepOk(fc, step) || !(prob >= 0 && prob <= 1)) return NaN;
   const mu = fc.mean[step - 1]!;
   const s = fc.se[step - 1]!;
-  const errs = fc.empiricalErrors?.[step - 1];
-  if (fc.kind === 'bootstrap' && fc.paths)
-    return sortedQuantile(columnsOf(fc.paths, fc.nPaths, fc.horizon)[step - 1]!, prob);
-  if (fc.kind === 'empirical' && errs && errs.length > 0) return mu + sortedQuantile(errs, prob);
+  const sample = sampleAt(fc, step);
+  if (sample) {
+    const { sorted, offset, base } = sample;
+    const n = sorted.length;
+    const u = tailStart(base, n);
+    const nu = fc.df > 0 ? fc.df : Infinity;
+    const q = (p: number): number => offset + sortedQuantile(sorted, def6(p, n));
+    if (prob >= 1 - u && prob <= u) return q(prob);
+    const c = q(0.5);
+    const edge = prob > u ? q(u) : q(1 - u);
+    return c + ((edge - c) * tQuantile(prob > u ? prob : 1 - prob, nu)) / tQuantile(u, nu);
+  }
   if (!(s > 0)) return mu;
   return mu + tQuantile(prob, fc.df) * s;
 }

@@ -12,6 +12,11 @@
 // estimated parameters carry their own uncertainty, as in the analytic standard errors: each path
 // draws level* = level + e*_0/sqrt(n) (mean) or slope* = slope + e*_0/sqrt(last - first) (drift) with
 // one extra shock, so path variances match sigma^2(1 + 1/T) and sigma^2 h(1 + h/(T-1)).
+// sigma-hat carries its own uncertainty too: each path scales all its shocks by one draw of
+// sqrt(df / X), X ~ chi-square(df) with df the sigma-hat df (the sampling distribution of
+// sigma-hat^2 / sigma^2 for Gaussian errors, inverted), so a Gaussian path's steps are Student-t
+// with df degrees of freedom, as the analytic intervals are, and short histories give wider paths.
+// The chi-square draw is a gamma(df/2, 2) draw by Marsaglia & Tsang (2000).
 import type { Fit } from './types.js';
 import { createRandom, type Random } from './random.js';
 
@@ -29,6 +34,8 @@ export interface SimSpec {
   gap: number;
   slope: number;
   paramScale: number;
+  /** sigma-hat df for the per-path scale draw (see the file comment); 0 or absent = sigma held fixed. */
+  df?: number;
   season: number;
   /** seasonal naive: source value and number of shocks for steps 1..m. */
   base: Float64Array;
@@ -71,6 +78,7 @@ function specOf(fit: Fit): SimSpec {
         : fit.method === 'drift'
           ? 1 / Math.sqrt(co.span ?? fit.residualCount)
           : 0,
+    df: fit.sigmaDf,
     season: m,
     base: new Float64Array(0),
     shocks: new Int32Array(0),
@@ -135,12 +143,18 @@ export function simulateInto(
   const ratio = len / 4294967296;
   const { method, gap, paramScale } = spec;
   const m = spec.season;
+  const df = spec.df !== undefined && spec.df > 0 && Number.isFinite(spec.df) ? spec.df : 0;
   for (let p = 0; p < P; p++) {
     const row = p * H;
+    const f = df > 0 ? Math.sqrt(df / chiSquareDraw(rnd, df)) : 1;
     if (boot) {
       rnd.fill(u);
-      for (let k = 0; k < per; k++) sh[k] = (pool[Math.floor(u[k]! * ratio)]! - shift) * scale;
-    } else for (let k = 0; k < per; k++) sh[k] = sigma * rnd.normal();
+      const sc = scale * f;
+      for (let k = 0; k < per; k++) sh[k] = (pool[Math.floor(u[k]! * ratio)]! - shift) * sc;
+    } else {
+      const sd = sigma * f;
+      for (let k = 0; k < per; k++) sh[k] = sd * rnd.normal();
+    }
     let j = 0;
     if (method === 'mean') {
       const level = spec.level + paramScale * sh[j++]!;
@@ -162,5 +176,31 @@ export function simulateInto(
         } else out[row + h] = out[row + h - m]! + sh[j++]!;
       }
     }
+  }
+}
+
+/**
+ * A chi-square draw with k > 0 degrees of freedom: 2 x gamma(k/2), the gamma draw by Marsaglia &
+ * Tsang (2000), "A simple method for generating gamma variables", with the boost
+ * gamma(a) = gamma(a + 1) U^(1/a) for shape a < 1.
+ */
+export function chiSquareDraw(rnd: Random, k: number): number {
+  let a = k / 2;
+  let boost = 1;
+  if (a < 1) {
+    boost = Math.pow(1 - rnd.uniform(), 1 / a);
+    a += 1;
+  }
+  const d = a - 1 / 3;
+  const c = 1 / Math.sqrt(9 * d);
+  for (;;) {
+    const x = rnd.normal();
+    const t = 1 + c * x;
+    if (t <= 0) continue;
+    const v = t * t * t;
+    const u = 1 - rnd.uniform(); // in (0, 1]
+    const x2 = x * x;
+    if (u < 1 - 0.0331 * x2 * x2 || Math.log(u) < 0.5 * x2 + d * (1 - v + Math.log(v)))
+      return 2 * d * v * boost;
   }
 }

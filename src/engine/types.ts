@@ -72,6 +72,11 @@ export interface Forecast {
   nPaths: number;
   /** Per-step sorted errors used by the empirical kind (for tail probabilities). */
   empiricalErrors: Float64Array[] | null;
+  /**
+   * Per step, the independent observations behind a bootstrap or empirical sample (residuals
+   * resampled; errors / step): where the sample's body ends and the Student-t tail begins (forecast.ts).
+   */
+  sampleBase: number[] | null;
   notes: string[];
 }
 
@@ -124,7 +129,9 @@ export interface TestResult {
   statistic: number;
   df: number | null;
   pValue: number;
-  /** True when the test does not reject at 5%. */
+  /** Holm-adjusted p over the series' family of residual checks (checks.ts); NaN when not computed. */
+  adjustedP: number;
+  /** True when the test is not flagged: Holm-adjusted p at or above 5% (or not computed). */
   ok: boolean;
   /** Plain language: what was found and what it means for the intervals. */
   finding: string;
@@ -138,6 +145,10 @@ export interface ResidualChecks {
   bias: TestResult & { mean: number; zeroByConstruction: boolean };
   normality: TestResult & { skewness: number; kurtosis: number };
   spread: TestResult;
+  /** Number of tests in the Holm family (those computed). */
+  family: number;
+  /** True when any check is flagged: a caveat about the model's intervals, not a reason for attention. */
+  caveat: boolean;
 }
 
 export interface EngineOptions {

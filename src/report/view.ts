@@ -193,16 +193,17 @@ export function failedChecks(s: SeriesResult): string[] {
     .map((k) => CHECK_NAMES[k]);
 }
 
-/** Alarms, limits at risk, errors, and residual checks that failed: what a reviewer should look at. */
+/**
+ * Alarms, limits at risk and errors: what a reviewer should look at. A flagged residual check is a
+ * caveat about the model, shown with the series, not a reason for attention.
+ */
 export function needsAttention(s: SeriesResult): boolean {
-  return (
-    s.verdict === 'alarm' || s.verdict === 'at-risk' || s.verdict === 'error' || failedChecks(s).length > 0
-  );
+  return s.verdict === 'alarm' || s.verdict === 'at-risk' || s.verdict === 'error';
 }
 
 const RANK: Record<Verdict, number> = { alarm: 0, 'at-risk': 1, error: 2, ok: 3, 'insufficient-data': 4 };
 
-/** Series in report order: attention items first (alarms, then limits at risk, errors, failed checks). */
+/** Series in report order: attention items first (alarms, then limits at risk, errors). */
 export function reportOrder(results: Results): SeriesResult[] {
   const indexed = results.series.map((s, i) => ({ s, i, att: needsAttention(s) }));
   indexed.sort((a, b) => {
@@ -246,7 +247,7 @@ function attentionRow(s: SeriesResult, section: number): AttentionRow {
   const failed = failedChecks(s);
   const why: string[] = [];
   if (s.reason) why.push(md(s.reason));
-  if (failed.length > 0) why.push(`residual checks flagged: ${failed.join(', ').toLowerCase()}`);
+  if (failed.length > 0) why.push(`model caveat: ${failed.join(', ').toLowerCase()} flagged`);
   const last = s.checked.at(-1);
   const alarmObs = s.checked.find((c) => c.alarm) ?? last;
   const lastValue = [...s.history].reverse().find((h) => h.value !== null);
@@ -455,7 +456,7 @@ function seriesView(s: SeriesResult, section: number, chart: ChartView | null): 
       : null,
     checks: checkRows(s),
     checksNote: s.residualChecks
-      ? `On the residuals of the chosen method, each at the 5% level. A flagged check means the intervals may be less trustworthy than stated.`
+      ? `On the residuals of the chosen method${s.residualChecks.basis === 'before-checked' ? ' fitted to the history before the checked rows' : ''}, judged together (Holm-adjusted, at most a 5% chance of any flag on a clean series). A flagged check is a caveat about the model: its intervals may be less trustworthy than stated.`
       : null,
     calibration: calibrationRows(s),
     calibrationNote: bt

@@ -173,11 +173,14 @@ describe('empirical intervals', () => {
     expect(out.kind).toBe('empirical');
     const sorted = Float64Array.from(mb.errors[1]!).sort();
     const n = sorted.length;
+    // Hyndman & Fan (1996) definition 6: position p (n + 1) among the 1-based order statistics.
     const q = (p: number) => {
-      const pos = (n - 1) * p;
+      const pos = p * (n + 1);
       const j = Math.floor(pos);
-      return sorted[j]! + (pos - j) * ((sorted[j + 1] ?? sorted[j]!) - sorted[j]!);
+      return sorted[j - 1]! + (pos - j) * (sorted[j]! - sorted[j - 1]!);
     };
+    // 80% lies within the sample's body (u = max(0.8, 1 - 5 / (n / 2)) for step 2), so both bounds
+    // are the sample's own quantiles.
     expect(out.bands[0]!.lower[1]).toBeCloseTo(out.mean[1]! + q(0.1), 12);
     expect(out.bands[0]!.upper[1]).toBeCloseTo(out.mean[1]! + q(0.9), 12);
   });
@@ -213,13 +216,43 @@ describe('tail probabilities and predictive quantiles', () => {
     expect(tailProbability(out, 3, v, 'both').p).toBeCloseTo(2 * p, 12);
     expect(quantileAt(out, 3, 0.975)).toBeCloseTo(out.bands[0]!.upper[2]!, 10);
   });
-  it('count paths for bootstrap forecasts, never reaching 0', () => {
+  it('count paths for bootstrap forecasts in the body and use a scaled Student-t tail beyond it', () => {
     const out = makeForecast(f, { horizon: 4, levels: [95], kind: 'bootstrap', paths: 999, seed: 2 });
-    const col = Array.from({ length: 999 }, (_, i) => out.paths![i * 4 + 1]!);
+    const col = Array.from({ length: 999 }, (_, i) => out.paths![i * 4 + 1]!).sort((a, b) => a - b);
     const v = quantileAt(out, 2, 0.9);
     const above = col.filter((x) => x >= v).length;
-    expect(tailProbability(out, 2, v, 'above').p).toBeCloseTo((1 + above) / 1000, 12);
-    expect(tailProbability(out, 2, 1e12, 'above').p).toBeCloseTo(1 / 1000, 12);
+    const body = tailProbability(out, 2, v, 'above');
+    expect(body.basis).toBe('sample');
+    expect(body.p).toBeCloseTo(above / 999, 12);
+    // Beyond u = max(0.8, min(1 - 5/n, 1 - 10/999)) the tail is t(df) scaled to meet the sample at u:
+    // written out here with @stdlib's t CDF on the definition-6 quantiles of the paths.
+    const n = f.residualCount;
+    const u = Math.max(0.8, Math.min(1 - 5 / n, 1 - 10 / 999));
+    const q6 = (p: number) => {
+      const pos = p * 1000;
+      const j = Math.floor(pos);
+      return col[j - 1]! + (pos - j) * (col[j]! - col[j - 1]!);
+    };
+    const c = q6(0.5);
+    const far = c + 10 * (q6(u) - c);
+    const qu = quantileAt(out, 2, u);
+    expect(qu).toBeCloseTo(q6(u), 10);
+    const tail = tailProbability(out, 2, far, 'above');
+    expect(tail.basis).toBe('tail-model');
+    expect(tail.bound).toBeNull();
+    const tq = (qu - c) / (q6(u) - c); // 1
+    expect(tq).toBeCloseTo(1, 12);
+    // t quantile at u from the t CDF by bisection (independent of the engine's quantile function).
+    let lo = 0;
+    let hi = 50;
+    for (let i = 0; i < 200; i++) {
+      const mid = (lo + hi) / 2;
+      if (stdTCdf(mid, f.sigmaDf) < u) lo = mid;
+      else hi = mid;
+    }
+    expect(tail.p).toBeCloseTo(1 - stdTCdf(10 * lo, f.sigmaDf), 9);
+    // Far beyond every path the p-value keeps falling (no floor at 1/1000).
+    expect(tailProbability(out, 2, 1e12, 'above').p).toBeLessThan(1e-9);
     expect(quantileAt(out, 2, 0.975)).toBeCloseTo(out.bands[0]!.upper[1]!, 12);
     expect(quantileAt(out, 2, 0.025)).toBeCloseTo(out.bands[0]!.lower[1]!, 12);
   });
@@ -238,7 +271,7 @@ describe('residual findings', () => {
     const c = runResidualTests(fit('mean', y));
     expect(c.ljungBox.ok).toBe(false);
     expect(c.ljungBox.lags).toBe(defaultLags(300, 1));
-    expect(c.ljungBox.df).toBe(defaultLags(300, 1) - 1);
+    expect(c.ljungBox.df).toBe(defaultLags(300, 1)); // df = L for every baseline (DESIGN.md)
     expect(c.ljungBox.finding).toMatch(/autocorrelated.*intervals are likely too narrow/);
   });
   it('reports bias as zero by construction for mean and drift, and finds the bias of naive on a trend', () => {
@@ -250,17 +283,16 @@ describe('residual findings', () => {
     expect(naive.ok).toBe(false);
     expect(naive.finding).toMatch(/forecasts run low.*drift method/);
   });
-  it('finds growing spread with the Goldfeld–Quandt F test, two-sided', () => {
+  it('finds growing and shrinking spread with the Brown–Forsythe test', () => {
     const r = createRandom(6);
     const y = Float64Array.from({ length: 300 }, (_, i) => (1 + i / 30) * r.normal());
     const c = runResidualTests(fit('mean', y));
-    expect(c.spread.name).toBe('Goldfeld–Quandt F');
+    expect(c.spread.name).toBe('Brown–Forsythe');
     expect(c.spread.ok).toBe(false);
-    expect(c.spread.statistic).toBeGreaterThan(1);
-    expect(c.spread.finding).toMatch(/grows over time.*too narrow/);
+    expect(c.spread.finding).toMatch(/grows over time.*too narrow.*caveat about the model/);
     const shrinking = runResidualTests(fit('mean', y.slice().reverse())).spread;
     expect(shrinking.ok).toBe(false);
-    expect(shrinking.statistic).toBeLessThan(1);
+    expect(shrinking.finding).toMatch(/shrinks over time.*too wide/);
   });
   it('does not compute the tests on a constant series and says why, without NaN bounds', () => {
     const c = runResidualTests(fit('naive', new Array(30).fill(7)));

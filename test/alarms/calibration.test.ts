@@ -1,0 +1,57 @@
+// A small fixed-seed run of the calibration benchmark (scripts/calibrate.ts) through the real job.
+// The full benchmark is `npm run calibrate`; these tolerances are wide (a few binomial sds at these
+// sizes) so they hold for any honest engine, and fail for the defects the benchmark exists to catch
+// (a p-value floor that blocks Bonferroni, alarm rates twice nominal).
+import { describe, expect, it } from 'vitest';
+import { binomialBand, binomialCdf, runCalibration } from '../../scripts/calibrate.js';
+
+describe('calibration benchmark, small', () => {
+  it('binomial CDF and band against the binomial pmf summed in the test', () => {
+    // Values from the binomial pmf written out: P(X <= k) = sum_{i<=k} C(100, i) 0.05^i 0.95^(100-i).
+    const pmf = (i: number) => {
+      let c = 1;
+      for (let j = 0; j < i; j++) c = (c * (100 - j)) / (j + 1);
+      return c * 0.05 ** i * 0.95 ** (100 - i);
+    };
+    let s = 0;
+    for (let i = 0; i <= 9; i++) {
+      s += pmf(i);
+      expect(binomialCdf(i, 100, 0.05)).toBeCloseTo(s, 7); // jstat's incomplete beta: about 1e-9
+    }
+    expect(binomialBand(100, 0.05)).toEqual([0.01, 0.1]);
+  });
+
+  it('alarm rates near 5% at steps 1 and 14 for every kind, short and long histories', async () => {
+    const rows = await runCalibration({
+      series: 80,
+      fleets: 1,
+      seed: 3,
+      sections: ['level'],
+      generators: ['mean', 'naive'],
+      kinds: ['analytic', 'bootstrap', 'empirical'],
+      paths: 300,
+    });
+    expect(rows.length).toBe(2 * 2 * 3 * 2);
+    for (const r of rows) expect(r.rate).toBeLessThan(0.16); // 80 draws at 5%: P(>= 13) < 1e-3
+    const pooled = rows.reduce((a, r) => a + r.count, 0) / rows.reduce((a, r) => a + r.n, 0);
+    expect(pooled).toBeGreaterThan(0.025);
+    expect(pooled).toBeLessThan(0.08);
+  }, 120_000);
+
+  it('Bonferroni finds 5-sigma shifts with bootstrap and empirical intervals, without false alarms', async () => {
+    const rows = await runCalibration({
+      series: 40,
+      fleets: 1,
+      seed: 5,
+      sections: ['control'],
+      kinds: ['bootstrap', 'empirical'],
+      lengths: [200],
+      paths: 300,
+    });
+    const power = rows.filter((r) => r.label.startsWith('Bonferroni power'));
+    expect(power.length).toBe(2);
+    for (const r of power) expect(r.rate).toBeGreaterThan(0.4); // was 0 with count-based p-values
+    const fdr = rows.filter((r) => r.label.startsWith('BH realised FDR'));
+    for (const r of fdr) expect(r.rate).toBeLessThan(0.3);
+  }, 120_000);
+});
