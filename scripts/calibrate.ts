@@ -372,7 +372,7 @@ async function limitSection(o: CalibrationOptions, dir: string, rows: Row[]): Pr
             extra: `    limit:\n      above: ${LIMIT}\n      within: ${W}\n      risk: 0.05`,
           },
         ],
-        { intervals: kind, paths: o.paths ?? 1000, horizon: W, 'check.last': 1 },
+        { intervals: kind, paths: o.paths ?? 1000, horizon: W, check: '{ last: 1 }' },
       );
       const sum = new Float64Array(bins.length - 1);
       const cnt = new Int32Array(bins.length - 1);

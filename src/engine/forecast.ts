@@ -16,9 +16,11 @@
 // - beyond u (and below 1 - u) a Student-t tail with nu = the sigma-hat df, centred on the sample
 //   median c and scaled on each side so it meets the sample at u: Q(P) = c + (Q(u) - c) q_nu(P) /
 //   q_nu(u), and P(Y >= x) = 1 - F_nu(q_nu(u) (x - c) / (Q(u) - c)).
-//   u = max(0.8, min(1 - 5 / b, 1 - 10 / n)), b the independent observations behind the sample (the
-//   residuals a bootstrap resamples; the errors / h for h-step errors, whose origins overlap), n the
-//   sample size: the sample speaks only where at least 5 of its independent observations lie beyond.
+//   u = max(0.8, 1 - 5 / min(b, n)), n the sample size and b the independent observations behind it:
+//   the residuals a bootstrap resamples; for empirical h-step errors n / k, k the shocks neighbouring
+//   errors share (h for naive and drift, whose windows overlap; ceil(h / m) for seasonal naive; 1 for
+//   the mean, whose errors share none). The sample speaks only where at least 5 of its independent
+//   observations lie beyond.
 // So p-values keep their meaning far beyond the sample (run-wide control can work: a count over
 // 1,000 paths could never go below 1/1,001), and a short history (T = 30) or long step (h = 14)
 // leans on the Student-t shape with its small-sample df instead of a few extreme order statistics.
@@ -198,9 +200,7 @@ export function makeForecast(fit: Fit, o: ForecastOptions): Forecast {
   const nu = df > 0 ? df : Infinity;
   const base: number[] = [];
   for (let h = 1; h <= H; h++)
-    base.push(
-      paths ? fit.residualCount : empiricalErrors?.[h - 1]?.length ? empiricalErrors[h - 1]!.length / h : 0,
-    );
+    base.push(paths ? fit.residualCount : (empiricalErrors?.[h - 1]?.length ?? 0) / sharedShocks(fit, h));
   // Bootstrap: each step's median, body edges and band quantiles by selection (a full sort of a step
   // is left until a tail probability asks for it).
   const work = paths ? new Float64Array(nPaths) : null;
@@ -247,9 +247,16 @@ export function makeForecast(fit: Fit, o: ForecastOptions): Forecast {
   };
 }
 
+/** Shocks that neighbouring h-step errors of a method share (see the file comment). */
+function sharedShocks(fit: Fit, h: number): number {
+  if (fit.method === 'mean') return 1;
+  if (fit.method === 'seasonal-naive') return Math.ceil(h / Math.max(1, fit.season));
+  return h;
+}
+
 /** Where the sample's body ends (see the file comment): u for `base` independent observations, n draws. */
 export function tailStart(base: number, n: number): number {
-  return Math.max(0.8, Math.min(1 - 5 / base, 1 - 10 / n));
+  return Math.max(0.8, 1 - 5 / Math.min(base, n));
 }
 
 /** Definition-7 probability whose quantile is the definition-6 quantile at p (clamped to the sample). */

@@ -224,10 +224,10 @@ describe('tail probabilities and predictive quantiles', () => {
     const body = tailProbability(out, 2, v, 'above');
     expect(body.basis).toBe('sample');
     expect(body.p).toBeCloseTo(above / 999, 12);
-    // Beyond u = max(0.8, min(1 - 5/n, 1 - 10/999)) the tail is t(df) scaled to meet the sample at u:
+    // Beyond u = max(0.8, 1 - 5/min(n, 999)) the tail is t(df) scaled to meet the sample at u:
     // written out here with @stdlib's t CDF on the definition-6 quantiles of the paths.
     const n = f.residualCount;
-    const u = Math.max(0.8, Math.min(1 - 5 / n, 1 - 10 / 999));
+    const u = Math.max(0.8, 1 - 5 / Math.min(n, 999));
     const q6 = (p: number) => {
       const pos = p * 1000;
       const j = Math.floor(pos);
