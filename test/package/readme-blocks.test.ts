@@ -6,6 +6,7 @@ import { readFileSync } from 'node:fs';
 import { Ajv2020 } from 'ajv/dist/2020.js';
 import { describe, expect, it } from 'vitest';
 import { parseAllDocuments, parse as parseYaml } from 'yaml';
+import { parseCli } from '../../src/cli/args.js';
 import { codeBlocks, type CodeBlock } from './readme.js';
 
 const yamlBlocks = codeBlocks().filter((b) => b.lang === 'yaml' || b.lang === 'yml');
@@ -69,6 +70,22 @@ describe("the README's set-up commands", () => {
   it('.ci/run runs the test command exactly as the README gives it', () => {
     const ci = readFileSync(new URL('../../.ci/run', import.meta.url), 'utf8');
     expect(ci.split('\n')).toContain(setup[1]);
+  });
+});
+
+describe("the README's command lines", () => {
+  const commands = codeBlocks()
+    .filter((b) => b.lang === 'sh')
+    .flatMap((b) => b.code.split('\n').map((l) => [where(b), l.trim()] as const))
+    .filter(([, l]) => /^(leadline|node dist\/cli\.js) /.test(l));
+
+  it('there are some', () => {
+    expect(commands.length).toBeGreaterThan(2);
+  });
+
+  it.each(commands)("%s: `%s` is read by the command's own parser", (_, line) => {
+    const argv = line.replace(/^(leadline|node dist\/cli\.js) /, '').split(/\s+/);
+    expect(() => parseCli(argv, {}, '/repo', false)).not.toThrow();
   });
 });
 
