@@ -9,7 +9,7 @@ import { isDynamicPattern } from 'tinyglobby';
 import { loadPlan } from './config/index.js';
 import { LeadlineError } from './errors.js';
 import { visible } from './untrusted.js';
-import type { Results } from './results.js';
+import type { Results, SeriesResult } from './results.js';
 
 /** Resolves a path and follows symlinks as far as they exist (the file itself may not exist yet). */
 function canonical(p: string): string {
@@ -174,7 +174,7 @@ function installInterruptCleanup(): void {
  */
 export async function writeOutput(
   target: string,
-  text: string | Iterable<string>,
+  text: string | Iterable<string> | AsyncIterable<string>,
   guard: InputGuard,
   label: string,
 ): Promise<string> {
@@ -190,7 +190,7 @@ export async function writeOutput(
     else {
       const handle = await open(tmp, 'w');
       try {
-        for (const piece of text) await handle.write(piece);
+        for await (const piece of text) await handle.write(piece);
       } finally {
         await handle.close();
       }
@@ -214,12 +214,36 @@ export function filesRead(results: Results | null): string[] {
  * The results JSON, in pieces: the run's fields pretty-printed, then one series per line inside the
  * `series` array. Parses to exactly the same value as JSON.stringify(results). Built piece by piece
  * so that a fleet of thousands of series never needs one giant string (V8 caps a string at about
- * 512 MiB), and a diff of two runs stays readable line by line.
+ * 512 MiB), and a diff of two runs stays readable line by line. `leadline merge` reads this layout
+ * line by line (src/merge.ts).
  */
 export function* resultsJson(results: Results): Generator<string> {
   const { series, ...head } = results;
+  yield resultsJsonHead(head);
+  for (let i = 0; i < series.length; i++) yield resultsJsonSeries(series[i]!, i);
+  yield resultsJsonEnd(series.length);
+}
+
+/** The same text as resultsJson, with the series coming from a stream (a merge writes them as it reads). */
+export async function* resultsJsonStream(
+  head: Omit<Results, 'series'>,
+  series: AsyncIterable<SeriesResult>,
+): AsyncGenerator<string> {
+  yield resultsJsonHead(head);
+  let i = 0;
+  for await (const s of series) yield resultsJsonSeries(s, i++);
+  yield resultsJsonEnd(i);
+}
+
+function resultsJsonHead(head: Omit<Results, 'series'>): string {
   const start = JSON.stringify(head, null, 2);
-  yield start.slice(0, start.length - 2) + ',\n  "series": [';
-  for (let i = 0; i < series.length; i++) yield (i === 0 ? '\n    ' : ',\n    ') + JSON.stringify(series[i]);
-  yield series.length > 0 ? '\n  ]\n}\n' : ']\n}\n';
+  return start.slice(0, start.length - 2) + ',\n  "series": [';
+}
+
+function resultsJsonSeries(s: SeriesResult, i: number): string {
+  return (i === 0 ? '\n    ' : ',\n    ') + JSON.stringify(s);
+}
+
+function resultsJsonEnd(count: number): string {
+  return count > 0 ? '\n  ]\n}\n' : ']\n}\n';
 }

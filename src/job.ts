@@ -1,6 +1,9 @@
 // The one pipeline both entries call: config + files -> Results.
 // Reading the config and the CSVs happens here (through src/config and src/ingest); everything
 // after ingestion is pure and goes through buildResults, which tests call directly.
+import { createHash } from 'node:crypto';
+import { readFile } from 'node:fs/promises';
+import path from 'node:path';
 import { backtestFor, durationToSteps, loadPlan } from './config/index.js';
 import type { MetricPlan, Plan } from './config/types.js';
 import {
@@ -14,6 +17,8 @@ import { autoSeason, ingest, type IngestOutcome } from './ingest/index.js';
 import type { Series } from './ingest/types.js';
 import { adjustAlarms, assessLimit, checkObservations, checkedIndices, sideAlpha } from './alarms/index.js';
 import type {
+  Origin,
+  FalseAlarmControl,
   BacktestSummary,
   CheckedObservation,
   FailOn,
@@ -29,6 +34,7 @@ import type {
 } from './results.js';
 import { RESULTS_SCHEMA_ID } from './results.js';
 
+import { shardOf, type Shard } from './shard.js';
 import { timeAfterLast, timeAtIndex } from './time.js';
 import { VERSION } from './version.js';
 
@@ -49,6 +55,12 @@ export interface JobOptions {
   onProgress?: (done: number, total: number) => void;
   /** Fixed clock for reproducible output. */
   now?: Date;
+  /** Judge only this shard's series (see src/shard.ts); the results then record their places in the run. */
+  shard?: Shard | null;
+  /** The commit the files were read at, when known. */
+  commit?: string | null;
+  /** The workflow event, when run by the Action. */
+  event?: Origin['event'];
 }
 
 const SPACING_WORD: Record<Series['spacing'], string> = {
@@ -67,27 +79,51 @@ export const HISTORY_CAP = 240;
 
 export async function runJob(o: JobOptions): Promise<Results> {
   const plan = await loadPlan(o.configPath, o.cwd);
+  const configHash = await fileHash(path.resolve(o.cwd, o.configPath));
   const outcome = await ingest(plan, o.cwd);
-  return buildResults(plan, outcome, o);
+  return buildResults(plan, outcome, { ...o, configHash });
 }
 
-type BuildOptions = Pick<JobOptions, 'failOn' | 'newRows' | 'baseNote' | 'onProgress' | 'now'>;
+/** "sha256:<hex>" of a file's bytes, or null when it cannot be read. */
+async function fileHash(file: string): Promise<string | null> {
+  try {
+    return `sha256:${createHash('sha256')
+      .update(await readFile(file))
+      .digest('hex')}`;
+  } catch {
+    return null;
+  }
+}
+
+type BuildOptions = Pick<
+  JobOptions,
+  'failOn' | 'newRows' | 'baseNote' | 'onProgress' | 'now' | 'shard' | 'commit' | 'event'
+> & { configHash?: string | null };
 
 /** Pure: the plan and what ingestion produced -> Results. */
 export function buildResults(plan: Plan, outcome: IngestOutcome, o: BuildOptions): Results {
   const results: SeriesResult[] = [];
   const problems: Problem[] = [];
-  const total = outcome.series.length;
   const byName = new Map(plan.metrics.map((m) => [m.name, m]));
+  // Every series of the run in the run's order (analysed ones, then the ones that could not be read);
+  // a shard keeps its own, remembering each one's place so a merge restores the order.
+  const shard = o.shard && o.shard.count > 1 ? o.shard : null;
+  const failureNames = outcome.failures.map((f) => seriesName(f.metric, f.column, f.key));
+  const whole = outcome.series.length + outcome.failures.length;
+  const mine = (name: string) => !shard || shardOf(name, shard.count) === shard.index;
+  const placed = (r: SeriesResult, position: number) => (shard ? { ...r, position } : r);
+  const todo = outcome.series.map((s, i) => ({ s, i })).filter(({ s }) => mine(s.name));
+  const total = todo.length;
 
-  outcome.series.forEach((s, i) => {
+  todo.forEach(({ s, i }, done) => {
     const metric = byName.get(s.metric);
     if (!metric) throw new Error(`internal: series ${s.name} has no metric in the plan`);
-    results.push(analyseOne(s, metric, o));
-    o.onProgress?.(i + 1, total);
+    results.push(placed(analyseOne(s, metric, o), i));
+    o.onProgress?.(done + 1, total);
   });
 
-  for (const f of outcome.failures) {
+  for (const [j, f] of outcome.failures.entries()) {
+    if (!mine(failureNames[j]!)) continue;
     const e = f.error;
     // Too little data is a verdict of its own, not a problem to fix; the rest are config/data errors.
     if (f.verdict === 'error')
@@ -99,38 +135,30 @@ export function buildResults(plan: Plan, outcome: IngestOutcome, o: BuildOptions
         column: e.column,
         keyPath: e.keyPath,
         metric: f.metric.name,
+        ...(shard ? { position: outcome.series.length + j } : {}),
       });
-    results.push(failedSeries(f.metric, f.column, f.key, f.verdict, e.describe()));
+    results.push(
+      placed(failedSeries(f.metric, f.column, f.key, f.verdict, e.describe()), outcome.series.length + j),
+    );
   }
 
-  // Run-wide false-alarm control across every checked observation.
-  const everyChecked: { obs: CheckedObservation; alpha: number; direction: SeriesResult['direction'] }[] = [];
-  for (const r of results) {
-    const alpha = sideAlpha(r.alarmLevel, r.direction);
-    for (const obs of r.checked) everyChecked.push({ obs, alpha, direction: r.direction });
-  }
-  adjustAlarms(everyChecked, plan.falseAlarms);
-  for (const r of results) settleVerdict(r);
-
-  const summary = {
+  const { verdict, gate, summary } = concludeRun(results, {
     metrics: plan.metrics.length,
-    series: results.length,
-    alarms: everyChecked.filter((c) => c.obs.alarm).length,
-    atRisk: results.filter((r) => r.limit?.atRisk).length,
-    insufficient: results.filter((r) => r.verdict === 'insufficient-data').length,
-    errors: results.filter((r) => r.verdict === 'error').length,
-    checkedObservations: everyChecked.length,
-    expectedFalseAlarms: everyChecked.reduce((acc, c) => acc + c.alpha, 0),
     falseAlarms: plan.falseAlarms,
-  };
-  const verdict = runVerdict(results);
-  const gate = decideGate(o.failOn, summary);
+    failOn: o.failOn,
+  });
   const out: Results = {
     $schema: RESULTS_SCHEMA_ID,
     version: 1,
     generator: { name: 'leadline', version: VERSION },
     generatedAt: (o.now ?? new Date()).toISOString(),
     config: plan.configPath,
+    origin: {
+      configHash: o.configHash ?? null,
+      commit: o.commit ?? null,
+      shard: shard ? { ...shard, series: whole } : null,
+      event: o.event ?? null,
+    },
     verdict,
     gate,
     summary,
@@ -139,6 +167,40 @@ export function buildResults(plan: Plan, outcome: IngestOutcome, o: BuildOptions
   };
   if (o.baseNote) out.notes = [o.baseNote];
   return out;
+}
+
+/**
+ * What a run concludes once every series is analysed, the same for a single run and for a merge of
+ * shards: run-wide false-alarm control over every checked observation of every series (so the
+ * adjusted p-values and alarms are those of the whole run), then each series' verdict, the summary,
+ * the run's verdict and the gate. Sets `adjustedP` and `alarm` of the checked observations and each
+ * series' `verdict` and `reason` in place; a merge passes series without their charts and tables,
+ * which none of this reads.
+ */
+export function concludeRun(
+  series: SeriesResult[],
+  o: { metrics: number; falseAlarms: FalseAlarmControl; failOn: FailOn },
+): Pick<Results, 'verdict' | 'gate' | 'summary'> {
+  const everyChecked: { obs: CheckedObservation; alpha: number; direction: SeriesResult['direction'] }[] = [];
+  for (const r of series) {
+    const alpha = sideAlpha(r.alarmLevel, r.direction);
+    for (const obs of r.checked) everyChecked.push({ obs, alpha, direction: r.direction });
+  }
+  adjustAlarms(everyChecked, o.falseAlarms);
+  for (const r of series) settleVerdict(r);
+
+  const summary = {
+    metrics: o.metrics,
+    series: series.length,
+    alarms: everyChecked.filter((c) => c.obs.alarm).length,
+    atRisk: series.filter((r) => r.limit?.atRisk).length,
+    insufficient: series.filter((r) => r.verdict === 'insufficient-data').length,
+    errors: series.filter((r) => r.verdict === 'error').length,
+    checkedObservations: everyChecked.length,
+    expectedFalseAlarms: everyChecked.reduce((acc, c) => acc + c.alpha, 0),
+    falseAlarms: o.falseAlarms,
+  };
+  return { verdict: runVerdict(series), gate: decideGate(o.failOn, summary), summary };
 }
 
 function analyseOne(s: Series, m: MetricPlan, o: BuildOptions): SeriesResult {
@@ -307,13 +369,8 @@ function failedSeries(
   verdict: Verdict,
   reason: string,
 ): SeriesResult {
-  const name = [
-    m.name,
-    column && m.values.length > 1 ? `/${column}` : '',
-    key !== null ? `[${key}]` : '',
-  ].join('');
   return blankResult(m, {
-    name,
+    name: seriesName(m, column, key),
     file: m.file,
     column: column ?? m.values.join(', '),
     key,
@@ -322,6 +379,11 @@ function failedSeries(
     verdict,
     reason,
   });
+}
+
+/** The display name of a series that could not be read (ingest names the ones it reads the same way). */
+function seriesName(m: MetricPlan, column: string | null, key: string | null): string {
+  return [m.name, column && m.values.length > 1 ? `/${column}` : '', key !== null ? `[${key}]` : ''].join('');
 }
 
 /** A series result with nothing analysed yet: the metric's settings, the given fields, empty findings. */

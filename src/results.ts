@@ -216,6 +216,8 @@ export const seriesResultSchema = z.strictObject({
   /** One line saying why the verdict is what it is. */
   reason: text(),
   notes,
+  /** Only in a shard's file: the series' place (0-based) in the whole run's order, which merge restores. */
+  position: count.optional(),
 });
 
 export const problemSchema = z.strictObject({
@@ -226,6 +228,8 @@ export const problemSchema = z.strictObject({
   column: count.nullable(),
   keyPath: text().nullable(),
   metric: text().nullable(),
+  /** Only in a shard's file: the place of the problem's series in the whole run, as for series. */
+  position: count.optional(),
 });
 
 export const summarySchema = z.strictObject({
@@ -241,6 +245,32 @@ export const summarySchema = z.strictObject({
   falseAlarms: falseAlarmSchema,
 });
 
+const commit = z.string().regex(/^[0-9a-f]{7,64}$/i);
+
+/** What a merge checks: which config, commit, shard and event a results file comes from. */
+export const originSchema = z.strictObject({
+  /** "sha256:" and the hex SHA-256 of the config file's bytes. */
+  configHash: z
+    .string()
+    .regex(/^sha256:[0-9a-f]{64}$/)
+    .nullable(),
+  /** The commit the metric files were read at (GITHUB_SHA in the Action, HEAD locally), when known. */
+  commit: commit.nullable(),
+  /** Shard `index` of `count` (1-based), and how many series the whole run has; null when not split. */
+  shard: z
+    .strictObject({ index: z.number().int().min(1), count: z.number().int().min(1), series: count })
+    .nullable(),
+  /** The workflow event, with its pull request's number and base and head commits when it has one. */
+  event: z
+    .strictObject({
+      name: text(64),
+      pullRequest: z.number().int().min(1).nullable(),
+      base: commit.nullable(),
+      head: commit.nullable(),
+    })
+    .nullable(),
+});
+
 /** Everything in a results file but its series: what `leadline merge` checks before reading them. */
 export const resultsHeadSchema = z.strictObject({
   $schema: z.literal(RESULTS_SCHEMA_ID),
@@ -248,6 +278,7 @@ export const resultsHeadSchema = z.strictObject({
   generator: z.strictObject({ name: z.literal('leadline'), version: text(64) }),
   generatedAt: text(64),
   config: text().nullable(),
+  origin: originSchema,
   verdict: verdictSchema,
   gate: z.strictObject({ failOn: failOnSchema, passed: z.boolean(), reason: text() }),
   summary: summarySchema,
@@ -284,6 +315,7 @@ export type LimitResult = z.output<typeof limitResult>;
 export type HistoryPoint = z.output<typeof historyPoint>;
 export type SeriesResult = z.output<typeof seriesResultSchema>;
 export type Problem = z.output<typeof problemSchema>;
+export type Origin = z.output<typeof originSchema>;
 export type Results = z.output<typeof resultsSchema>;
 
 /** The JSON Schema of a results file (what is in the file: `io: 'input'`, so non-finite numbers are null). */

@@ -212,3 +212,10 @@ export async function isTracked(git: GitRunner, workspace: string, file: string)
   const r = await git.run(['ls-files', '--error-unmatch', '--', file], { cwd: workspace });
   return r.code === 0;
 }
+
+/** The commit checked out in `cwd` (full hex), or null outside a git work tree. */
+export async function headCommit(git: GitRunner, cwd: string): Promise<string | null> {
+  const r = await git.run(['rev-parse', '--verify', '--quiet', 'HEAD^{commit}'], { cwd });
+  const sha = r.stdout.toString('utf8').trim();
+  return r.code === 0 && /^[0-9a-f]{40,64}$/.test(sha) ? sha : null;
+}

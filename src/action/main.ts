@@ -95,6 +95,7 @@ function failedRun(e: unknown, s: Settings): Results {
     generator: { name: 'leadline', version: VERSION },
     generatedAt: new Date().toISOString(),
     config: s.config,
+    origin: { configHash: null, commit: null, shard: null, event: null },
     verdict: 'error',
     gate: {
       failOn: s.failOn,

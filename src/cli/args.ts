@@ -2,11 +2,12 @@
 import { parseArgs } from 'node:util';
 import { LeadlineError } from '../errors.js';
 import type { FailOn } from '../results.js';
+import { parseShard, type Shard } from '../shard.js';
 
 export type PrintMode = 'summary' | 'markdown' | 'json' | 'none';
 
 export interface CliSettings {
-  command: 'run' | 'help' | 'version';
+  command: 'run' | 'merge' | 'help' | 'version';
   /** Config path, relative to cwd. */
   config: string;
   /** Working directory for config and metric files. */
@@ -26,12 +27,17 @@ export interface CliSettings {
   color: boolean;
   /** Progress lines on stderr. */
   progress: boolean;
+  /** `run --shard i/n`: judge only that shard's series. */
+  shard: Shard | null;
+  /** `merge`: the results files to merge, as given. */
+  files: string[];
 }
 
 export const HELP = `leadline — judge metric CSVs against their forecasts and warn before limits are crossed
 
 Usage:
   leadline run [options]
+  leadline merge RESULTS.json... [output and gate options]
   leadline --help | --version
 
 Options for run:
@@ -45,8 +51,16 @@ Options for run:
   --print MODE         what to print on stdout: summary (default), markdown, json, none
   --color / --no-color force colour on or off (default: on for a terminal, off when NO_COLOR is set)
   --quiet              no progress lines on stderr
+  --shard I/N          judge only shard I of N (series split by a hash of their names); needs
+                       --json; the shard publishes nothing and exits 0 once its file is written
   -h, --help           show this help
   -V, --version        show the version
+
+merge reads the results files of every shard of one run (run --shard I/N --json FILE), checks that
+they come from one config and commit and cover every shard once, and concludes the run as a single
+run would: run-wide false-alarm control over every checked observation, verdicts and the gate. It
+takes --json, --markdown, --html, --template, --print, --fail-on, --color and --quiet as run does.
+Given one whole run's results file, it renders and gates it again.
 
 Output files are written whole or not at all (a temporary file renamed into place); the metric
 CSVs and the config are never written. An output path that names an input file is refused.
@@ -108,6 +122,7 @@ export function parseCli(argv: string[], env: NodeJS.ProcessEnv, cwd: string, is
         color: { type: 'boolean' },
         'no-color': { type: 'boolean' },
         quiet: { type: 'boolean' },
+        shard: { type: 'string' },
         help: { type: 'boolean', short: 'h' },
         version: { type: 'boolean', short: 'V' },
       },
@@ -127,6 +142,8 @@ export function parseCli(argv: string[], env: NodeJS.ProcessEnv, cwd: string, is
     print: parsePrint(v.print ?? 'summary'),
     color: v['no-color'] ? false : v.color ? true : isTTY && !env.NO_COLOR,
     progress: !v.quiet,
+    shard: v.shard === undefined ? null : parseShard(v.shard, '--shard'),
+    files: [] as string[],
   };
   if (v.help) return { ...base, command: 'help' };
   if (v.version) return { ...base, command: 'version' };
@@ -134,15 +151,34 @@ export function parseCli(argv: string[], env: NodeJS.ProcessEnv, cwd: string, is
   if (command === undefined)
     throw new LeadlineError(
       'usage',
-      'No command given. Usage: leadline run [options]; see "leadline --help".',
+      'No command given. Usage: leadline run [options], or leadline merge FILE...; see "leadline --help".',
     );
+  if (command === 'merge') {
+    for (const only of ['config', 'cwd', 'shard'] as const)
+      if (v[only] !== undefined)
+        throw new LeadlineError(
+          'usage',
+          `--${only} is for "leadline run"; merge reads only the results files it is given.`,
+        );
+    if (rest.length === 0)
+      throw new LeadlineError(
+        'usage',
+        'merge needs the results files of every shard, e.g. leadline merge shard-*.json --markdown report.md.',
+      );
+    return { ...base, command: 'merge', files: rest };
+  }
   if (command !== 'run')
     throw new LeadlineError(
       'usage',
-      `Unknown command "${command}". The command is "run"; see "leadline --help".`,
+      `Unknown command "${command}". The commands are "run" and "merge"; see "leadline --help".`,
     );
   if (rest.length > 0)
     throw new LeadlineError('usage', `Unexpected argument "${rest[0]}". See "leadline --help".`);
+  if (base.shard && !base.json)
+    throw new LeadlineError(
+      'usage',
+      '--shard needs --json FILE: a shard\'s results file is what "leadline merge" reads.',
+    );
   return { ...base, command: 'run' };
 }
 

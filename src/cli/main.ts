@@ -5,8 +5,19 @@ import { isLeadlineError, LeadlineError } from '../errors.js';
 import { runJob } from '../job.js';
 import { renderHtml, renderMarkdown } from '../report/index.js';
 import type { Results } from '../results.js';
-import { checkOutputs, filesRead, inputGuard, InputGuard, resultsJson, writeOutput } from '../files.js';
+import {
+  checkOutputs,
+  filesRead,
+  inputGuard,
+  InputGuard,
+  resultsJson,
+  resultsJsonStream,
+  writeOutput,
+} from '../files.js';
+import { mergeResults } from '../merge.js';
 import { VERSION } from '../version.js';
+import { headCommit, systemGit } from '../action/git.js';
+import { shardLabel } from '../shard.js';
 import { HELP, parseCli, type CliSettings } from './args.js';
 import { renderSummary } from './summary.js';
 
@@ -33,8 +44,7 @@ export async function main(argv: string[], io: CliIo): Promise<number> {
     io.stdout.write(`leadline ${VERSION}\n`);
     return 0;
   }
-  const cwd = path.resolve(io.cwd, settings.cwd);
-  let results: Results;
+  let out: Outcome;
   try {
     const template = settings.template
       ? await readTemplate(path.resolve(io.cwd, settings.template))
@@ -46,42 +56,99 @@ export async function main(argv: string[], io: CliIo): Promise<number> {
         [settings.html, '--html'],
       ] as const
     ).flatMap(([p, label]) => (p ? [{ path: path.resolve(io.cwd, p), label }] : []));
-    // Before any work: an output naming an input, or two outputs naming one file, is refused.
-    const before = await inputGuard(cwd, settings.config);
-    checkOutputs(outputs, before);
-    let lastShown = 0;
-    const started = Date.now();
-    results = await runJob({
-      cwd,
-      configPath: settings.config,
-      failOn: settings.failOn,
-      onProgress: (done, total) => {
-        // Progress only when there are many series and it has taken a moment; stderr keeps stdout clean.
-        if (!settings.progress || total < 200) return;
-        const now = Date.now();
-        if (done === total || (now - started > 1000 && now - lastShown > 1000)) {
-          lastShown = now;
-          io.stderr.write(`leadline: analysed ${done} of ${total} series\n`);
-        }
-      },
-    });
-    const inputs = new InputGuard(cwd, settings.config, before.patterns, filesRead(results));
-    const markdown = () =>
-      renderMarkdown(results, { ...(template ? { template } : {}), fullReportNote: fullNote(settings) });
+    out =
+      settings.command === 'merge' ? await merge(settings, io, outputs) : await run(settings, io, outputs);
+    const results = out.lean;
+    let full: Results | null = null;
+    const whole = async () => (full ??= await out.full());
+    const markdown = async () =>
+      renderMarkdown(await whole(), {
+        ...(template ? { template } : {}),
+        fullReportNote: fullNote(settings),
+      });
     if (settings.json)
-      await writeOutput(path.resolve(io.cwd, settings.json), resultsJson(results), inputs, '--json');
+      await writeOutput(path.resolve(io.cwd, settings.json), out.json(), out.inputs, '--json');
     if (settings.markdown)
-      await writeOutput(path.resolve(io.cwd, settings.markdown), markdown(), inputs, '--markdown');
+      await writeOutput(path.resolve(io.cwd, settings.markdown), await markdown(), out.inputs, '--markdown');
     if (settings.html)
-      await writeOutput(path.resolve(io.cwd, settings.html), renderHtml(results), inputs, '--html');
+      await writeOutput(path.resolve(io.cwd, settings.html), renderHtml(await whole()), out.inputs, '--html');
+    if (settings.shard && results.origin.shard) {
+      // A shard's verdict covers its part only (false-alarm control is run-wide): it reports and gates nothing.
+      const sh = results.origin.shard;
+      io.stderr.write(
+        `leadline: shard ${shardLabel(sh)} judged ${results.series.length} of ${sh.series} series; results in ${settings.json}. ` +
+          `"leadline merge" of every shard's file gives the run's verdict and gate.\n`,
+      );
+      if (settings.print === 'summary') return 0;
+    }
     if (settings.print === 'summary') io.stdout.write(renderSummary(results, settings.color));
-    else if (settings.print === 'markdown') io.stdout.write(markdown());
-    else if (settings.print === 'json') for (const piece of resultsJson(results)) io.stdout.write(piece);
+    else if (settings.print === 'markdown') io.stdout.write(await markdown());
+    else if (settings.print === 'json') for await (const piece of out.json()) io.stdout.write(piece);
   } catch (e) {
     return fail(e, io);
   }
-  if (results.problems.length > 0) return 2;
-  return results.gate.passed ? 0 : 1;
+  if (settings.shard) return 0;
+  if (out.lean.problems.length > 0) return 2;
+  return out.lean.gate.passed ? 0 : 1;
+}
+
+/** What a command produced: the run's results, and the files it must not write to. */
+interface Outcome {
+  /** Every verdict and count; for a merge the series lack their charts and tables (see src/merge.ts). */
+  lean: Results;
+  /** The whole results, for the report renderers. */
+  full: () => Promise<Results>;
+  /** The results JSON text, in pieces. */
+  json: () => Iterable<string> | AsyncIterable<string>;
+  /** What the outputs must not overwrite. */
+  inputs: InputGuard;
+}
+
+type Outputs = { path: string; label: string }[];
+
+async function run(settings: CliSettings, io: CliIo, outputs: Outputs): Promise<Outcome> {
+  const cwd = path.resolve(io.cwd, settings.cwd);
+  // Before any work: an output naming an input, or two outputs naming one file, is refused.
+  const before = await inputGuard(cwd, settings.config);
+  checkOutputs(outputs, before);
+  let lastShown = 0;
+  const started = Date.now();
+  const results = await runJob({
+    cwd,
+    configPath: settings.config,
+    failOn: settings.failOn,
+    shard: settings.shard,
+    commit: await headCommit(systemGit, cwd),
+    onProgress: (done, total) => {
+      // Progress only when there are many series and it has taken a moment; stderr keeps stdout clean.
+      if (!settings.progress || total < 200) return;
+      const now = Date.now();
+      if (done === total || (now - started > 1000 && now - lastShown > 1000)) {
+        lastShown = now;
+        io.stderr.write(`leadline: analysed ${done} of ${total} series\n`);
+      }
+    },
+  });
+  return {
+    lean: results,
+    full: async () => results,
+    json: () => resultsJson(results),
+    inputs: new InputGuard(cwd, settings.config, before.patterns, filesRead(results)),
+  };
+}
+
+async function merge(settings: CliSettings, io: CliIo, outputs: Outputs): Promise<Outcome> {
+  const files = settings.files.map((f) => path.resolve(io.cwd, f));
+  const inputs = new InputGuard(io.cwd, files[0]!, [], files);
+  checkOutputs(outputs, inputs);
+  const merged = await mergeResults(files, { failOn: settings.failOn });
+  const { series: _series, ...head } = merged.lean;
+  return {
+    lean: merged.lean,
+    full: merged.full,
+    json: () => resultsJsonStream(head, merged.series()),
+    inputs,
+  };
 }
 
 async function readTemplate(file: string): Promise<string> {

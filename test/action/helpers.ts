@@ -74,6 +74,7 @@ export function results(s: SeriesResult[], extra: Partial<Results> = {}): Result
     generator: { name: 'leadline', version: '0.0.0-test' },
     generatedAt: '2026-01-01T00:00:00.000Z',
     config: 'leadline.yml',
+    origin: { configHash: null, commit: null, shard: null, event: null },
     verdict: alarms > 0 ? 'alarm' : atRisk > 0 ? 'at-risk' : 'ok',
     gate: { failOn, passed: fails === 0, reason: fails === 0 ? 'passes' : 'Gate failed.' },
     summary: {

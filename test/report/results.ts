@@ -286,6 +286,7 @@ export function results(list: SeriesResult[], extra: Partial<Results> = {}): Res
     generator: { name: 'leadline', version: '0.1.0' },
     generatedAt: '2026-12-01T06:00:00.000Z',
     config: '.github/leadline.yml',
+    origin: { configHash: null, commit: null, shard: null, event: null },
     verdict,
     gate: {
       failOn: 'alarm',
