@@ -4,21 +4,9 @@ import { mkdirSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
-import { main } from '../../src/cli/main.js';
+import { cli } from './helpers.js';
 import type { Results } from '../../src/results.js';
 import { shardOf } from '../../src/shard.js';
-
-async function cli(argv: string[], cwd: string) {
-  let out = '';
-  let err = '';
-  const code = await main(argv, {
-    stdout: { write: (s: string) => (out += s), isTTY: false },
-    stderr: { write: (s: string) => (err += s) },
-    env: {},
-    cwd,
-  });
-  return { code, out, err };
-}
 
 /** Deterministic noise in [-1, 1) (a linear congruential generator). */
 function noise(seed: number): () => number {

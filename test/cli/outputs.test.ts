@@ -5,19 +5,7 @@ import { existsSync, mkdirSync, mkdtempSync, readFileSync, writeFileSync } from 
 import os from 'node:os';
 import path from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { main } from '../../src/cli/main.js';
-
-async function cli(argv: string[], cwd: string) {
-  let out = '';
-  let err = '';
-  const code = await main(argv, {
-    stdout: { write: (s: string) => (out += s), isTTY: false },
-    stderr: { write: (s: string) => (err += s) },
-    env: {},
-    cwd,
-  });
-  return { code, out, err };
-}
+import { cli } from './helpers.js';
 
 const GOOD = `day,v\n${Array.from({ length: 30 }, (_, i) => `2025-01-${String(i + 1).padStart(2, '0')},${10 + (i % 3)}`).join('\n')}\n`;
 const BROKEN = 'day,v\n2025-01-01,"unclosed\n';
