@@ -62,6 +62,7 @@ const timing = (s: string) =>
   s
     .replace(/^.*generatedAt.*$/gm, '')
     .replace(/20\d\d-\d\d-\d\dT[\d:.]+Z/g, 'T')
+    .replace(/20\d\d-\d\d-\d\d \d\d:\d\d UTC/g, 'T')
     .replace(/\((whole|merged)\.json\)/g, '(results)');
 
 describe('a run split into shards and merged', () => {
