@@ -12,6 +12,7 @@ import {
   type EngineOptions,
   type MethodBacktest,
   type ResidualChecks,
+  type TestResult,
 } from './engine/index.js';
 import { autoSeason, ingest, type IngestOutcome } from './ingest/index.js';
 import type { Series } from './ingest/types.js';
@@ -495,14 +496,7 @@ function summariseChecks(
   basis: 'before-checked' | 'all',
   observations: number,
 ): ResidualCheckSummary {
-  const t = (x: {
-    statistic: number;
-    df: number | null;
-    pValue: number;
-    adjustedP: number;
-    ok: boolean;
-    finding: string;
-  }) => ({
+  const t = (x: TestResult) => ({
     statistic: x.statistic,
     df: x.df,
     pValue: x.pValue,

@@ -1,27 +1,19 @@
 // Checked observations are judged only with what was known before them.
 import { describe, expect, it } from 'vitest';
 import { checkObservations } from '../../src/alarms/index.js';
+import { DEFAULTS } from '../../src/config/defaults.js';
 import type { MetricOptions } from '../../src/config/types.js';
 import { analyse, createRandom, type Analysis, type IntervalChoice } from '../../src/engine/index.js';
 
 function options(intervals: IntervalChoice, last = 1): MetricOptions {
   return {
-    season: 1,
+    ...DEFAULTS,
     methods: ['mean', 'naive', 'drift'],
     horizon: 3,
-    levels: [80, 95],
     intervals,
     backtest: { minTrain: 10, horizon: 3 },
-    score: 'mase',
     paths: 400,
-    seed: 1,
     check: { last },
-    direction: 'both',
-    alarmLevel: 95,
-    falseAlarms: 'none',
-    limit: null,
-    blanks: 'error',
-    duplicates: 'error',
   };
 }
 
