@@ -4,7 +4,7 @@
 import { createHash } from 'node:crypto';
 import { readFile } from 'node:fs/promises';
 import path from 'node:path';
-import { backtestFor, durationToSteps, loadPlan } from './config/index.js';
+import { adoptDefaults, backtestFor, defaultsOf, durationToSteps, loadPlan } from './config/index.js';
 import type { MetricPlan, Plan } from './config/types.js';
 import {
   analyse,
@@ -35,6 +35,7 @@ import type {
 } from './results.js';
 import { RESULTS_SCHEMA_ID } from './results.js';
 
+import { defaultJobs, defineTask, runPool } from './pool.js';
 import { shardOf, type Shard } from './shard.js';
 import { timeAfterLast, timeAtIndex } from './time.js';
 import { VERSION } from './version.js';
@@ -62,6 +63,8 @@ export interface JobOptions {
   commit?: string | null;
   /** The workflow event, when run by the Action. */
   event?: Origin['event'];
+  /** Worker threads for the analysis (default: one per core); the output does not depend on it. */
+  jobs?: number;
 }
 
 const SPACING_WORD: Record<Series['spacing'], string> = {
@@ -82,7 +85,8 @@ export async function runJob(o: JobOptions): Promise<Results> {
   const plan = await loadPlan(o.configPath, o.cwd);
   const configHash = await fileHash(path.resolve(o.cwd, o.configPath));
   const outcome = await ingest(plan, o.cwd);
-  return buildResults(plan, outcome, { ...o, configHash });
+  const analysed = await analyseFleet(plan, outcome, o);
+  return finishResults(plan, outcome, analysed, { ...o, configHash });
 }
 
 /** "sha256:<hex>" of a file's bytes, or null when it cannot be read. */
@@ -101,27 +105,115 @@ type BuildOptions = Pick<
   'failOn' | 'newRows' | 'baseNote' | 'onProgress' | 'now' | 'shard' | 'commit' | 'event'
 > & { configHash?: string | null };
 
-/** Pure: the plan and what ingestion produced -> Results. */
+/** Pure: the plan and what ingestion produced -> Results, on this thread. */
 export function buildResults(plan: Plan, outcome: IngestOutcome, o: BuildOptions): Results {
-  const results: SeriesResult[] = [];
+  const init = analyseInit(plan, o);
+  const todo = toAnalyse(plan, outcome, o.shard);
+  const analysed = todo.map((item, done) => {
+    const r = analyseTask.run(init, item);
+    o.onProgress?.(done + 1, todo.length);
+    return r;
+  });
+  return finishResults(plan, outcome, analysed, o);
+}
+
+/** A series to analyse: the series, its metric's place in the plan, its place in the run. */
+interface AnalyseItem {
+  series: Series;
+  metric: number;
+  position: number;
+}
+
+/** The series this run (or shard) analyses, in the run's order. */
+function toAnalyse(plan: Plan, outcome: IngestOutcome, shard: Shard | null | undefined): AnalyseItem[] {
+  const mine = ownShard(shard);
+  const byName = new Map(plan.metrics.map((m, k) => [m.name, k]));
+  const items: AnalyseItem[] = [];
+  outcome.series.forEach((s, position) => {
+    if (!mine(s.name)) return;
+    const metric = byName.get(s.metric);
+    if (metric === undefined) throw new Error(`internal: series ${s.name} has no metric in the plan`);
+    items.push({ series: s, metric, position });
+  });
+  return items;
+}
+
+/** Whether a series (by name) belongs to this shard; every series when the run is not sharded. */
+function ownShard(shard: Shard | null | undefined): (name: string) => boolean {
+  const s = shard && shard.count > 1 ? shard : null;
+  return (name) => !s || shardOf(name, s.count) === s.index;
+}
+
+/** What every analysis worker is given once. */
+interface AnalyseInit {
+  plan: Plan;
+  /** defaultsOf(plan): marks that a worker's copy of the plan cannot carry. */
+  defaulted: boolean[];
+  newRows: Record<string, number> | undefined;
+}
+
+function analyseInit(plan: Plan, o: Pick<JobOptions, 'newRows'>): AnalyseInit {
+  return { plan, defaulted: defaultsOf(plan), newRows: o.newRows };
+}
+
+const adopted = new WeakSet<AnalyseInit>();
+
+/** One series' analysis, on this thread or in a worker thread (this module is the worker's script). */
+const analyseTask = defineTask(
+  'analyse',
+  new URL(import.meta.url),
+  (init: AnalyseInit, item: AnalyseItem): SeriesResult => {
+    if (!adopted.has(init)) {
+      adoptDefaults(init.plan, init.defaulted);
+      adopted.add(init);
+    }
+    return analyseOne(item.series, init.plan.metrics[item.metric]!, init);
+  },
+);
+
+/** Series fewer than this per worker thread are not worth a thread's start-up. */
+export const SERIES_PER_WORKER = 20;
+
+/**
+ * The series this run (or shard) analyses, in the run's order, by `jobs` worker threads (fewer for
+ * a small fleet; none for one). The same results whatever the number: each series is analysed alone,
+ * with its own seed, and results are handed back in input order.
+ */
+export async function analyseFleet(
+  plan: Plan,
+  outcome: IngestOutcome,
+  o: Pick<JobOptions, 'newRows' | 'onProgress' | 'jobs' | 'shard'>,
+): Promise<SeriesResult[]> {
+  const todo = toAnalyse(plan, outcome, o.shard);
+  const jobs = Math.min(o.jobs ?? defaultJobs(), Math.floor(todo.length / SERIES_PER_WORKER));
+  const analysed: SeriesResult[] = [];
+  await runPool(analyseTask, todo, { jobs, init: analyseInit(plan, o) }, (r, i) => {
+    analysed.push(r);
+    o.onProgress?.(i + 1, todo.length);
+  });
+  return analysed;
+}
+
+/**
+ * The analysed series (analyseFleet's, in its order) and ingestion's failures -> Results: run-wide
+ * alarm control, verdicts, summary and gate (concludeRun), and for a shard each series' place.
+ */
+export function finishResults(
+  plan: Plan,
+  outcome: IngestOutcome,
+  analysed: SeriesResult[],
+  o: BuildOptions,
+): Results {
   const problems: Problem[] = [];
-  const byName = new Map(plan.metrics.map((m) => [m.name, m]));
   // Every series of the run in the run's order (analysed ones, then the ones that could not be read);
   // a shard keeps its own, remembering each one's place so a merge restores the order.
   const shard = o.shard && o.shard.count > 1 ? o.shard : null;
   const failureNames = outcome.failures.map((f) => seriesName(f.metric, f.column, f.key));
   const whole = outcome.series.length + outcome.failures.length;
-  const mine = (name: string) => !shard || shardOf(name, shard.count) === shard.index;
+  const mine = ownShard(shard);
   const placed = (r: SeriesResult, position: number) => (shard ? { ...r, position } : r);
-  const todo = outcome.series.map((s, i) => ({ s, i })).filter(({ s }) => mine(s.name));
-  const total = todo.length;
-
-  todo.forEach(({ s, i }, done) => {
-    const metric = byName.get(s.metric);
-    if (!metric) throw new Error(`internal: series ${s.name} has no metric in the plan`);
-    results.push(placed(analyseOne(s, metric, o), i));
-    o.onProgress?.(done + 1, total);
-  });
+  const todo = toAnalyse(plan, outcome, shard);
+  const results = analysed.map((r, k) => placed(r, todo[k]!.position));
 
   for (const [j, f] of outcome.failures.entries()) {
     if (!mine(failureNames[j]!)) continue;
@@ -204,7 +296,7 @@ export function concludeRun(
   return { verdict: runVerdict(series), gate: decideGate(o.failOn, summary), summary };
 }
 
-function analyseOne(s: Series, m: MetricPlan, o: BuildOptions): SeriesResult {
+function analyseOne(s: Series, m: MetricPlan, o: Pick<BuildOptions, 'newRows'>): SeriesResult {
   const notes = [...s.notes];
   const observations = countObserved(s.values);
   const seasonSource = m.season === 'auto' ? 'auto' : 'config';

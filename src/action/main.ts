@@ -191,6 +191,7 @@ async function runAction(d: ActionDeps): Promise<void> {
       cwd: s.workingDirectory,
       configPath: s.config,
       failOn: s.failOn,
+      jobs: s.jobs,
       ...(newRows ? { newRows } : {}),
       ...(baseNote ? { baseNote } : {}),
     });

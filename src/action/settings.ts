@@ -5,6 +5,7 @@ import os from 'node:os';
 import path from 'node:path';
 import { closest } from 'fastest-levenshtein';
 import { LeadlineError } from '../errors.js';
+import { parseJobs } from '../pool.js';
 import type { FailOn } from '../results.js';
 
 /** Where the report goes. */
@@ -36,6 +37,8 @@ export interface Settings {
   markdown: string | null;
   /** Label that marks Leadline's tracking issues. */
   issueLabel: string;
+  /** Worker threads for the analysis. */
+  jobs: number;
   /** The runner's facts about this run. */
   run: RunContext;
 }
@@ -88,6 +91,7 @@ export const INPUT_DEFAULTS = {
   html: '',
   markdown: '',
   'issue-label': 'leadline',
+  jobs: 'auto',
 } as const;
 
 export const FAIL_ON_VALUES: readonly FailOn[] = ['alarm', 'limit', 'both', 'never'];
@@ -221,6 +225,7 @@ export function readSettings(input: InputReader, env: NodeJS.ProcessEnv, cwd = p
     html: outputPath('html', get('html'), workingDirectory),
     markdown: outputPath('markdown', get('markdown'), workingDirectory),
     issueLabel: label,
+    jobs: parseJobs(get('jobs'), 'jobs'),
     run: {
       eventName: env.GITHUB_EVENT_NAME ?? '',
       eventPath: env.GITHUB_EVENT_PATH || null,

@@ -1,6 +1,7 @@
 // Command-line arguments -> a typed settings object. Nothing else reads argv.
 import { parseArgs } from 'node:util';
 import { LeadlineError } from '../errors.js';
+import { parseJobs } from '../pool.js';
 import type { FailOn } from '../results.js';
 import { parseShard, type Shard } from '../shard.js';
 
@@ -31,6 +32,8 @@ export interface CliSettings {
   shard: Shard | null;
   /** `merge`: the results files to merge, as given. */
   files: string[];
+  /** Worker threads for the analysis. */
+  jobs: number;
 }
 
 export const HELP = `leadline — judge metric CSVs against their forecasts and warn before limits are crossed
@@ -53,6 +56,8 @@ Options for run:
   --quiet              no progress lines on stderr
   --shard I/N          judge only shard I of N (series split by a hash of their names); needs
                        --json; the shard publishes nothing and exits 0 once its file is written
+  --jobs N             worker threads for the analysis: a number, or auto (default: one per core);
+                       the results are the same whatever the number
   -h, --help           show this help
   -V, --version        show the version
 
@@ -123,6 +128,7 @@ export function parseCli(argv: string[], env: NodeJS.ProcessEnv, cwd: string, is
         'no-color': { type: 'boolean' },
         quiet: { type: 'boolean' },
         shard: { type: 'string' },
+        jobs: { type: 'string' },
         help: { type: 'boolean', short: 'h' },
         version: { type: 'boolean', short: 'V' },
       },
@@ -144,6 +150,7 @@ export function parseCli(argv: string[], env: NodeJS.ProcessEnv, cwd: string, is
     progress: !v.quiet,
     shard: v.shard === undefined ? null : parseShard(v.shard, '--shard'),
     files: [] as string[],
+    jobs: parseJobs(v.jobs ?? 'auto', '--jobs'),
   };
   if (v.help) return { ...base, command: 'help' };
   if (v.version) return { ...base, command: 'version' };

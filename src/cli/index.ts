@@ -1,19 +1,25 @@
-// The `leadline` command's entry: only launches. See main.ts.
+// The `leadline` command's entry: only launches. See main.ts. The bundle is also the script of the
+// analysis worker threads (src/pool.ts), which start nothing here.
+import { isPoolWorker } from '../pool.js';
 import { main } from './main.js';
 
-main(process.argv.slice(2), {
-  stdout: process.stdout,
-  stderr: process.stderr,
-  env: process.env,
-  cwd: process.cwd(),
-}).then(
-  (code) => {
-    process.exitCode = code;
-  },
-  (e: unknown) => {
-    process.stderr.write(
-      `leadline: internal error: ${e instanceof Error ? (e.stack ?? e.message) : String(e)}\n`,
-    );
-    process.exitCode = 2;
-  },
-);
+if (!isPoolWorker()) start();
+
+function start(): void {
+  main(process.argv.slice(2), {
+    stdout: process.stdout,
+    stderr: process.stderr,
+    env: process.env,
+    cwd: process.cwd(),
+  }).then(
+    (code) => {
+      process.exitCode = code;
+    },
+    (e: unknown) => {
+      process.stderr.write(
+        `leadline: internal error: ${e instanceof Error ? (e.stack ?? e.message) : String(e)}\n`,
+      );
+      process.exitCode = 2;
+    },
+  );
+}

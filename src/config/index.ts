@@ -8,7 +8,7 @@ import { parsePlan } from './parse.js';
 
 export { DEFAULTS, DEFAULT_RISK, defaultMinTrain } from './defaults.js';
 export { durationToSteps, parseDuration } from './duration.js';
-export { backtestFor, parsePlan } from './parse.js';
+export { adoptDefaults, backtestFor, defaultsOf, parsePlan } from './parse.js';
 export { jsonSchema } from './schema.js';
 
 export const DEFAULT_CONFIG_PATH = '.github/leadline.yml';

@@ -43,6 +43,22 @@ export function backtestFor(metric: MetricPlan, season: number): { minTrain: num
   return { minTrain: defaultMinTrain(season), horizon: metric.backtest.horizon };
 }
 
+/**
+ * Which metrics of a plan had backtest.minTrain defaulted, for a copy of the plan made elsewhere
+ * (a worker thread's structured clone keeps the data but not this mark): pass the list to
+ * `adoptDefaults` on the copy.
+ */
+export function defaultsOf(plan: Plan): boolean[] {
+  return plan.metrics.map((m) => defaultedMinTrain.has(m));
+}
+
+/** Marks the metrics of a copied plan as `defaultsOf` found them on the original. */
+export function adoptDefaults(plan: Plan, defaulted: boolean[]): void {
+  plan.metrics.forEach((m, i) => {
+    if (defaulted[i]) defaultedMinTrain.add(m);
+  });
+}
+
 export function parsePlan(text: string, configPath: string): Plan {
   const file = configPath;
   const fail = (message: string, where: Partial<Position> & { keyPath?: string } = {}): never => {
