@@ -5,28 +5,9 @@
 // ESM because @actions/core 3 and @actions/github 9 are ESM-only; target node20 so the same
 // bundle runs on Node 20 (the command's minimum) and on the runner's node24.
 import { build } from 'esbuild';
+import { common, pkg, requireShim, root } from './esbuild-options.mjs';
 import { chmodSync, readdirSync, readFileSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
-
-const root = path.resolve(import.meta.dirname, '..');
-const pkg = JSON.parse(readFileSync(path.join(root, 'package.json'), 'utf8'));
-
-// Some bundled CommonJS dependencies call require() for Node built-ins; give ESM output one.
-const requireShim =
-  "import { createRequire as __leadlineCreateRequire } from 'node:module';\nconst require = __leadlineCreateRequire(import.meta.url);";
-
-const common = {
-  absWorkingDir: root,
-  bundle: true,
-  platform: 'node',
-  format: 'esm',
-  target: 'node20',
-  loader: { '.hbs': 'text' },
-  define: { __LEADLINE_VERSION__: JSON.stringify(pkg.version) },
-  legalComments: 'none',
-  logLevel: 'warning',
-  metafile: true,
-};
 
 const bundles = [
   { entry: 'src/action/index.ts', out: 'dist/index.js', banner: requireShim },

@@ -2,32 +2,17 @@
 // ones: benchmarks then measure the code as it ships (no TypeScript compiled on the fly), and the
 // analysis worker threads load that same bundle. Usage: node scripts/run-bundled.mjs SCRIPT.ts [ARGS]
 import { build } from 'esbuild';
-import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { mkdtempSync, rmSync } from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import { pathToFileURL } from 'node:url';
+import { common, requireShim } from './esbuild-options.mjs';
 
-const root = path.resolve(import.meta.dirname, '..');
-const pkg = JSON.parse(readFileSync(path.join(root, 'package.json'), 'utf8'));
 const [script, ...args] = process.argv.slice(2);
 if (!script) throw new Error('usage: node scripts/run-bundled.mjs SCRIPT.ts [ARGS]');
 const dir = mkdtempSync(path.join(os.tmpdir(), 'leadline-run-'));
 const outfile = path.join(dir, path.basename(script).replace(/\.ts$/, '.mjs'));
-await build({
-  absWorkingDir: root,
-  entryPoints: [script],
-  outfile,
-  bundle: true,
-  platform: 'node',
-  format: 'esm',
-  target: 'node20',
-  loader: { '.hbs': 'text' },
-  define: { __LEADLINE_VERSION__: JSON.stringify(pkg.version) },
-  banner: {
-    js: "import { createRequire as __leadlineCreateRequire } from 'node:module';\nconst require = __leadlineCreateRequire(import.meta.url);",
-  },
-  logLevel: 'warning',
-});
+await build({ ...common, entryPoints: [script], outfile, banner: { js: requireShim }, metafile: false });
 process.argv = [process.argv[0], outfile, ...args];
 process.on('exit', () => rmSync(dir, { recursive: true, force: true }));
 await import(pathToFileURL(outfile).href);
