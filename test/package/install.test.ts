@@ -2,7 +2,16 @@
 // global prefix pointed at a temporary folder: `npm pack` of the committed dist/, a global install
 // of the tarball, `leadline --version` and the demo from the installed command.
 import { execFileSync, spawnSync } from 'node:child_process';
-import { existsSync, mkdtempSync, readdirSync, readFileSync, readlinkSync, rmSync, statSync } from 'node:fs';
+import {
+  existsSync,
+  mkdtempSync,
+  readdirSync,
+  readFileSync,
+  readlinkSync,
+  renameSync,
+  rmSync,
+  statSync,
+} from 'node:fs';
 import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -18,6 +27,7 @@ const pkg = JSON.parse(readFileSync(path.join(root, 'package.json'), 'utf8')) as
 const tarball = path.join(root, `${pkg.name}-${pkg.version}.tgz`);
 const prefix = mkdtempSync(path.join(tmpdir(), 'leadline-install-'));
 const installed = path.join(prefix, 'lib', 'node_modules', pkg.name);
+const aside = path.join(prefix, 'earlier.tgz');
 
 /** The shell block under the README's "Installing the command" heading. */
 const installBlock = codeBlocks().find((b) => b.heading === 'Installing the command' && b.lang === 'sh');
@@ -25,7 +35,8 @@ const installBlock = codeBlocks().find((b) => b.heading === 'Installing the comm
 let run: { status: number | null; stdout: string; stderr: string };
 
 beforeAll(() => {
-  expect(existsSync(tarball), `${tarball} is left over from an earlier run; remove it`).toBe(false);
+  // A tarball the developer packed earlier (as the README says) is set aside and put back after.
+  if (existsSync(tarball)) renameSync(tarball, aside);
   const env: NodeJS.ProcessEnv = { ...process.env, npm_config_prefix: prefix };
   // npm run sets these for its child; they would override the prefix above.
   for (const k of Object.keys(env)) if (/^npm_config_(global_prefix|local_prefix)$/i.test(k)) delete env[k];
@@ -41,6 +52,7 @@ beforeAll(() => {
 
 afterAll(() => {
   rmSync(tarball, { force: true });
+  if (existsSync(aside)) renameSync(aside, tarball);
   rmSync(prefix, { recursive: true, force: true });
 });
 
