@@ -4,15 +4,17 @@
 // valid numbers is left out rather than drawn wrong.
 import type { SeriesResult } from '../results.js';
 import { mermaidLabel } from './escape.js';
-import { num, shortWhen, when } from './format.js';
+import { num, plural, when } from './format.js';
 
 /** Points of history before the forecast. */
 export const CHART_HISTORY = 30;
 /** Forecast steps drawn. */
 export const CHART_FORECAST = 14;
 
-/** Colours of the lines in order: observed/forecast, upper bound, lower bound, limit. */
-const PALETTE = ['#2563eb', '#d97706', '#d97706', '#6b7280'];
+/** Line colours: observed then forecast, interval bounds, limit. */
+const MAIN = '#2563eb';
+const BOUND = '#d97706';
+const LIMIT = '#6b7280';
 
 /**
  * A finite number as a plain decimal with at most 6 significant digits, or null when it cannot be
@@ -32,7 +34,29 @@ export interface MermaidChart {
   legend: string;
 }
 
-/** The chart for one series, or null when it has no forecast or its numbers are not all finite. */
+/** Steps (or rows) between two points of the series, in words: "days", "hours", "rows". */
+const AXIS_UNIT: Record<SeriesResult['spacing'], string> = {
+  minute: 'minutes',
+  hour: 'hours',
+  day: 'days',
+  week: 'weeks',
+  month: 'months',
+  quarter: 'quarters',
+  year: 'years',
+  row: 'rows',
+};
+
+/**
+ * The chart for one series, or null when it has no forecast or its numbers are not all finite.
+ *
+ * The x axis is numeric: steps from the last observation (0), negative for history and positive for
+ * the forecast, so the renderer picks a handful of round tick labels however many points there are.
+ * Lines are drawn in order, each over the one before: the limit, the interval's upper and lower
+ * bounds, and last the observed values followed by the point forecast. The bounds mean something
+ * only at the checked observations (the interval each was judged against) and over the forecast;
+ * before that an XY chart still needs a value, so they repeat the observed values and lie under the
+ * observed line, hidden, and the caption says where they start.
+ */
 export function mermaidChart(s: SeriesResult): MermaidChart | null {
   if (s.forecast.length === 0 || s.history.length === 0) return null;
   const level = String(s.alarmLevel);
@@ -65,8 +89,8 @@ export function mermaidChart(s: SeriesResult): MermaidChart | null {
     ...hist.map((h, i) => checked.get(h.index)?.lower ?? observed[i]!),
     ...fc.map((f) => f.lower[level]!),
   ];
-  const lines = [main, upper, lower];
-  if (s.limit && Number.isFinite(s.limit.value)) lines.push(main.map(() => s.limit!.value));
+  const hasLimit = s.limit !== null && Number.isFinite(s.limit.value);
+  const lines = hasLimit ? [main.map(() => s.limit!.value), upper, lower, main] : [upper, lower, main];
 
   const written = lines.map((l) => l.map(mermaidNumber));
   if (written.some((l) => l.some((x) => x === null))) return null;
@@ -83,35 +107,49 @@ export function mermaidChart(s: SeriesResult): MermaidChart | null {
   const yMax = mermaidNumber(hi + pad);
   if (yMin === null || yMax === null) return null;
 
-  const labels = [
-    ...hist.map((h) => shortWhen(h.time, s.spacing, h.index) + (checked.has(h.index) ? ' ●' : '')),
-    ...fc.map((f, i) => (f.time ? shortWhen(f.time, s.spacing, 0) : `+${f.step || i + 1}`)),
-  ].map((l) => `"${l.replace(/[^0-9A-Za-z #:+./●-]/g, '')}"`);
+  const lastObs = hist.at(-1)!;
+  const start = when(lastObs.time, s.spacing);
+  const unit = AXIS_UNIT[s.spacing];
+  const zero = start ?? (lastObs.row !== null ? `line ${lastObs.row}` : 'the last row');
+  const xTitle = mermaidLabel(`${unit} from ${zero}`, 40, unit);
+  const xFrom = -(hist.length - 1);
+  const xTo = fc.length;
 
   const title = mermaidLabel(s.name, 60, 'metric');
   const axis = mermaidLabel(s.column, 30, 'value');
-  const names = ['1 observed then forecast', `2 upper ${level}% bound`, `3 lower ${level}% bound`];
-  if (lines.length === 4) names.push('4 limit');
+  const names = [`upper ${level}% bound`, `lower ${level}% bound`, 'observed then forecast'];
+  if (hasLimit) names.unshift('limit');
+  const colours = hasLimit ? [LIMIT, BOUND, BOUND, MAIN] : [BOUND, BOUND, MAIN];
   const source = [
-    `%%{init: {"themeVariables": {"xyChart": {"plotColorPalette": "${PALETTE.slice(0, lines.length).join(', ')}"}}}}%%`,
+    `%%{init: {"themeVariables": {"xyChart": {"plotColorPalette": "${colours.join(', ')}"}}}}%%`,
     'xychart-beta',
     `  title "${title}"`,
     `  accTitle: ${title}`,
-    `  accDescr: Lines in order, ${names.join(', ')}`,
-    `  x-axis [${labels.join(', ')}]`,
+    `  accDescr: Lines in order, ${names.map((n, i) => `${i + 1} ${n}`).join(', ')}`,
+    `  x-axis "${xTitle}" ${xFrom} --> ${xTo}`,
     `  y-axis "${axis}" ${yMin} --> ${yMax}`,
     ...written.map((l) => `  line [${l.join(', ')}]`),
   ].join('\n');
 
-  const lastObs = hist.at(-1)!;
-  const start = when(lastObs.time, s.spacing);
-  const legendParts = [
-    `Blue: observed values, then the point forecast${start ? ` after ${start}` : ''}`,
-    `orange: the ${level}% interval bounds around the checked observations (marked ● on the axis) and the forecast`,
+  const checkedX = hist
+    .map((h, i) => (checked.has(h.index) ? i + xFrom : null))
+    .filter((x): x is number => x !== null);
+  const span = (xs: number[]) =>
+    xs.length === 1 ? `at ${signed(xs[0]!)}` : `from ${signed(xs[0]!)} to ${signed(xs.at(-1)!)}`;
+  const one = checkedX.length === 1;
+  const parts = [
+    `Blue: the observed values up to ${zero} (0 on the x axis), then the point forecast for ${plural(fc.length, unit.replace(/s$/, ''))}`,
+    checkedX.length > 0
+      ? `orange: the ${level}% interval the ${one ? 'checked observation was' : `${checkedX.length} checked observations were`} judged against (${span(checkedX)}), then the forecast's; before ${one ? 'it' : 'them'} the orange lines mean nothing and lie hidden under the blue one`
+      : `orange: the forecast's ${level}% interval, opening from the last observation`,
   ];
-  if (lines.length === 4) legendParts.push(`grey: the limit, ${num(s.limit!.value, 6)}`);
-  let legend = legendParts.join('; ') + '.';
+  if (hasLimit) parts.push(`grey: the limit, ${num(s.limit!.value, 6)}`);
+  let legend = parts.join('; ') + '.';
   if (filled > 0)
     legend += ` ${filled} missing value${filled === 1 ? ' is' : 's are'} drawn at the previous value.`;
   return { source, legend };
+}
+
+function signed(x: number): string {
+  return x > 0 ? `+${x}` : x < 0 ? `−${-x}` : '0';
 }

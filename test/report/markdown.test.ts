@@ -13,7 +13,7 @@ describe('renderMarkdown', () => {
   const text = renderMarkdown(run);
 
   it('puts the run verdict first, then attention, charts, limits and one section per metric', () => {
-    expect(text.startsWith('## 🔴 Leadline: alarm\n')).toBe(true);
+    expect(text.startsWith('## 🔴 Leadline: out of line\n')).toBe(true);
     const at = (s: string) => text.indexOf(s);
     expect(at('### Needs attention')).toBeGreaterThan(0);
     expect(at('### Needs attention')).toBeLessThan(at('### Charts'));
@@ -41,7 +41,12 @@ describe('renderMarkdown', () => {
 
   it('states the expected number of false alarms and the caution', () => {
     expect(run.summary.expectedFalseAlarms).toBeCloseTo(0.15, 12); // 3 checks at 95%: 3 × 0.05
-    expect(text).toContain('about 0.15 of the 3 checked observations');
+    // Chance of at least one alarm among 3 independent checks at 5% each: 1 − 0.95³ = 0.142625
+    // (derivation here), said as a rounded share of runs, never as "0.15 of the 3".
+    expect(text).toContain(
+      'Even if nothing had changed, a run checking 3 observations like this one would raise at least one alarm about 14% of the time by chance alone',
+    );
+    expect(text).not.toMatch(/about 0\.\d+ of the/);
     expect(text).toContain('Forecasts are estimates with stated uncertainty, not guarantees');
   });
 
@@ -82,8 +87,8 @@ describe('renderMarkdown', () => {
   });
 
   it('says which line is which, since XY charts have no legend', () => {
-    expect(text).toContain('Blue: observed values, then the point forecast');
-    expect(text).toContain('orange: the 95% interval bounds');
+    expect(text).toContain('Blue: the observed values up to 2026-11-29 (0 on the x axis), then the point forecast');
+    expect(text).toContain('orange: the 95% interval the checked observation was judged against');
     expect(text).toContain('grey: the limit, 1,950');
   });
 
@@ -115,15 +120,15 @@ describe('renderMarkdown', () => {
     const out = renderMarkdown(r);
     expect(out).toContain('### Problems');
     expect(out).toContain('| metrics/x.csv:1:7 | column &#34;p95&#34; not found; columns are: date, p50 |');
-    expect(out).toContain(
-      '⚪ <b>too short</b>: not enough data. Only 6 observations; at least 10 are needed.',
-    );
-    expect(out).toContain('1 without enough data');
+    expect(out).toContain('⚪ <b>too short</b>: too short. Only 6 observations; at least 10 are needed.');
+    expect(out).toContain('· 1 too short');
+    // The same word wherever the state is named: the section, the counts and the terminal.
+    expect(out).not.toMatch(/not enough data|without enough data|too little data|insufficient/i);
   });
 
   it('says so when nothing needs attention', () => {
     const out = renderMarkdown(results([series({ name: 'quiet', seed: 9 })]));
-    expect(out.startsWith('## 🟢 Leadline: ok')).toBe(true);
+    expect(out.startsWith('## 🟢 Leadline: steady')).toBe(true);
     expect(out).toContain('Nothing needs attention.');
   });
 });
@@ -151,7 +156,7 @@ describe('renderMarkdown size cap', () => {
       expect(out.length).toBeGreaterThan(maxChars * 0.8); // …and the cut one uses the room it has
       expect(out).toContain(note);
       expect(out).toMatch(/This report was cut to fit: \d+ of 300 metric sections/);
-      expect(out.startsWith('## 🔴 Leadline: alarm')).toBe(true);
+      expect(out.startsWith('## 🔴 Leadline: out of line')).toBe(true);
       // Every alarm is in the attention table (the 30 planted and those that happen by chance);
       // the sections kept are the alarms first.
       const alarms = many.series.filter((s) => s.verdict === 'alarm').length;
@@ -171,7 +176,7 @@ describe('renderMarkdown size cap', () => {
     expect(out).toMatch(/more needing attention, not shown here/);
     const tiny = renderMarkdown(many, { maxChars: 120, fullReportNote: note });
     expect(tiny.length).toBeLessThanOrEqual(120);
-    expect(tiny.startsWith('## 🔴 Leadline: alarm')).toBe(true);
+    expect(tiny.startsWith('## 🔴 Leadline: out of line')).toBe(true);
   });
 });
 
@@ -183,7 +188,7 @@ describe('user templates', () => {
     const out = renderMarkdown(r, {
       template: '{{verdict.label}}:{{#each series}} {{name}} ({{verdict.label}}){{/each}}',
     });
-    expect(out).toBe('ok: a&#124;b &#60;i&#62;c&#60;/i&#62; (ok)\n');
+    expect(out).toBe('steady: a&#124;b &#60;i&#62;c&#60;/i&#62; (steady)\n');
   });
 
   it('can use the series partial', () => {
@@ -229,22 +234,32 @@ describe('Mermaid text', () => {
     expect(mermaidChart(broken)).toBeNull();
   });
 
-  it('draws the checked observation inside its interval lines, marked on the axis', () => {
+  it('draws the bounds only at the checked observation and the forecast, under the observed line', () => {
     const s = series({ name: 'x', lastValue: 150 });
     const c = mermaidChart(s)!;
+    // Lines in drawing order: upper, lower, then observed-and-forecast last, on top.
     const lines = [...c.source.matchAll(/line \[([^\]]*)\]/g)].map((m) => m[1]!.split(', ').map(Number));
-    const labels = c.source.match(/x-axis \[(.*)\]/)![1]!.split(', ');
-    const at = labels.findIndex((l) => l.includes('●'));
-    expect(at).toBeGreaterThan(0);
-    expect(labels.every((l, i) => i === at || !l.includes('●'))).toBe(true);
+    expect(lines).toHaveLength(3);
+    const [upper, lower, main] = lines as [number[], number[], number[]];
+    // A numeric x axis from −(history − 1) to the last forecast step: the renderer picks a few ticks.
+    const axis = c.source.match(/x-axis "days from 2026-11-29" (-?\d+) --> (\d+)/)!;
+    const from = Number(axis[1]);
+    const to = Number(axis[2]);
+    expect(to).toBe(14);
+    expect(main).toHaveLength(to - from + 1);
+    const at = -from; // x = 0: the last observation, the checked one
     const obs = s.checked[0]!;
-    expect(lines[0]![at]).toBeCloseTo(obs.value, 4);
-    expect(lines[1]![at]).toBeCloseTo(obs.upper, 2);
-    expect(lines[2]![at]).toBeCloseTo(obs.lower, 2);
-    // Forecast part: the last lines' values are the forecast at the alarm level.
-    const last = s.forecast[13]!;
-    expect(lines[1]!.at(-1)).toBeCloseTo(last.upper['95']!, 2);
-    expect(lines[0]!.length).toBe(labels.length);
+    expect(main[at]).toBeCloseTo(obs.value, 4);
+    expect(upper[at]).toBeCloseTo(obs.upper, 2);
+    expect(lower[at]).toBeCloseTo(obs.lower, 2);
+    // Before the checked observation the bounds repeat the observed values (hidden under them).
+    for (let i = 0; i < at; i++) {
+      expect(upper[i]).toBe(main[i]);
+      expect(lower[i]).toBe(main[i]);
+    }
+    // After it, the forecast at the alarm level.
+    expect(upper.at(-1)).toBeCloseTo(s.forecast[13]!.upper['95']!, 2);
+    expect(c.legend).toContain('(at 0)');
   });
 });
 
@@ -264,12 +279,36 @@ describe('view details', () => {
     expect(v.attention.map((a) => a.section)).toEqual([1, 2]);
   });
 
-  it('shows a flagged residual check as a model caveat, not as a reason for attention', () => {
+  it('keeps a failed residual check out of "needs attention": one summary line, the detail in the section', () => {
     const s = series({ name: 'autocorrelated' });
     s.residualChecks!.ljungBox = { ...s.residualChecks!.ljungBox, ok: false, pValue: 0.001 };
     const out = renderMarkdown(results([s]));
-    expect(out).not.toMatch(/\| 🟢 \| autocorrelated \|/);
+    expect(out).toContain('Nothing needs attention.');
+    const caveats = out.split('\n').filter((l) => l.startsWith('Residual checks flagged'));
+    expect(caveats).toEqual([
+      "Residual checks flagged 1 series (autocorrelated): their intervals may be less trustworthy than stated; each series' details say which check and why.",
+    ]);
     expect(out).toContain('| ⚠️ flagged |');
+    const brief = renderMarkdown(results([s]), { detail: 'brief' });
+    expect(brief).toContain('Nothing needs attention.');
+    expect(brief.match(/Residual checks flagged/g)).toHaveLength(1);
+  });
+
+  it('never says "passed" for a check that was not computed', () => {
+    const s = series({ name: 'five rows' });
+    s.residualChecks!.normality = {
+      ...s.residualChecks!.normality,
+      statistic: NaN,
+      pValue: NaN,
+      ok: true,
+      finding: 'Jarque–Bera not computed: too few residuals.',
+    };
+    const v = buildView(results([s]));
+    const row = v.series[0]!.checks.find((c) => c.key === 'normality')!;
+    expect(row.state).toBe('not-computed');
+    expect(row.result).toBe('not computed');
+    expect(row.statistic).toBe('');
+    expect(renderMarkdown(results([s]))).toMatch(/\| Normality \| not computed \| {2}\| n\/a \|/);
   });
 
   it('renders a sparkline from block characters, dots for missing values', () => {
