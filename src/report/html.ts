@@ -3,7 +3,7 @@
 import type { Results, SeriesResult } from '../results.js';
 import { escapeHtml as h } from './escape.js';
 import { METHOD_LABEL, VERDICT_LABEL, num, pct, plural } from './format.js';
-import { acfChart, backtestChart, fanChart, histogramChart, residualChart } from './svg.js';
+import { backtestChart, fanChart, ljungBoxChart, qqChart, spreadChart } from './svg.js';
 import { buildView, reportOrder, type SeriesView } from './view.js';
 
 const CSS = `
@@ -26,7 +26,12 @@ a{color:inherit}
 table{border-collapse:collapse;width:100%;margin:6px 0 10px;font-size:.88rem;background:var(--card)}
 th,td{border:1px solid var(--line);padding:4px 8px;text-align:left;vertical-align:top}
 th{font-weight:600}td.n{text-align:right;font-variant-numeric:tabular-nums}
-section.metric{background:var(--card);border:1px solid var(--line);border-radius:8px;padding:16px 18px;margin:22px 0}
+details.metric{background:var(--card);border:1px solid var(--line);border-radius:8px;padding:10px 18px;margin:14px 0}
+details.metric>summary{color:var(--fg)}details.metric>summary h2{display:inline;font-size:1.1rem}details.metric>summary .why{color:var(--muted);font-size:.9rem}
+details.metric[open]>summary{margin-bottom:8px}
+.checks{display:grid;grid-template-columns:repeat(auto-fill,minmax(360px,1fr));gap:12px}
+figure.check{border:1px solid var(--line);border-radius:6px;padding:8px;margin:0}figure.check figcaption{font-size:.85rem;margin-bottom:4px}
+figure.check .state{font-weight:600}.c-flagged .state{color:var(--risk)}.c-not-computed .state{color:var(--na)}.c-passed .state{color:var(--ok)}
 .charts{display:flex;flex-wrap:wrap;gap:12px}
 figure{margin:8px 0}figcaption{font-size:.82rem;color:var(--muted)}
 svg.chart{max-width:100%;height:auto;display:block}svg.chart:not(.half){width:100%}
@@ -44,9 +49,10 @@ svg .checked.outside{stroke:var(--risk)}
 svg .checked.alarm{fill:var(--alarm);stroke:var(--bg);stroke-width:1.5}
 svg .zero{stroke:var(--muted)}svg .resid-line{fill:none;stroke:var(--resid);stroke-width:1;opacity:.6}
 svg .resid-dot{fill:var(--resid)}
-svg .acf-bar{fill:var(--resid)}svg .acf-bar.beyond{fill:var(--alarm)}
-svg .acf-bound{stroke:var(--risk);stroke-dasharray:4 3}
-svg .hist-bar{fill:var(--bar)}svg .normal-curve{fill:none;stroke:var(--fc);stroke-width:2}
+svg .resid-dot.middle{opacity:.35}svg .third{stroke:var(--muted);stroke-dasharray:3 3}svg .spread-band{fill:var(--b0);opacity:.8}
+svg .qq-line{stroke:var(--fc);stroke-width:1.5}svg .qq-dot{fill:var(--resid)}svg .qq-dot.off{fill:var(--risk)}
+svg .p-line{stroke:var(--risk);stroke-dasharray:4 3}svg .lb-line{fill:none;stroke:var(--resid);stroke-width:1.2}
+svg .lb-dot{fill:var(--resid)}svg .lb-dot.low{fill:var(--alarm)}svg .lb-used{fill:none;stroke:var(--fg);stroke-width:1.5}
 svg .bt-bar{fill:var(--bar)}svg .bt-bar.chosen{fill:var(--chosen)}svg .bt-label{fill:var(--fg)}
 svg .empty{fill:var(--muted);font-size:13px}
 .key{display:flex;flex-wrap:wrap;gap:14px;font-size:.82rem;color:var(--muted);margin:2px 0 0}
@@ -78,9 +84,11 @@ function table(head: string[], rows: string[][], numeric: number[] = []): string
 
 function metricSection(s: SeriesResult, v: SeriesView, id: string): string {
   const out: string[] = [];
-  out.push(`<section class="metric" id="${id}" aria-labelledby="${id}-h">`);
-  out.push(`<h2 id="${id}-h">${h(s.name)} ${badge(s.verdict)}</h2>`);
-  if (s.reason) out.push(`<p>${h(s.reason)}</p>`);
+  // Healthy series start folded: one line each; what needs attention is open.
+  out.push(`<details class="metric" id="${id}"${v.attention ? ' open' : ''}>`);
+  out.push(
+    `<summary><h2>${h(s.name)} ${badge(s.verdict)}</h2>${s.reason ? ` <span class="why">${h(s.reason)}</span>` : ''}</summary>`,
+  );
   out.push(`<p class="facts">${v.facts}</p>`);
   out.push(
     `<figure>${fanChart(s, `${id}-fan`)}<figcaption class="key"><span class="k-hist">observed</span><span class="k-fc">point forecast</span>` +
@@ -113,21 +121,9 @@ function metricSection(s: SeriesResult, v: SeriesView, id: string): string {
     if (v.forecastNote) out.push(`<p class="note">${v.forecastNote}</p>`);
     out.push('</details>');
   }
-  if (s.residualChecks || s.residuals.some((r) => r !== null)) {
-    out.push('<h3>Residuals</h3>');
-    out.push(`<figure>${residualChart(s, `${id}-res`)}</figure>`);
-    out.push(
-      `<div class="charts"><figure>${acfChart(s, `${id}-acf`)}<figcaption>Autocorrelation by lag; dashed: ±1.96/√n.</figcaption></figure>` +
-        `<figure>${histogramChart(s, `${id}-hist`)}<figcaption>Histogram with the fitted normal curve.</figcaption></figure></div>`,
-    );
-  }
   if (v.checks.length > 0) {
-    out.push(
-      table(
-        ['Check', 'Result', 'Statistic', 'p', 'What it means'],
-        v.checks.map((c) => [c.name, c.result, c.statistic, c.p, c.finding]),
-      ),
-    );
+    out.push('<h3>Residual checks</h3>');
+    out.push(`<div class="checks">${checkCards(s, v, id)}</div>`);
     if (v.checksNote) out.push(`<p class="note">${v.checksNote}</p>`);
   }
   if (v.backtest.length > 0) {
@@ -165,8 +161,27 @@ function metricSection(s: SeriesResult, v: SeriesView, id: string): string {
   }
   if (s.notes.length > 0)
     out.push(`<h3>Notes</h3><ul>${s.notes.map((n) => `<li>${h(n)}</li>`).join('')}</ul>`);
-  out.push('</section>');
+  out.push('</details>');
   return out.join('\n');
+}
+
+/** Each residual check beside its own picture: autocorrelation, normality, spread; bias has none. */
+function checkCards(s: SeriesResult, v: SeriesView, id: string): string {
+  const chartOf: Record<string, (s: SeriesResult, id: string) => string> = {
+    ljungBox: ljungBoxChart,
+    normality: qqChart,
+    spread: spreadChart,
+  };
+  return v.checks
+    .map((c) => {
+      const chart = chartOf[c.key];
+      return (
+        `<figure class="check c-${c.state}"><figcaption><strong>${c.name}</strong> <span class="state">${c.result}</span>` +
+        `${c.statistic ? ` · ${c.statistic}` : ''}${c.p !== 'n/a' ? ` · p ${c.p}` : ''}<br>${c.finding}</figcaption>` +
+        `${chart ? chart(s, `${id}-${c.key}`) : ''}</figure>`
+      );
+    })
+    .join('');
 }
 
 /** Most metric sections in one page. */

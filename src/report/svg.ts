@@ -5,11 +5,12 @@
 // Every chart is an <svg role="img"> with a <title> and <desc>; colours come from CSS classes so the
 // page's light and dark palettes apply. The plot group carries its scales as data-* attributes
 // (domain and range on each axis) so tests can recompute positions from the results values.
-import { scaleLinear, scaleUtc, type ScaleLinear, type ScaleTime } from 'd3-scale';
+import { scaleLinear, scaleLog, scaleUtc, type ScaleLinear, type ScaleLogarithmic, type ScaleTime } from 'd3-scale';
+import { chiSquareCdf, normalQuantile } from '../engine/dist.js';
 import { area, line } from 'd3-shape';
 import type { SeriesResult } from '../results.js';
 import { escapeHtml as h } from './escape.js';
-import { METHOD_LABEL, num, when } from './format.js';
+import { METHOD_LABEL, num, pval, when } from './format.js';
 
 const W = 760;
 const M = { top: 14, right: 18, bottom: 30, left: 64 };
@@ -47,7 +48,11 @@ function svgOpen(id: string, height: number, title: string, desc: string, cls: s
   );
 }
 
-function plotGroup(x: XScale, y: ScaleLinear<number, number>, timeAxis: boolean): string {
+function plotGroup(
+  x: XScale,
+  y: ScaleLinear<number, number> | ScaleLogarithmic<number, number>,
+  timeAxis: boolean,
+): string {
   const xd = x.domain().map((d) => +d);
   return (
     `<g class="plot" data-x-kind="${timeAxis ? 'time' : 'index'}" data-x-domain="${xd.join(',')}" ` +
@@ -265,99 +270,7 @@ export function fanChart(s: SeriesResult, id: string): string {
   return out.join('');
 }
 
-/** Residuals of the chosen method over time, with the zero line. */
-export function residualChart(s: SeriesResult, id: string): string {
-  const height = 180;
-  const tl = timeline(s);
-  const pts = s.history
-    .map((p, i) => ({ x: tl.ofIndex(p.index, p.time), r: s.residuals[i] }))
-    .filter((p): p is { x: number; r: number } => p.x !== null && isNum(p.r));
-  const title = `${s.name}: residuals over time`;
-  const xe = extent(pts.map((p) => p.x));
-  const ye = extent([0, ...pts.map((p) => p.r)]);
-  if (!xe || !ye || pts.length === 0)
-    return `${svgOpen(id, 60, title, 'No residuals to draw.', 'resid')}<text class="empty" x="${W / 2}" y="34" text-anchor="middle">No residuals to draw.</text></svg>`;
-  const { x, y, X } = planeScales(tl.timeAxis, xe, ye, height);
-  const zero = f(y(0));
-  const path = line<{ x: number; r: number }>()
-    .x((p) => X(p.x))
-    .y((p) => y(p.r))(pts);
-  return (
-    svgOpen(
-      id,
-      height,
-      title,
-      `${pts.length} residuals (actual minus fitted) of the chosen method, in time order, with the zero line.`,
-      'resid',
-    ) +
-    plotGroup(x, y, tl.timeAxis) +
-    yAxis(y, M.left, W - M.right) +
-    xAxis(x, tl.timeAxis, height - M.bottom, s.spacing) +
-    `<line class="zero" x1="${M.left}" x2="${W - M.right}" y1="${zero}" y2="${zero}"/>` +
-    (path ? `<path class="resid-line" d="${path}"/>` : '') +
-    // Dots only while they stay readable; a long series is clearer (and lighter) as a line.
-    (pts.length <= 150
-      ? pts.map((p) => `<circle class="resid-dot" cx="${f(X(p.x))}" cy="${f(y(p.r))}" r="1.8"/>`).join('')
-      : '') +
-    '</g></svg>'
-  );
-}
-
 const HALF = 370;
-
-/** Residual autocorrelation by lag with the approximate 95% bounds ±1.96/√n. */
-export function acfChart(s: SeriesResult, id: string): string {
-  const height = 200;
-  const c = s.residualChecks;
-  const acf = (c?.acf ?? []).filter(isNum);
-  const title = `${s.name}: residual autocorrelation`;
-  if (!c || acf.length === 0)
-    return `${svgOpenHalf(id, 60, title, 'No autocorrelations to draw.', 'acf')}<text class="empty" x="${HALF / 2}" y="34" text-anchor="middle">No autocorrelations.</text></svg>`;
-  const bound = isNum(c.acfBound) ? c.acfBound : 0;
-  const m = { ...M, left: 44 };
-  const lim = Math.max(bound * 1.2, ...acf.map((r) => Math.abs(r)), 0.1);
-  const x = scaleLinear()
-    .domain([0.5, acf.length + 0.5])
-    .range([m.left, HALF - m.right]);
-  const y = scaleLinear()
-    .domain([-lim, lim])
-    .nice()
-    .range([height - m.bottom, m.top]);
-  const bw = Math.max(2, Math.min(16, ((HALF - m.left - m.right) / acf.length) * 0.6));
-  const outside = acf.filter((r) => Math.abs(r) > bound).length;
-  const desc = `Autocorrelation of the residuals at lags 1 to ${acf.length}; dashed lines at ±${num(bound)} (±1.96/√n). ${outside} of ${acf.length} lags outside.`;
-  const bars = acf
-    .map((r, i) => {
-      const y0 = y(Math.max(0, r));
-      const y1 = y(Math.min(0, r));
-      return `<rect class="acf-bar${Math.abs(r) > bound ? ' beyond' : ''}" data-lag="${i + 1}" data-r="${r}" x="${f(x(i + 1) - bw / 2)}" y="${f(y0)}" width="${f(bw)}" height="${f(Math.max(0.5, y1 - y0))}"><title>lag ${i + 1}: ${h(num(r))}</title></rect>`;
-    })
-    .join('');
-  const ticks = x
-    .ticks(Math.min(acf.length, 10))
-    .filter((t) => Number.isInteger(t) && t >= 1)
-    .map(
-      (t) =>
-        `<text class="tick" x="${f(x(t))}" y="${height - m.bottom + 16}" text-anchor="middle">${t}</text>`,
-    )
-    .join('');
-  return (
-    svgOpenHalf(id, height, title, desc, 'acf') +
-    plotGroup(x, y, false) +
-    yAxis(y, m.left, HALF - m.right) +
-    ticks +
-    `<line class="zero" x1="${m.left}" x2="${HALF - m.right}" y1="${f(y(0))}" y2="${f(y(0))}"/>` +
-    [bound, -bound]
-      .map(
-        (b) =>
-          `<line class="acf-bound" x1="${m.left}" x2="${HALF - m.right}" y1="${f(y(b))}" y2="${f(y(b))}" data-bound="${b}"/>`,
-      )
-      .join('') +
-    bars +
-    `<text class="tick" x="${HALF - m.right}" y="${height - 2}" text-anchor="end">lag</text>` +
-    '</g></svg>'
-  );
-}
 
 function svgOpenHalf(id: string, height: number, title: string, desc: string, cls: string): string {
   return (
@@ -366,61 +279,248 @@ function svgOpenHalf(id: string, height: number, title: string, desc: string, cl
   );
 }
 
-/** Residual histogram (Sturges' bin count) with the normal density of the same mean and sd, scaled to counts. */
-export function histogramChart(s: SeriesResult, id: string): string {
+function emptyHalf(id: string, title: string, what: string, cls: string): string {
+  return `${svgOpenHalf(id, 60, title, what, cls)}<text class="empty" x="${HALF / 2}" y="34" text-anchor="middle">${h(what)}</text></svg>`;
+}
+
+/** The residuals shown with the history, in time order, with their x positions. */
+function residualPoints(s: SeriesResult): { x: number; r: number }[] {
+  const tl = timeline(s);
+  return s.history
+    .map((p, i) => ({ x: tl.ofIndex(p.index, p.time), r: s.residuals[i] }))
+    .filter((p): p is { x: number; r: number } => p.x !== null && isNum(p.r));
+}
+
+function sampleSd(xs: number[]): { mean: number; sd: number } {
+  const n = xs.length;
+  const mean = xs.reduce((a, b) => a + b, 0) / n;
+  const sd = n > 1 ? Math.sqrt(xs.reduce((a, b) => a + (b - mean) ** 2, 0) / (n - 1)) : NaN;
+  return { mean, sd };
+}
+
+/**
+ * The spread check's picture: the residuals in time order, with the first and the last third marked
+ * and a band of ± one standard deviation over each. The spread check compares exactly these two
+ * variances (its F is the last third's over the first's), so unequal bands are what it flags. When
+ * the chart shows fewer residuals than the analysis had (long series), the thirds are of the shown
+ * ones and the description says so.
+ */
+export function spreadChart(s: SeriesResult, id: string): string {
+  const title = `${s.name}: spread of the residuals over time`;
+  const pts = residualPoints(s);
+  if (pts.length < 6) return emptyHalf(id, title, 'Too few residuals to compare thirds.', 'spread');
   const height = 200;
-  const r = s.residuals.filter(isNum);
-  const title = `${s.name}: residual histogram`;
-  if (r.length < 2)
-    return `${svgOpenHalf(id, 60, title, 'Too few residuals for a histogram.', 'hist')}<text class="empty" x="${HALF / 2}" y="34" text-anchor="middle">Too few residuals.</text></svg>`;
-  const n = r.length;
-  const mean = r.reduce((a, b) => a + b, 0) / n;
-  const sd = Math.sqrt(r.reduce((a, b) => a + (b - mean) ** 2, 0) / (n - 1));
-  const bins = Math.ceil(Math.log2(n) + 1);
-  const [lo0, hi0] = extent(r)!;
-  const lo = Math.min(lo0, mean - 3 * sd);
-  const hi = Math.max(hi0, mean + 3 * sd);
-  const width = (hi - lo) / bins;
-  const counts = new Array<number>(bins).fill(0);
-  for (const v of r) counts[Math.min(bins - 1, Math.max(0, Math.floor((v - lo) / width)))]!++;
-  const density = (v: number) =>
-    sd > 0 ? (n * width * Math.exp(-0.5 * ((v - mean) / sd) ** 2)) / (sd * Math.sqrt(2 * Math.PI)) : 0;
-  const m = { ...M, left: 44 };
-  const x = scaleLinear()
-    .domain([lo, hi])
-    .range([m.left, HALF - m.right]);
-  const peak = Math.max(...counts, density(mean));
+  const n = pts.length;
+  const third = Math.floor(n / 3);
+  const first = pts.slice(0, third);
+  const last = pts.slice(n - third);
+  const s1 = sampleSd(first.map((p) => p.r));
+  const s3 = sampleSd(last.map((p) => p.r));
+  const tl = timeline(s);
+  const m = { ...M, left: 52, top: 24 };
+  const xe = extent(pts.map((p) => p.x))!;
+  const lim = Math.max(...pts.map((p) => Math.abs(p.r)), isNum(s1.sd) ? 2 * s1.sd : 0, isNum(s3.sd) ? 2 * s3.sd : 0);
+  const x = (tl.timeAxis ? scaleUtc().domain([new Date(xe[0]), new Date(xe[1])]) : scaleLinear().domain(xe)).range([
+    m.left,
+    HALF - m.right,
+  ]) as XScale;
+  const X = (v: number) => x(v as number & Date);
   const y = scaleLinear()
-    .domain([0, peak])
+    .domain([-lim || -1, lim || 1])
     .nice()
     .range([height - m.bottom, m.top]);
-  const bars = counts
-    .map(
-      (c, i) =>
-        `<rect class="hist-bar" data-count="${c}" x="${f(x(lo + i * width) + 0.5)}" y="${f(y(c))}" width="${f(Math.max(0.5, x(lo + width) - x(lo) - 1))}" height="${f(y(0) - y(c))}"><title>${h(num(lo + i * width))} to ${h(num(lo + (i + 1) * width))}: ${c}</title></rect>`,
-    )
-    .join('');
-  const curvePts = Array.from({ length: 81 }, (_, i) => lo + ((hi - lo) * i) / 80);
-  const curve = line<number>()
-    .x((v) => x(v))
-    .y((v) => y(density(v)))(curvePts);
-  const ticks = x
-    .ticks(5)
+  const band = (part: { x: number }[], st: { mean: number; sd: number }, cls: string, label: string) => {
+    if (!isNum(st.sd)) return '';
+    const x0 = X(part[0]!.x);
+    const x1 = X(part.at(-1)!.x);
+    const anchor = cls === 'first' ? `x="${f(x0)}" text-anchor="start"` : `x="${f(x1)}" text-anchor="end"`;
+    return (
+      `<rect class="spread-band ${cls}" x="${f(x0)}" y="${f(y(st.mean + st.sd))}" width="${f(Math.max(1, x1 - x0))}" ` +
+      `height="${f(y(st.mean - st.sd) - y(st.mean + st.sd))}" data-sd="${st.sd}"><title>${h(label)}: sd ${h(num(st.sd))}</title></rect>` +
+      `<text class="tick" ${anchor} y="${m.top + 2}">${h(label)}: sd ${h(num(st.sd))}</text>` +
+      `<line class="third" x1="${f(cls === 'first' ? x1 : x0)}" x2="${f(cls === 'first' ? x1 : x0)}" y1="${m.top + 8}" y2="${height - m.bottom}"/>`
+    );
+  };
+  const ratio = isNum(s1.sd) && isNum(s3.sd) && s1.sd > 0 ? (s3.sd / s1.sd) ** 2 : NaN;
+  const shown = s.observations > n + 1 ? ` (the ${n} residuals shown; the check used all of them)` : '';
+  const desc =
+    `${n} residuals in time order. First third sd ${num(s1.sd)}, last third sd ${num(s3.sd)}` +
+    `${isNum(ratio) ? `, variance ratio ${num(ratio)}` : ''}${shown}. The middle third is left out, as in the spread check.`;
+  const ticks = y
+    .ticks(4)
     .map(
       (t) =>
-        `<text class="tick" x="${f(x(t))}" y="${height - m.bottom + 16}" text-anchor="middle">${h(num(t))}</text>`,
+        `<line class="grid" x1="${m.left}" x2="${HALF - m.right}" y1="${f(y(t))}" y2="${f(y(t))}"/><text class="tick" x="${m.left - 6}" y="${f(y(t))}" dy="0.32em" text-anchor="end">${h(num(t))}</text>`,
     )
     .join('');
-  const desc = `Histogram of ${n} residuals in ${bins} bins, with the normal curve of mean ${num(mean)} and standard deviation ${num(sd)}.`;
   return (
-    svgOpenHalf(id, height, title, desc, 'hist') +
-    plotGroup(x, y, false) +
-    yAxis(y, m.left, HALF - m.right) +
+    svgOpenHalf(id, height, title, desc, 'spread') +
+    plotGroup(x, y, tl.timeAxis) +
     ticks +
-    bars +
-    (curve ? `<path class="normal-curve" d="${curve}"/>` : '') +
+    band(first, s1, 'first', 'first third') +
+    band(last, s3, 'last', 'last third') +
+    `<line class="zero" x1="${m.left}" x2="${HALF - m.right}" y1="${f(y(0))}" y2="${f(y(0))}"/>` +
+    pts
+      .map(
+        (p, i) =>
+          `<circle class="resid-dot${i < third || i >= n - third ? '' : ' middle'}" cx="${f(X(p.x))}" cy="${f(y(p.r))}" r="${n > 150 ? 1.2 : 1.8}"/>`,
+      )
+      .join('') +
+    `<text class="tick" x="${HALF - m.right}" y="${height - 8}" text-anchor="end">time →</text>` +
     '</g></svg>'
   );
+}
+
+/**
+ * The normality check's picture: a normal Q–Q plot. Each residual, standardised by the residuals'
+ * own mean and standard deviation, against the normal quantile of its rank (Blom's plotting
+ * positions (i − 3/8)/(n + 1/4)); on the diagonal when the errors are normal, bending away at the
+ * ends for heavy or light tails and to one side for skew.
+ */
+export function qqChart(s: SeriesResult, id: string): string {
+  const title = `${s.name}: residuals against normal quantiles`;
+  const r = s.residuals.filter(isNum);
+  if (r.length < 3) return emptyHalf(id, title, 'Too few residuals for a Q–Q plot.', 'qq');
+  const { mean, sd } = sampleSd(r);
+  if (!(sd > 0)) return emptyHalf(id, title, 'The residuals do not vary.', 'qq');
+  const n = r.length;
+  const z = [...r].map((v) => (v - mean) / sd).sort((a, b) => a - b);
+  const q = z.map((_, i) => normalQuantile((i + 1 - 0.375) / (n + 0.25)));
+  const height = 240;
+  const m = { ...M, left: 44, bottom: 34 };
+  const lim = Math.max(3, ...z.map(Math.abs), ...q.map(Math.abs));
+  const x = scaleLinear().domain([-lim, lim]).nice().range([m.left, HALF - m.right]);
+  const y = scaleLinear().domain([-lim, lim]).nice().range([height - m.bottom, m.top]);
+  const [d0, d1] = x.domain() as [number, number];
+  const ticks =
+    y
+      .ticks(5)
+      .map(
+        (t) =>
+          `<line class="grid" x1="${m.left}" x2="${HALF - m.right}" y1="${f(y(t))}" y2="${f(y(t))}"/><text class="tick" x="${m.left - 6}" y="${f(y(t))}" dy="0.32em" text-anchor="end">${t}</text>`,
+      )
+      .join('') +
+    x
+      .ticks(5)
+      .map(
+        (t) => `<text class="tick" x="${f(x(t))}" y="${height - m.bottom + 14}" text-anchor="middle">${t}</text>`,
+      )
+      .join('');
+  const beyond = z.filter((v, i) => Math.abs(v - q[i]!) > 1).length;
+  const desc =
+    `${n} residuals, standardised, against the normal quantiles of their ranks. ` +
+    `${beyond === 0 ? 'All lie within one unit of the diagonal.' : `${beyond} lie more than one unit off the diagonal.`}`;
+  return (
+    svgOpenHalf(id, height, title, desc, 'qq') +
+    plotGroup(x, y, false) +
+    ticks +
+    `<line class="qq-line" x1="${f(x(d0))}" y1="${f(y(d0))}" x2="${f(x(d1))}" y2="${f(y(d1))}"/>` +
+    z
+      .map(
+        (v, i) =>
+          `<circle class="qq-dot${Math.abs(v - q[i]!) > 1 ? ' off' : ''}" cx="${f(x(q[i]!))}" cy="${f(y(v))}" r="2.2"/>`,
+      )
+      .join('') +
+    `<text class="tick" x="${HALF - m.right}" y="${height - 4}" text-anchor="end">normal quantile</text>` +
+    `<text class="tick" x="${m.left + 4}" y="${m.top + 4}">residual (sd units)</text>` +
+    '</g></svg>'
+  );
+}
+
+/**
+ * The autocorrelation check's picture: the Ljung–Box p-value computed with 1, 2, … lags (from the
+ * residual autocorrelations in the results), on a log scale with the 5% line; the lag count the check
+ * used is ringed. Points below the line are lag counts at which the residuals look autocorrelated.
+ * Each p-value uses df = lags − K, with K (the method's estimated parameters) read off the check's
+ * own lags and df, so the ringed point is the check's own p-value.
+ */
+export function ljungBoxChart(s: SeriesResult, id: string): string {
+  const title = `${s.name}: Ljung–Box p-value by number of lags`;
+  const c = s.residualChecks;
+  const lb = c?.ljungBox;
+  const acf = c?.acf ?? [];
+  if (!c || !lb || !isNum(lb.statistic) || acf.length === 0 || !acf.every(isNum))
+    return emptyHalf(id, title, 'The autocorrelation check was not computed.', 'lb');
+  const K = lb.df === null ? 0 : Math.max(0, lb.lags - lb.df);
+  const n = residualCount(lb.statistic, acf.slice(0, lb.lags));
+  if (n === null) return emptyHalf(id, title, 'The autocorrelation check was not computed.', 'lb');
+  const pts: { lag: number; p: number }[] = [];
+  let sum = 0;
+  acf.forEach((rk, i) => {
+    const k = i + 1;
+    sum += (rk * rk) / (n - k);
+    if (k - K >= 1) pts.push({ lag: k, p: 1 - chiSquareCdf(n * (n + 2) * sum, k - K) });
+  });
+  if (pts.length === 0) return emptyHalf(id, title, 'The autocorrelation check was not computed.', 'lb');
+  const FLOOR = 1e-4;
+  const height = 240;
+  const m = { ...M, left: 60, bottom: 34 };
+  const x = scaleLinear()
+    .domain([0.5, acf.length + 0.5])
+    .range([m.left, HALF - m.right]);
+  const y = scaleLog()
+    .domain([FLOOR, 1])
+    .range([height - m.bottom, m.top]);
+  const Y = (p: number) => y(Math.max(FLOOR, Math.min(1, p)));
+  const path = line<{ lag: number; p: number }>()
+    .x((d) => x(d.lag))
+    .y((d) => Y(d.p))(pts);
+  const below = pts.filter((d) => d.p < 0.05).length;
+  const desc =
+    `Ljung–Box p-values for ${pts[0]!.lag} to ${pts.at(-1)!.lag} lags; the check used ${lb.lags} (p ${pval(lb.pValue)}). ` +
+    `${below === 0 ? 'None is below 5%.' : `${below} of ${pts.length} are below 5%.`}`;
+  const ticks =
+    [1, 0.1, 0.01, 0.001, 0.0001]
+      .map(
+        (t) =>
+          `<line class="grid" x1="${m.left}" x2="${HALF - m.right}" y1="${f(y(t))}" y2="${f(y(t))}"/><text class="tick" x="${m.left - 6}" y="${f(y(t))}" dy="0.32em" text-anchor="end">${t === 0.0001 ? '≤0.0001' : t}</text>`,
+      )
+      .join('') +
+    x
+      .ticks(Math.min(acf.length, 8))
+      .filter((t) => Number.isInteger(t) && t >= 1)
+      .map((t) => `<text class="tick" x="${f(x(t))}" y="${height - m.bottom + 14}" text-anchor="middle">${t}</text>`)
+      .join('');
+  const chosen = pts.find((d) => d.lag === lb.lags);
+  return (
+    svgOpenHalf(id, height, title, desc, 'lb') +
+    plotGroup(x, y, false) +
+    ticks +
+    `<line class="p-line" x1="${m.left}" x2="${HALF - m.right}" y1="${f(y(0.05))}" y2="${f(y(0.05))}"/>` +
+    `<text class="tick" x="${HALF - m.right}" y="${f(y(0.05))}" dy="-0.4em" text-anchor="end">5%</text>` +
+    (path ? `<path class="lb-line" d="${path}"/>` : '') +
+    pts
+      .map(
+        (d) =>
+          `<circle class="lb-dot${d.p < 0.05 ? ' low' : ''}" data-lags="${d.lag}" data-p="${d.p}" cx="${f(x(d.lag))}" cy="${f(Y(d.p))}" r="3"><title>${d.lag} lags: p ${h(pval(d.p))}</title></circle>`,
+      )
+      .join('') +
+    (chosen
+      ? `<circle class="lb-used" cx="${f(x(chosen.lag))}" cy="${f(Y(chosen.p))}" r="7"><title>the check: ${chosen.lag} lags</title></circle>`
+      : '') +
+    `<text class="tick" x="${HALF - m.right}" y="${height - 4}" text-anchor="end">lags</text>` +
+    '</g></svg>'
+  );
+}
+
+/**
+ * The number of residuals n behind a Ljung–Box statistic Q = n(n+2) Σ r_k²/(n−k): Q grows with n,
+ * so n is the whole number that reproduces Q (found by bisection). Null when none does.
+ */
+export function residualCount(q: number, acf: number[]): number | null {
+  const L = acf.length;
+  const Q = (n: number) => n * (n + 2) * acf.reduce((a, r, i) => a + (r * r) / (n - i - 1), 0);
+  if (!(q > 0) || L === 0) return null;
+  let lo = L + 1;
+  let hi = L + 2;
+  while (Q(hi) < q && hi < 1e9) hi *= 2;
+  while (hi - lo > 1) {
+    const mid = Math.floor((lo + hi) / 2);
+    if (Q(mid) < q) lo = mid;
+    else hi = mid;
+  }
+  const best = Math.abs(Q(lo) - q) <= Math.abs(Q(hi) - q) ? lo : hi;
+  return Math.abs(Q(best) - q) <= 1e-6 * Math.max(1, q) ? best : null;
 }
 
 /** The backtest comparison: each candidate's selection score (lower is better), the chosen one marked. */

@@ -127,7 +127,7 @@ describe('HTML report in Chromium', () => {
     expect(errors).toEqual([]);
     expect(await page.locator('script, img, b, i, iframe').count()).toBe(0);
     const heading = await page
-      .locator('section.metric h2', { hasText: 'evil' })
+      .locator('details.metric h2', { hasText: 'evil' })
       .evaluate((h) => h.firstChild!.textContent);
     expect(heading!.trim()).toBe(NASTY_NAME);
     await page.close();
@@ -191,6 +191,8 @@ describe('fan chart geometry', () => {
   it('draws each checked observation at its value and time, alarms as a distinct shape', async () => {
     const run = mixedRun();
     const { page } = await load(renderHtml(run), 'checked');
+    // Healthy series start folded; unfold them all to measure.
+    await page.evaluate(() => document.querySelectorAll('details').forEach((d) => (d.open = true)));
     for (const [i, s] of run.series.entries()) {
       for (const c of s.checked) {
         const section = `#metric-${i + 1}`;
@@ -239,23 +241,78 @@ describe('fan chart geometry', () => {
     await page.close();
   });
 
-  it('draws the ACF bounds at ±1.96/√n', async () => {
-    const run = results([series({ name: 'acf' })]);
+  it("draws the Ljung–Box p-value against the number of lags, the check's own ringed", async () => {
+    const run = results([series({ name: 'lb' })]);
     const s = run.series[0]!;
+    const lb = s.residualChecks!.ljungBox;
+    const acf = s.residualChecks!.acf;
     const n = s.residuals.filter((r) => r !== null).length;
-    const { page } = await load(renderHtml(run), 'acf');
-    const bounds = await page.$$eval('svg.acf line.acf-bound', (ls) =>
-      ls.map((l) => Number(l.getAttribute('data-bound'))),
+    const { page } = await load(renderHtml(run), 'lb');
+    const dots = await page.$$eval('svg.lb circle.lb-dot', (cs) =>
+      cs.map((c) => ({ lags: Number(c.getAttribute('data-lags')), p: Number(c.getAttribute('data-p')) })),
     );
-    expect(bounds[0]).toBeCloseTo(1.96 / Math.sqrt(n), 12);
-    expect(bounds[1]).toBeCloseTo(-1.96 / Math.sqrt(n), 12);
-    expect(await page.locator('svg.acf rect.acf-bar').count()).toBe(s.residualChecks!.acf.length);
-    // Histogram bars hold every residual.
-    const counts = await page.$$eval('svg.hist rect.hist-bar', (rs) =>
-      rs.map((r) => Number(r.getAttribute('data-count'))),
-    );
-    expect(counts.reduce((a, b) => a + b, 0)).toBe(n);
+    expect(dots).toHaveLength(acf.length);
+    // Q(L) = n(n+2) Σ_{k≤L} r_k²/(n−k) with df L (naive: no parameter estimated), p from
+    // @stdlib/stats-base-dists-chisquare-cdf as the outside oracle.
+    const { default: chisqCdf } = await import('@stdlib/stats-base-dists-chisquare-cdf');
+    let sum = 0;
+    for (const [i, d] of dots.entries()) {
+      sum += acf[i]! ** 2 / (n - i - 1);
+      expect(d.lags).toBe(i + 1);
+      expect(d.p).toBeCloseTo(1 - chisqCdf(n * (n + 2) * sum, i + 1), 9);
+    }
+    // The ringed point is the check itself.
+    expect(dots[lb.lags - 1]!.p).toBeCloseTo(lb.pValue, 9);
+    expect(await page.locator('svg.lb circle.lb-used').count()).toBe(1);
     await page.close();
+  });
+
+  it('draws a normal Q–Q plot and the spread of the first and last thirds the spread check compares', async () => {
+    const run = results([series({ name: 'qq', n: 61 })]);
+    const s = run.series[0]!;
+    const r = s.residuals.filter((x): x is number => x !== null);
+    const { page } = await load(renderHtml(run), 'qq');
+    expect(await page.locator('svg.qq circle.qq-dot').count()).toBe(r.length);
+    const sd = (xs: number[]) => {
+      const m = xs.reduce((a, b) => a + b, 0) / xs.length;
+      return Math.sqrt(xs.reduce((a, b) => a + (b - m) ** 2, 0) / (xs.length - 1));
+    };
+    const third = Math.floor(r.length / 3);
+    const bands = await page.$$eval('svg.spread rect.spread-band', (rs) =>
+      rs.map((x) => Number(x.getAttribute('data-sd'))),
+    );
+    expect(bands[0]).toBeCloseTo(sd(r.slice(0, third)), 9);
+    expect(bands[1]).toBeCloseTo(sd(r.slice(r.length - third)), 9);
+    // No trio of residual line, autocorrelation bars and histogram.
+    expect(await page.locator('svg.acf, svg.hist, svg.resid').count()).toBe(0);
+    await page.close();
+  });
+});
+
+describe('HTML layout', () => {
+  it('folds healthy series and opens those needing attention, so ten series make a short page', async () => {
+    const run = mixedRun();
+    const { page } = await load(renderHtml(run), 'folded');
+    const open = await page.$$eval('details.metric', (ds) => ds.map((d) => (d as HTMLDetailsElement).open));
+    expect(open).toEqual(run.series.map((s) => s.verdict === 'alarm' || s.verdict === 'at-risk'));
+    await page.close();
+    const ten = results([
+      ...Array.from({ length: 9 }, (_, i) => series({ name: `quiet ${i}`, seed: i + 20 })),
+      series({ name: 'loud', lastValue: 400 }),
+    ]);
+    const { page: p2 } = await load(renderHtml(ten), 'ten');
+    const height = await p2.evaluate(() => document.documentElement.scrollHeight);
+    expect(height).toBeLessThan(6000);
+    await p2.close();
+  });
+
+  it('never says one interval kind in a header while the checked rows were judged with another', () => {
+    const s = series({ name: 'kinds' });
+    s.intervalKind = 'empirical';
+    s.checked = s.checked.map((c) => ({ ...c, intervalKind: 'analytic' }));
+    const html = renderHtml(results([s]));
+    expect(html).toContain('empirical intervals for the forecast, analytic for the checked row');
+    expect(html).not.toMatch(/· empirical intervals ·/);
   });
 });
 
@@ -277,13 +334,15 @@ describe('HTML size', () => {
       `Sections for the first ${HTML_SECTIONS} of ${HTML_SECTIONS + 20} series are shown`,
     );
     // The planted alarm sits near the end of the results but gets a section; alarms come first.
-    const headed = [...html.matchAll(/<h2 id="metric-\d+-h">([^<]*)/g)].map((m) => m[1]!.trim());
+    const headed = [...html.matchAll(/<details class="metric" id="metric-\d+"[^>]*>\n<summary><h2>([^<]*)/g)].map(
+      (m) => m[1]!.trim(),
+    );
     expect(headed).toContain(`fleet ${HTML_SECTIONS + 10}`);
     const alarmNames = new Set(run.series.filter((x) => x.verdict === 'alarm').map((x) => x.name));
     const firstOk = headed.findIndex((n) => !alarmNames.has(n));
     expect(firstOk).toBe(alarmNames.size);
     const overviewRows = html
-      .slice(html.indexOf('<h2>Overview</h2>'), html.indexOf('<section'))
+      .slice(html.indexOf('<h2>Overview</h2>'), html.indexOf('<details class="metric"'))
       .match(/<tr>/g)!;
     expect(overviewRows).toHaveLength(HTML_SECTIONS + 20 + 1); // + header
   });
