@@ -6,6 +6,7 @@ import * as core from '@actions/core';
 import { isLeadlineError } from '../errors.js';
 import { filesRead, outputProblems, inputGuard, InputGuard, resultsJson, writeOutput } from '../files.js';
 import { runJob, type JobOptions } from '../job.js';
+import { VERDICT_LABEL } from '../report/format.js';
 import { renderHtml, renderMarkdown } from '../report/index.js';
 import { RESULTS_SCHEMA_ID, type Results } from '../results.js';
 import { logSafe, visible } from '../untrusted.js';
@@ -199,7 +200,7 @@ async function runAction(d: ActionDeps): Promise<void> {
     jobError = e;
     results = failedRun(e, s);
   }
-  info(`Leadline verdict: ${results.verdict}. ${results.gate.reason}`);
+  info(`Leadline: ${VERDICT_LABEL[results.verdict]}. ${results.gate.reason}`);
 
   // Output files. A failure here fails the step after everything else is done.
   const guard = new InputGuard(s.workingDirectory, s.config, before.patterns, filesRead(results));
@@ -370,7 +371,12 @@ async function tryPublish(
       withMarker(
         fitRendering(
           (maxChars) =>
-            d.renderMarkdown(results, { maxChars, fullReportNote: fullReportNote(link), marker: mark }),
+            d.renderMarkdown(results, {
+              maxChars,
+              fullReportNote: fullReportNote(link),
+              marker: mark,
+              detail: 'brief',
+            }),
           COMMENT_MAX_CHARS,
           COMMENT_MAX_BYTES,
         ),

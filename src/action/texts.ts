@@ -1,6 +1,7 @@
 // The texts the Action builds around the rendered report: sizes kept within GitHub's limits, the
 // tracking issue's title and notes. Pure; the renderer is passed in.
 import type { Results } from '../results.js';
+import { VERDICT_LABEL } from '../report/format.js';
 import { oneLine } from './annotations.js';
 
 /** Comment and issue bodies: at most 65,536 characters (and 262,144 UTF-8 bytes). */
@@ -82,14 +83,15 @@ export function reopenNote(r: Results, link: string | null): string {
   const n = attentionCount(r);
   return (
     `Reopened${link ? ` by [this run](${link})` : ''}: ${n} metric${n === 1 ? '' : 's'} need${n === 1 ? 's' : ''} attention again ` +
-    `(verdict: ${r.verdict}). The description above has the current report.`
+    `(${VERDICT_LABEL[r.verdict]}). The description above has the current report.`
   );
 }
 
 /** Where the full report is, for the renderer's note when it has to cut. */
 export function fullReportNote(link: string | null): string {
   return (
-    `The full report is in the results JSON and markdown files of ${link ? `[this run](${link})` : 'this run'} ` +
-    '(kept when the workflow uploads them with actions/upload-artifact), and in its job summary.'
+    `The full report — every series' forecast, backtest and residual checks — is in the job summary of ` +
+    `${link ? `[this run](${link})` : 'this run'}, and in its HTML report and results JSON when the workflow ` +
+    'uploads them as an artifact (see the README).'
   );
 }

@@ -1,16 +1,12 @@
-// The concise terminal summary: one line for the run, one per series that needs a look.
+// The terminal summary: one line for the run, one per series (attention first), then what chance
+// alone would do and the gate. Words are the reports' own (VERDICT_LABEL), never upper-cased.
+import { VERDICT_LABEL } from '../report/format.js';
+import { chanceSentence, needsAttention, placement, reportOrder } from '../report/view.js';
 import type { Results, SeriesResult, Verdict } from '../results.js';
 
 const CODES = { red: 31, green: 32, yellow: 33, blue: 34, dim: 2, bold: 1 } as const;
 type Paint = (c: keyof typeof CODES, s: string) => string;
 
-const LABEL: Record<Verdict, string> = {
-  ok: 'ok',
-  alarm: 'ALARM',
-  'at-risk': 'AT RISK',
-  'insufficient-data': 'too little data',
-  error: 'ERROR',
-};
 const COLOUR: Record<Verdict, keyof typeof CODES> = {
   ok: 'green',
   alarm: 'red',
@@ -18,6 +14,9 @@ const COLOUR: Record<Verdict, keyof typeof CODES> = {
   'insufficient-data': 'dim',
   error: 'red',
 };
+
+/** Widest verdict word, for the column. */
+const WORD_WIDTH = Math.max(...Object.values(VERDICT_LABEL).map((w) => w.length));
 
 /** Control characters in metric names or cells must not reach the terminal as escapes. */
 function clean(s: string): string {
@@ -32,13 +31,14 @@ function fmt(x: number): string {
 }
 
 function line(s: SeriesResult, paint: Paint): string {
-  const tag = paint(COLOUR[s.verdict], LABEL[s.verdict].padEnd(15));
-  const method = s.method ? paint('dim', ` [${s.method}, ${s.intervalKind}]`) : '';
-  const last = s.checked[s.checked.length - 1];
+  const tag = paint(COLOUR[s.verdict], VERDICT_LABEL[s.verdict].padEnd(WORD_WIDTH));
+  const last = s.checked.at(-1);
   const judged = last
-    ? ` last ${fmt(last.value)} vs ${last.level}% interval ${fmt(last.lower)} … ${fmt(last.upper)}`
+    ? ` ${fmt(last.value)} vs ${last.level}% interval ${fmt(last.lower)} … ${fmt(last.upper)}: ${placement(s, last)}`
     : '';
-  return `  ${tag} ${clean(s.name)}${method}${judged}${s.reason ? paint('dim', ` — ${clean(s.reason)}`) : ''}`;
+  const method = s.method ? paint('dim', ` [${s.method}, ${s.intervalKind}]`) : '';
+  const why = s.reason && (s.verdict !== 'ok' || !last) ? paint('dim', ` — ${clean(s.reason)}`) : '';
+  return `  ${tag}  ${clean(s.name)}${method}${judged}${why}`;
 }
 
 export function renderSummary(r: Results, color: boolean): string {
@@ -46,21 +46,21 @@ export function renderSummary(r: Results, color: boolean): string {
   const out: string[] = [];
   const s = r.summary;
   out.push(
-    `${paint('bold', 'Leadline')}: ${paint(COLOUR[r.verdict], LABEL[r.verdict])} — ${s.series} series, ${s.checkedObservations} checked, ` +
-      `${s.alarms} alarm${s.alarms === 1 ? '' : 's'} (about ${s.expectedFalseAlarms.toFixed(2)} expected by chance), ` +
-      `${s.atRisk} limit${s.atRisk === 1 ? '' : 's'} at risk`,
+    `${paint('bold', 'Leadline')}: ${paint(COLOUR[r.verdict], VERDICT_LABEL[r.verdict])} — ${s.series} series, ` +
+      `${s.checkedObservations} observation${s.checkedObservations === 1 ? '' : 's'} checked, ` +
+      `${s.alarms} alarm${s.alarms === 1 ? '' : 's'}, ${s.atRisk} limit${s.atRisk === 1 ? '' : 's'} at risk`,
   );
-  const order: Verdict[] = ['error', 'alarm', 'at-risk', 'insufficient-data', 'ok'];
-  const sorted = [...r.series].sort((a, b) => order.indexOf(a.verdict) - order.indexOf(b.verdict));
-  const shown = sorted.length > 40 ? sorted.filter((x) => x.verdict !== 'ok') : sorted;
+  const sorted = reportOrder(r);
+  const shown = sorted.length > 40 ? sorted.filter((x) => needsAttention(x)) : sorted;
   for (const x of shown) out.push(line(x, paint));
   if (shown.length < sorted.length)
-    out.push(paint('dim', `  … and ${sorted.length - shown.length} series that are ok`));
+    out.push(paint('dim', `  … and ${sorted.length - shown.length} more series needing no attention`));
   for (const p of r.problems) {
     const where = [p.file, p.line, p.column].filter((v) => v !== null).join(':');
     out.push(`  ${paint('red', 'problem')} ${clean(where ? `${where}: ` : '')}${clean(p.message)}`);
   }
   for (const n of r.notes ?? []) out.push(`  ${paint('blue', 'note')} ${clean(n)}`);
+  out.push(paint('dim', chanceSentence(r)));
   out.push(paint(r.gate.passed ? 'green' : 'red', r.gate.reason));
   out.push(paint('dim', 'Forecasts are estimates with stated uncertainty, not guarantees.'));
   return out.join('\n') + '\n';

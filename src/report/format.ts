@@ -57,11 +57,16 @@ export function shortWhen(iso: string | null, spacing: Spacing, index: number): 
   }
 }
 
+/**
+ * The one word for each verdict wherever a person reads it: reports, terminal, counts and the log.
+ * The results JSON and the Action's `verdict` output keep the codes (`ok`, `alarm`, `at-risk`,
+ * `insufficient-data`, `error`): results are version 1, so values are added, never renamed.
+ */
 export const VERDICT_LABEL: Record<Verdict, string> = {
-  ok: 'ok',
-  alarm: 'alarm',
+  ok: 'steady',
+  alarm: 'out of line',
   'at-risk': 'limit at risk',
-  'insufficient-data': 'not enough data',
+  'insufficient-data': 'too short',
   error: 'error',
 };
 

@@ -3,6 +3,7 @@
 import Handlebars from 'handlebars';
 import { LeadlineError } from '../errors.js';
 import type { Results } from '../results.js';
+import briefTemplate from './templates/brief.hbs';
 import reportTemplate from './templates/report.hbs';
 import seriesTemplate from './templates/series.hbs';
 import { buildView, type ReportView } from './view.js';
@@ -19,6 +20,12 @@ export interface MarkdownOptions {
   fullReportNote?: string;
   /** A hidden HTML comment placed first, e.g. for finding the comment again. */
   marker?: string;
+  /**
+   * `brief`: what a pull-request comment or tracking issue needs (verdict, what was checked, what
+   * needs attention with its charts, one line on the rest) and where the full report is. `full`
+   * (default): every series' details as well, for the job summary and the markdown file.
+   */
+  detail?: 'brief' | 'full';
 }
 
 export const DEFAULT_MAX_CHARS = 65_536;
@@ -31,6 +38,10 @@ type Render = (view: ReportView) => string;
 const hb = Handlebars.create();
 hb.registerPartial('series', seriesTemplate);
 const builtIn = hb.compile(reportTemplate, { noEscape: true, strict: false });
+const builtInBrief = hb.compile(briefTemplate, { noEscape: true, strict: false });
+
+/** Most charts in a brief report: the first few series needing attention. */
+export const BRIEF_CHARTS = 3;
 
 function compile(source: string): Render {
   let fn: HandlebarsTemplateDelegate;
@@ -150,10 +161,17 @@ function largest(lo: number, hi: number, ok: (n: number) => boolean): number {
 export function renderMarkdown(results: Results, opts: MarkdownOptions = {}): string {
   const maxChars = Math.floor(opts.maxChars ?? DEFAULT_MAX_CHARS);
   if (!(maxChars > 0)) throw new RangeError(`maxChars must be a positive number, got ${opts.maxChars}`);
-  const render = opts.template !== undefined ? compile(opts.template) : builtIn;
+  const brief = opts.detail === 'brief';
+  const render = opts.template !== undefined ? compile(opts.template) : brief ? builtInBrief : builtIn;
   const head = opts.marker ? `${opts.marker}\n` : '';
   const note = opts.fullReportNote ?? 'The results JSON has every metric in full.';
-  const view = buildView(results, opts.maxCharts === undefined ? {} : { maxCharts: opts.maxCharts });
+  const maxCharts = opts.maxCharts ?? (brief ? BRIEF_CHARTS : undefined);
+  const built = buildView(results, {
+    ...(maxCharts === undefined ? {} : { maxCharts }),
+    fullReportNote: note,
+  });
+  // A brief report has no per-series sections; its charts are those of the series needing attention.
+  const view = brief ? { ...built, series: [] } : built;
   const out = (v: ReportView) => head + tidy(render(v));
 
   // Every metric section is well over MIN_SECTION characters, so a big fleet skips the full render.

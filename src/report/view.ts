@@ -10,6 +10,7 @@ import type {
   TestSummary,
   Verdict,
 } from '../results.js';
+import { sideAlpha } from '../alarms/index.js';
 import { escapeMarkdown as md } from './escape.js';
 import {
   METHOD_LABEL,
@@ -97,7 +98,13 @@ export interface BacktestRow {
 }
 
 export interface CheckRow {
+  /** Which check: ljungBox, bias, normality or spread. */
+  key: string;
   ok: boolean;
+  /** passed, flagged, or not-computed (too few residuals, or none that vary). */
+  state: 'passed' | 'flagged' | 'not-computed';
+  /** "⚠️ " before a flagged check's result, else "". */
+  mark: string;
   name: string;
   result: string;
   statistic: string;
@@ -163,11 +170,21 @@ export interface ReportView {
   series: SeriesView[];
   /** Set when the report was cut to fit: what was left out and where the full report is. */
   omitted: string | null;
+  /** One line about the series that need no attention, e.g. "8 other series: 7 steady, 1 too short (x)." */
+  others: string | null;
+  /** At most one line on residual-check caveats; each series' details say which check and why. */
+  caveats: string | null;
+  /** What the run checked, e.g. "This pull request adds 3 rows to a.csv." Null when not known. */
+  scope: string | null;
+  /** Where the full report is (the brief report always says it). */
+  fullReport: string;
 }
 
 export interface ViewOptions {
   /** Most Mermaid charts in the report (attention items first). Default 5. */
   maxCharts?: number;
+  /** Where the full report is, for `fullReport`. */
+  fullReportNote?: string;
 }
 
 const FORECAST_ROWS = 24;
@@ -194,8 +211,8 @@ export function failedChecks(s: SeriesResult): string[] {
 }
 
 /**
- * Alarms, limits at risk and errors: what a reviewer should look at. A flagged residual check is a
- * caveat about the model, shown with the series, not a reason for attention.
+ * What a reviewer should act on: alarms, limits at risk and errors. Residual-check flags are caveats
+ * about a series' intervals, shown in its details, not a call to act.
  */
 export function needsAttention(s: SeriesResult): boolean {
   return s.verdict === 'alarm' || s.verdict === 'at-risk' || s.verdict === 'error';
@@ -224,13 +241,17 @@ function checkedWhere(s: SeriesResult, c: CheckedObservation): string {
   return t ? `${t} (${line})` : line;
 }
 
+/** Where a checked observation fell, said as it is: inside, an alarm, or outside on a side not watched. */
+export function placement(s: Pick<SeriesResult, 'direction'>, c: CheckedObservation): string {
+  if (c.alarm) return `outside, ${c.side}: alarm`;
+  if (!c.outside) return 'inside';
+  if (s.direction === 'both' || c.side === s.direction)
+    return `outside, ${c.side}, but not an alarm after the false-alarm adjustment`;
+  return `outside on the ${c.side === 'above' ? 'high' : 'low'} side, which is not watched`;
+}
+
 function checkedRow(s: SeriesResult, c: CheckedObservation): CheckedRow {
-  let result: string;
-  if (c.alarm) result = `alarm (${c.side === 'below' ? 'below' : 'above'} the interval)`;
-  else if (!c.outside) result = 'inside';
-  else if (s.direction === 'both' || c.side === s.direction)
-    result = 'outside, but not an alarm after the false-alarm adjustment';
-  else result = `outside on the ${c.side === 'above' ? 'high' : 'low'} side, which is not watched`;
+  const result = placement(s, c);
   return {
     alarm: c.alarm,
     where: checkedWhere(s, c),
@@ -244,22 +265,20 @@ function checkedRow(s: SeriesResult, c: CheckedObservation): CheckedRow {
 }
 
 function attentionRow(s: SeriesResult, section: number): AttentionRow {
-  const failed = failedChecks(s);
-  const why: string[] = [];
-  if (s.reason) why.push(md(s.reason));
-  if (failed.length > 0) why.push(`model caveat: ${failed.join(', ').toLowerCase()} flagged`);
+  // "Latest" is the newest value of the series; the range beside it is the interval that newest
+  // checked observation was judged against (the reason names an earlier alarm when there is one).
   const last = s.checked.at(-1);
-  const alarmObs = s.checked.find((c) => c.alarm) ?? last;
   const lastValue = [...s.history].reverse().find((h) => h.value !== null);
+  const lastIsChecked = last !== undefined && lastValue !== undefined && last.index === lastValue.index;
   return {
     section,
     name: md(s.name),
     verdict: verdictView(s.verdict),
-    why: why.join('; ') || md(VERDICT_LABEL[s.verdict]),
+    why: md(s.reason) || md(VERDICT_LABEL[s.verdict]),
     spark: sparkline(s.history.map((h) => h.value)),
-    latest: alarmObs ? num(alarmObs.value, 6) : lastValue ? num(lastValue.value, 6) : 'n/a',
-    expected: alarmObs ? `${num(alarmObs.lower)} to ${num(alarmObs.upper)}` : 'n/a',
-    where: alarmObs ? locate(s.file, alarmObs.row) : md(s.file),
+    latest: lastValue ? num(lastValue.value, 6) : 'n/a',
+    expected: lastIsChecked ? `${num(last.lower)} to ${num(last.upper)} (${last.level}%)` : '',
+    where: lastValue ? locate(s.file, lastValue.row) : md(s.file),
   };
 }
 
@@ -282,7 +301,7 @@ function limitRow(s: SeriesResult): LimitRow | null {
     name: md(s.name),
     verdict: verdictView(s.verdict),
     limit: `${l.side} ${num(l.value, 6)}`,
-    within: `${md(l.withinLabel)} (${plural(l.within, STEP_UNIT[s.spacing])})`,
+    within: plural(l.within, STEP_UNIT[s.spacing]),
     chance: pct(l.probability),
     allowed: pct(l.risk),
     pointCrossing: crossing(s, l.pointCrossing),
@@ -295,7 +314,7 @@ function limitSentence(s: SeriesResult): string | null {
   const l = s.limit;
   if (!l) return null;
   const unit = STEP_UNIT[s.spacing];
-  const head = `Limit: ${l.side} ${num(l.value, 6)} within ${md(l.withinLabel)} (${plural(l.within, unit)}).`;
+  const head = `Limit: ${l.side} ${num(l.value, 6)} within the next ${plural(l.within, unit)}.`;
   if (l.alreadyCrossed) return `${head} The last observation is already ${l.side} it.`;
   return (
     `${head} Chance of crossing at any point in the window: ${pct(l.probability)} from ${num(l.paths)} simulated paths ` +
@@ -323,13 +342,36 @@ function backtestRows(s: SeriesResult): BacktestRow[] {
   return rows.map(({ sortKey: _s, ...r }) => r);
 }
 
-function testRow(name: string, t: TestSummary | undefined, statistic: string): CheckRow | null {
+/** A check with no statistic was not computed (too few residuals, or none that vary): never "passed". */
+function checkState(t: TestSummary & { zeroByConstruction?: boolean }): CheckRow['state'] {
+  if (t.zeroByConstruction) return 'not-computed';
+  if (!Number.isFinite(t.statistic) && !Number.isFinite(t.pValue)) return 'not-computed';
+  return t.ok ? 'passed' : 'flagged';
+}
+
+const CHECK_STATE_WORD: Record<CheckRow['state'], string> = {
+  passed: 'passed',
+  flagged: 'flagged',
+  'not-computed': 'not computed',
+};
+
+
+function testRow(
+  key: string,
+  name: string,
+  t: (TestSummary & { zeroByConstruction?: boolean }) | undefined,
+  statistic: string,
+): CheckRow | null {
   if (!t) return null;
+  const state = checkState(t);
   return {
+    key,
     ok: t.ok,
+    state,
+    mark: state === 'flagged' ? '⚠️ ' : '',
     name,
-    result: t.ok ? 'passed' : 'flagged',
-    statistic,
+    result: CHECK_STATE_WORD[state],
+    statistic: state === 'not-computed' && !t.zeroByConstruction ? '' : statistic,
     p: pval(t.pValue),
     finding: md(t.finding ?? ''),
   };
@@ -341,11 +383,13 @@ function checkRows(s: SeriesResult): CheckRow[] {
   const df = (t: TestSummary) => (t.df === null || t.df === undefined ? '' : `, df ${t.df}`);
   const rows = [
     testRow(
+      'ljungBox',
       `${CHECK_NAMES.ljungBox}, ${plural(c.ljungBox?.lags ?? 0, 'lag')}`,
       c.ljungBox,
       c.ljungBox ? `Q = ${num(c.ljungBox.statistic)}${df(c.ljungBox)}` : '',
     ),
     testRow(
+      'bias',
       CHECK_NAMES.bias,
       c.bias,
       c.bias
@@ -355,6 +399,7 @@ function checkRows(s: SeriesResult): CheckRow[] {
         : '',
     ),
     testRow(
+      'normality',
       CHECK_NAMES.normality,
       c.normality,
       c.normality
@@ -362,6 +407,7 @@ function checkRows(s: SeriesResult): CheckRow[] {
         : '',
     ),
     testRow(
+      'spread',
       `${CHECK_NAMES.spread}${c.spread?.test ? ` (${md(c.spread.test)})` : ''}`,
       c.spread,
       c.spread ? `statistic ${num(c.spread.statistic)}${df(c.spread)}` : '',
@@ -417,7 +463,17 @@ function facts(s: SeriesResult): string {
   parts.push(SPACING_WORD[s.spacing]);
   parts.push(s.season > 1 ? `season ${s.season} (${s.seasonSource})` : `no season (${s.seasonSource})`);
   if (s.method) parts.push(`method ${METHOD_LABEL[s.method] ?? md(s.method)}`);
-  if (s.intervalKind) parts.push(`${md(s.intervalKind)} intervals`);
+  // The forecast's interval kind and the one the checked rows were judged with can differ (under
+  // `auto` the checked rows' kind is chosen from the history before them): say both when they do.
+  if (s.intervalKind) {
+    const judged = [...new Set(s.checked.map((c) => c.intervalKind).filter((k) => k !== undefined))];
+    if (judged.length === 0 || (judged.length === 1 && judged[0] === s.intervalKind))
+      parts.push(`${md(s.intervalKind)} intervals`);
+    else
+      parts.push(
+        `${md(s.intervalKind)} intervals for the forecast, ${judged.map(md).join(' and ')} for the checked ${s.checked.length === 1 ? 'row' : 'rows'}`,
+      );
+  }
   if (s.sigma !== null && s.sigma !== undefined)
     parts.push(`residual sd ${num(s.sigma)}${s.sigmaDf ? ` (df ${s.sigmaDf})` : ''}`);
   parts.push(`watching ${s.direction === 'both' ? 'both sides' : s.direction} at ${s.alarmLevel}%`);
@@ -468,6 +524,65 @@ function seriesView(s: SeriesResult, section: number, chart: ChartView | null): 
   };
 }
 
+/**
+ * What chance alone would do, said plainly: with no adjustment, how often a run checking these
+ * observations would raise at least one alarm if nothing had changed, 1 − Π(1 − αᵢ) over the checked
+ * observations (independent checks, each at its per-observation rate αᵢ).
+ */
+export function chanceSentence(results: Results): string {
+  const sum = results.summary;
+  const adjust =
+    sum.falseAlarms === 'none'
+      ? 'no adjustment for the number of checks'
+      : sum.falseAlarms === 'bonferroni'
+        ? 'alarms adjusted across the run (Bonferroni)'
+        : 'alarms adjusted across the run (false discovery rate, Benjamini–Hochberg)';
+  const n = sum.checkedObservations;
+  if (n === 0) return 'No observation was checked in this run.';
+  const rates: number[] = [];
+  for (const s of results.series)
+    for (const c of s.checked) rates.push(sideAlpha(c.level, s.direction));
+  const none = rates.reduce((acc, a) => acc * (1 - a), 1);
+  const any = 1 - none;
+  const share = any >= 0.995 ? 'almost always' : `about ${Math.round(any * 100) || '<1'}% of the time`;
+  if (results.summary.falseAlarms === 'none')
+    return (
+      `Even if nothing had changed, a run checking ${plural(n, 'observation')} like this one would raise ` +
+      `at least one alarm ${share} by chance alone (${adjust}).`
+    );
+  return `${plural(n, 'observation')} checked; ${adjust}.`;
+}
+
+/** Series named in a one-line list before "and n more". */
+const NAMED = 5;
+
+function names(list: SeriesResult[]): string {
+  const shown = list.slice(0, NAMED).map((s) => md(s.name));
+  return list.length > NAMED ? `${shown.join(', ')} and ${list.length - NAMED} more` : shown.join(', ');
+}
+
+/** The series needing no attention in one line: how many of each word, naming all but the steady ones. */
+function othersLine(rest: SeriesResult[], afterAttention: boolean): string | null {
+  if (rest.length === 0) return null;
+  const groups = new Map<Verdict, SeriesResult[]>();
+  for (const s of rest) groups.set(s.verdict, [...(groups.get(s.verdict) ?? []), s]);
+  const parts = [...groups.entries()].map(([v, list]) =>
+    v === 'ok' ? `${list.length} ${VERDICT_LABEL[v]}` : `${list.length} ${VERDICT_LABEL[v]} (${names(list)})`,
+  );
+  const head = plural(rest.length, afterAttention ? 'other series' : 'series', afterAttention ? 'other series' : 'series');
+  return `${head}: ${parts.join(', ')}.`;
+}
+
+/** One line on residual-check caveats, or null when no check flagged anything. */
+function caveatsLine(series: SeriesResult[]): string | null {
+  const flagged = series.filter((s) => failedChecks(s).length > 0);
+  if (flagged.length === 0) return null;
+  return (
+    `Residual checks flagged ${plural(flagged.length, 'series', 'series')} (${names(flagged)}): ` +
+    `their intervals may be less trustworthy than stated; each series' details say which check and why.`
+  );
+}
+
 /** Builds the view the markdown templates render. Pure; every string in it is escaped. */
 export function buildView(results: Results, opts: ViewOptions = {}): ReportView {
   const maxCharts = Math.max(0, Math.floor(opts.maxCharts ?? 5));
@@ -487,10 +602,13 @@ export function buildView(results: Results, opts: ViewOptions = {}): ReportView 
   const sum = results.summary;
   const v = verdictView(results.verdict);
   const headline = {
-    ok: 'Every checked observation is within its interval and no limit is at risk.',
+    ok:
+      sum.checkedObservations > 0
+        ? 'Every checked observation is within its interval and no limit is at risk.'
+        : 'No observation was checked and no limit is at risk.',
     alarm: `${plural(sum.alarms, 'observation')} outside what history predicts.`,
     'at-risk': `${plural(sum.atRisk, 'limit')} at risk of being crossed.`,
-    'insufficient-data': 'Not enough data to judge any metric yet.',
+    'insufficient-data': `Every series is ${VERDICT_LABEL['insufficient-data']} to judge yet.`,
     error: `${plural(sum.errors, 'series', 'series')} could not be analysed.`,
   }[results.verdict];
 
@@ -501,18 +619,10 @@ export function buildView(results: Results, opts: ViewOptions = {}): ReportView 
     plural(sum.alarms, 'alarm'),
     `${sum.atRisk} at risk`,
   ];
-  if (sum.insufficient > 0) countParts.push(`${sum.insufficient} without enough data`);
+  if (sum.insufficient > 0) countParts.push(`${sum.insufficient} ${VERDICT_LABEL['insufficient-data']}`);
   if (sum.errors > 0) countParts.push(`${plural(sum.errors, 'error')}`);
 
-  const adjust =
-    sum.falseAlarms === 'none'
-      ? 'no adjustment for the number of checks'
-      : sum.falseAlarms === 'bonferroni'
-        ? 'alarms adjusted across the run (Bonferroni)'
-        : 'alarms adjusted across the run (false discovery rate, Benjamini–Hochberg)';
-  const falseAlarms =
-    `By chance alone about ${num(sum.expectedFalseAlarms, 4)} of the ${sum.checkedObservations} checked ` +
-    `observations would fall outside their intervals even when nothing has changed (${adjust}).`;
+  const falseAlarms = chanceSentence(results);
 
   const limits = ordered.map(limitRow).filter((r): r is LimitRow => r !== null);
 
@@ -543,5 +653,9 @@ export function buildView(results: Results, opts: ViewOptions = {}): ReportView 
       seriesView(s, section.get(s)!, needsAttention(s) ? null : (chartFor.get(s) ?? null)),
     ),
     omitted: null,
+    others: othersLine(ordered.filter((s) => !needsAttention(s)), attention.length > 0),
+    caveats: caveatsLine(ordered),
+    scope: null,
+    fullReport: opts.fullReportNote ?? 'The results JSON has every series in full.',
   };
 }

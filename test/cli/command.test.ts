@@ -76,13 +76,17 @@ describe('the command on the demo scenario', () => {
   it('prints a terminal summary that names the alarm and says forecasts are not guarantees', async () => {
     const r = await cli([...DEMO, '--fail-on', 'alarm']);
     expect(r.code).toBe(1);
-    expect(r.out).toMatch(/ALARM\s+label-render/);
-    expect(r.out).toMatch(/AT RISK\s+events-db-storage/);
+    // Leadline's own words, the same as the reports', never upper-cased.
+    expect(r.out).toMatch(/^ {2}out of line\s+label-render .*: outside, above: alarm/m);
+    expect(r.out).toMatch(/^ {2}limit at risk\s+events-db-storage/m);
+    expect(r.out).toMatch(/^ {2}too short\s+harbour-region-signups/m);
+    expect(r.out).toMatch(/^ {2}steady\s+route-solver-bench/m);
+    expect(r.out).not.toMatch(/\b(ALARM|AT RISK|OK|too little data|not enough data)\b/);
     expect(r.out).toMatch(/Gate failed \(fail-on: alarm\): 1 alarm/);
     expect(r.out).toMatch(/not guarantees/);
     expect(r.out).not.toContain('\u001b['); // not a terminal: no colour codes
     const coloured = await cli([...DEMO, '--fail-on', 'never', '--color']);
-    expect(coloured.out).toContain('\u001b[31mALARM');
+    expect(coloured.out).toContain('\u001b[31mout of line');
   });
 
   it('exits 2 with file, line and column for a non-numeric cell, and still writes the results', async () => {
@@ -160,7 +164,7 @@ describe('the command on the demo scenario', () => {
       html,
     ]);
     expect(r.code).toBe(0);
-    expect(r.out).toBe('Run verdict: alarm (alarm)\n');
+    expect(r.out).toBe('Run verdict: out of line (alarm)\n');
     const page = readFileSync(html, 'utf8');
     expect(page).toMatch(/^<!doctype html>/i);
     expect(page).toContain('label-render');
