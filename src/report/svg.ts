@@ -5,7 +5,14 @@
 // Every chart is an <svg role="img"> with a <title> and <desc>; colours come from CSS classes so the
 // page's light and dark palettes apply. The plot group carries its scales as data-* attributes
 // (domain and range on each axis) so tests can recompute positions from the results values.
-import { scaleLinear, scaleLog, scaleUtc, type ScaleLinear, type ScaleLogarithmic, type ScaleTime } from 'd3-scale';
+import {
+  scaleLinear,
+  scaleLog,
+  scaleUtc,
+  type ScaleLinear,
+  type ScaleLogarithmic,
+  type ScaleTime,
+} from 'd3-scale';
 import { chiSquareCdf, normalQuantile } from '../engine/dist.js';
 import { area, line } from 'd3-shape';
 import type { SeriesResult } from '../results.js';
@@ -319,11 +326,14 @@ export function spreadChart(s: SeriesResult, id: string): string {
   const tl = timeline(s);
   const m = { ...M, left: 52, top: 24 };
   const xe = extent(pts.map((p) => p.x))!;
-  const lim = Math.max(...pts.map((p) => Math.abs(p.r)), isNum(s1.sd) ? 2 * s1.sd : 0, isNum(s3.sd) ? 2 * s3.sd : 0);
-  const x = (tl.timeAxis ? scaleUtc().domain([new Date(xe[0]), new Date(xe[1])]) : scaleLinear().domain(xe)).range([
-    m.left,
-    HALF - m.right,
-  ]) as XScale;
+  const lim = Math.max(
+    ...pts.map((p) => Math.abs(p.r)),
+    isNum(s1.sd) ? 2 * s1.sd : 0,
+    isNum(s3.sd) ? 2 * s3.sd : 0,
+  );
+  const x = (
+    tl.timeAxis ? scaleUtc().domain([new Date(xe[0]), new Date(xe[1])]) : scaleLinear().domain(xe)
+  ).range([m.left, HALF - m.right]) as XScale;
   const X = (v: number) => x(v as number & Date);
   const y = scaleLinear()
     .domain([-lim || -1, lim || 1])
@@ -389,8 +399,14 @@ export function qqChart(s: SeriesResult, id: string): string {
   const height = 240;
   const m = { ...M, left: 44, bottom: 34 };
   const lim = Math.max(3, ...z.map(Math.abs), ...q.map(Math.abs));
-  const x = scaleLinear().domain([-lim, lim]).nice().range([m.left, HALF - m.right]);
-  const y = scaleLinear().domain([-lim, lim]).nice().range([height - m.bottom, m.top]);
+  const x = scaleLinear()
+    .domain([-lim, lim])
+    .nice()
+    .range([m.left, HALF - m.right]);
+  const y = scaleLinear()
+    .domain([-lim, lim])
+    .nice()
+    .range([height - m.bottom, m.top]);
   const [d0, d1] = x.domain() as [number, number];
   const ticks =
     y
@@ -403,7 +419,8 @@ export function qqChart(s: SeriesResult, id: string): string {
     x
       .ticks(5)
       .map(
-        (t) => `<text class="tick" x="${f(x(t))}" y="${height - m.bottom + 14}" text-anchor="middle">${t}</text>`,
+        (t) =>
+          `<text class="tick" x="${f(x(t))}" y="${height - m.bottom + 14}" text-anchor="middle">${t}</text>`,
       )
       .join('');
   const beyond = z.filter((v, i) => Math.abs(v - q[i]!) > 1).length;
@@ -479,7 +496,10 @@ export function ljungBoxChart(s: SeriesResult, id: string): string {
     x
       .ticks(Math.min(acf.length, 8))
       .filter((t) => Number.isInteger(t) && t >= 1)
-      .map((t) => `<text class="tick" x="${f(x(t))}" y="${height - m.bottom + 14}" text-anchor="middle">${t}</text>`)
+      .map(
+        (t) =>
+          `<text class="tick" x="${f(x(t))}" y="${height - m.bottom + 14}" text-anchor="middle">${t}</text>`,
+      )
       .join('');
   const chosen = pts.find((d) => d.lag === lb.lags);
   return (

@@ -355,7 +355,6 @@ const CHECK_STATE_WORD: Record<CheckRow['state'], string> = {
   'not-computed': 'not computed',
 };
 
-
 function testRow(
   key: string,
   name: string,
@@ -540,8 +539,7 @@ export function chanceSentence(results: Results): string {
   const n = sum.checkedObservations;
   if (n === 0) return 'No observation was checked in this run.';
   const rates: number[] = [];
-  for (const s of results.series)
-    for (const c of s.checked) rates.push(sideAlpha(c.level, s.direction));
+  for (const s of results.series) for (const c of s.checked) rates.push(sideAlpha(c.level, s.direction));
   const none = rates.reduce((acc, a) => acc * (1 - a), 1);
   const any = 1 - none;
   const share = any >= 0.995 ? 'almost always' : `about ${Math.round(any * 100) || '<1'}% of the time`;
@@ -569,7 +567,11 @@ function othersLine(rest: SeriesResult[], afterAttention: boolean): string | nul
   const parts = [...groups.entries()].map(([v, list]) =>
     v === 'ok' ? `${list.length} ${VERDICT_LABEL[v]}` : `${list.length} ${VERDICT_LABEL[v]} (${names(list)})`,
   );
-  const head = plural(rest.length, afterAttention ? 'other series' : 'series', afterAttention ? 'other series' : 'series');
+  const head = plural(
+    rest.length,
+    afterAttention ? 'other series' : 'series',
+    afterAttention ? 'other series' : 'series',
+  );
   return `${head}: ${parts.join(', ')}.`;
 }
 
@@ -653,7 +655,10 @@ export function buildView(results: Results, opts: ViewOptions = {}): ReportView 
       seriesView(s, section.get(s)!, needsAttention(s) ? null : (chartFor.get(s) ?? null)),
     ),
     omitted: null,
-    others: othersLine(ordered.filter((s) => !needsAttention(s)), attention.length > 0),
+    others: othersLine(
+      ordered.filter((s) => !needsAttention(s)),
+      attention.length > 0,
+    ),
     caveats: caveatsLine(ordered),
     scope: null,
     fullReport: opts.fullReportNote ?? 'The results JSON has every series in full.',

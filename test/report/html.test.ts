@@ -334,9 +334,9 @@ describe('HTML size', () => {
       `Sections for the first ${HTML_SECTIONS} of ${HTML_SECTIONS + 20} series are shown`,
     );
     // The planted alarm sits near the end of the results but gets a section; alarms come first.
-    const headed = [...html.matchAll(/<details class="metric" id="metric-\d+"[^>]*>\n<summary><h2>([^<]*)/g)].map(
-      (m) => m[1]!.trim(),
-    );
+    const headed = [
+      ...html.matchAll(/<details class="metric" id="metric-\d+"[^>]*>\n<summary><h2>([^<]*)/g),
+    ].map((m) => m[1]!.trim());
     expect(headed).toContain(`fleet ${HTML_SECTIONS + 10}`);
     const alarmNames = new Set(run.series.filter((x) => x.verdict === 'alarm').map((x) => x.name));
     const firstOk = headed.findIndex((n) => !alarmNames.has(n));

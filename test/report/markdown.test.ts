@@ -87,7 +87,9 @@ describe('renderMarkdown', () => {
   });
 
   it('says which line is which, since XY charts have no legend', () => {
-    expect(text).toContain('Blue: the observed values up to 2026-11-29 (0 on the x axis), then the point forecast');
+    expect(text).toContain(
+      'Blue: the observed values up to 2026-11-29 (0 on the x axis), then the point forecast',
+    );
     expect(text).toContain('orange: the 95% interval the checked observation was judged against');
     expect(text).toContain('grey: the limit, 1,950');
   });
