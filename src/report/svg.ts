@@ -298,6 +298,17 @@ function residualPoints(s: SeriesResult): { x: number; r: number }[] {
     .filter((p): p is { x: number; r: number } => p.x !== null && isNum(p.r));
 }
 
+/**
+ * What the spread check (Brown–Forsythe) compares for one third of the residuals: its median and
+ * the mean absolute distance from that median.
+ */
+function spreadOfThird(xs: number[]): { centre: number; spread: number } {
+  const sorted = [...xs].sort((a, b) => a - b);
+  const n = sorted.length;
+  const centre = n % 2 === 1 ? sorted[(n - 1) / 2]! : (sorted[n / 2 - 1]! + sorted[n / 2]!) / 2;
+  return { centre, spread: xs.reduce((a, v) => a + Math.abs(v - centre), 0) / n };
+}
+
 function sampleSd(xs: number[]): { mean: number; sd: number } {
   const n = xs.length;
   const mean = xs.reduce((a, b) => a + b, 0) / n;
@@ -307,8 +318,9 @@ function sampleSd(xs: number[]): { mean: number; sd: number } {
 
 /**
  * The spread check's picture: the residuals in time order, with the first and the last third marked
- * and a band of ± one standard deviation over each. The spread check compares exactly these two
- * variances (its F is the last third's over the first's), so unequal bands are what it flags. When
+ * and a band over each: its median ± the mean distance of its residuals from that median. The
+ * spread check (Brown–Forsythe) compares exactly those mean distances, so unequal bands are what it
+ * flags; the middle third, which it leaves out, is drawn faint. When
  * the chart shows fewer residuals than the analysis had (long series), the thirds are of the shown
  * ones and the description says so.
  */
@@ -321,16 +333,12 @@ export function spreadChart(s: SeriesResult, id: string): string {
   const third = Math.floor(n / 3);
   const first = pts.slice(0, third);
   const last = pts.slice(n - third);
-  const s1 = sampleSd(first.map((p) => p.r));
-  const s3 = sampleSd(last.map((p) => p.r));
+  const s1 = spreadOfThird(first.map((p) => p.r));
+  const s3 = spreadOfThird(last.map((p) => p.r));
   const tl = timeline(s);
   const m = { ...M, left: 52, top: 24 };
   const xe = extent(pts.map((p) => p.x))!;
-  const lim = Math.max(
-    ...pts.map((p) => Math.abs(p.r)),
-    isNum(s1.sd) ? 2 * s1.sd : 0,
-    isNum(s3.sd) ? 2 * s3.sd : 0,
-  );
+  const lim = Math.max(...pts.map((p) => Math.abs(p.r)));
   const x = (
     tl.timeAxis ? scaleUtc().domain([new Date(xe[0]), new Date(xe[1])]) : scaleLinear().domain(xe)
   ).range([m.left, HALF - m.right]) as XScale;
@@ -339,23 +347,28 @@ export function spreadChart(s: SeriesResult, id: string): string {
     .domain([-lim || -1, lim || 1])
     .nice()
     .range([height - m.bottom, m.top]);
-  const band = (part: { x: number }[], st: { mean: number; sd: number }, cls: string, label: string) => {
-    if (!isNum(st.sd)) return '';
+  const band = (
+    part: { x: number }[],
+    st: { centre: number; spread: number },
+    cls: string,
+    label: string,
+  ) => {
+    if (!isNum(st.spread)) return '';
     const x0 = X(part[0]!.x);
     const x1 = X(part.at(-1)!.x);
     const anchor = cls === 'first' ? `x="${f(x0)}" text-anchor="start"` : `x="${f(x1)}" text-anchor="end"`;
     return (
-      `<rect class="spread-band ${cls}" x="${f(x0)}" y="${f(y(st.mean + st.sd))}" width="${f(Math.max(1, x1 - x0))}" ` +
-      `height="${f(y(st.mean - st.sd) - y(st.mean + st.sd))}" data-sd="${st.sd}"><title>${h(label)}: sd ${h(num(st.sd))}</title></rect>` +
-      `<text class="tick" ${anchor} y="${m.top + 2}">${h(label)}: sd ${h(num(st.sd))}</text>` +
+      `<rect class="spread-band ${cls}" x="${f(x0)}" y="${f(y(st.centre + st.spread))}" width="${f(Math.max(1, x1 - x0))}" ` +
+      `height="${f(y(st.centre - st.spread) - y(st.centre + st.spread))}" data-centre="${st.centre}" data-spread="${st.spread}"><title>${h(label)}: median ${h(num(st.centre))}, mean distance from it ${h(num(st.spread))}</title></rect>` +
+      `<text class="tick" ${anchor} y="${m.top + 2}">${h(label)}: ±${h(num(st.spread))}</text>` +
       `<line class="third" x1="${f(cls === 'first' ? x1 : x0)}" x2="${f(cls === 'first' ? x1 : x0)}" y1="${m.top + 8}" y2="${height - m.bottom}"/>`
     );
   };
-  const ratio = isNum(s1.sd) && isNum(s3.sd) && s1.sd > 0 ? (s3.sd / s1.sd) ** 2 : NaN;
+  const ratio = s1.spread > 0 ? s3.spread / s1.spread : NaN;
   const shown = s.observations > n + 1 ? ` (the ${n} residuals shown; the check used all of them)` : '';
   const desc =
-    `${n} residuals in time order. First third sd ${num(s1.sd)}, last third sd ${num(s3.sd)}` +
-    `${isNum(ratio) ? `, variance ratio ${num(ratio)}` : ''}${shown}. The middle third is left out, as in the spread check.`;
+    `${n} residuals in time order. Mean distance from the median: ${num(s1.spread)} in the first third, ${num(s3.spread)} in the last` +
+    `${isNum(ratio) ? ` (ratio ${num(ratio)})` : ''}${shown}. The middle third is left out, as in the spread check.`;
   const ticks = y
     .ticks(4)
     .map(

@@ -273,16 +273,20 @@ describe('fan chart geometry', () => {
     const r = s.residuals.filter((x): x is number => x !== null);
     const { page } = await load(renderHtml(run), 'qq');
     expect(await page.locator('svg.qq circle.qq-dot').count()).toBe(r.length);
-    const sd = (xs: number[]) => {
-      const m = xs.reduce((a, b) => a + b, 0) / xs.length;
-      return Math.sqrt(xs.reduce((a, b) => a + (b - m) ** 2, 0) / (xs.length - 1));
+    // Brown–Forsythe's quantity for each third: mean absolute distance from the third's median
+    // (20 values: the median is the mean of the 10th and 11th smallest).
+    const distance = (xs: number[]) => {
+      const o = [...xs].sort((a, b) => a - b);
+      const med = (o[9]! + o[10]!) / 2;
+      return xs.reduce((a, v) => a + Math.abs(v - med), 0) / xs.length;
     };
     const third = Math.floor(r.length / 3);
+    expect(third).toBe(20);
     const bands = await page.$$eval('svg.spread rect.spread-band', (rs) =>
-      rs.map((x) => Number(x.getAttribute('data-sd'))),
+      rs.map((x) => Number(x.getAttribute('data-spread'))),
     );
-    expect(bands[0]).toBeCloseTo(sd(r.slice(0, third)), 9);
-    expect(bands[1]).toBeCloseTo(sd(r.slice(r.length - third)), 9);
+    expect(bands[0]).toBeCloseTo(distance(r.slice(0, third)), 9);
+    expect(bands[1]).toBeCloseTo(distance(r.slice(r.length - third)), 9);
     // No trio of residual line, autocorrelation bars and histogram.
     expect(await page.locator('svg.acf, svg.hist, svg.resid').count()).toBe(0);
     await page.close();
