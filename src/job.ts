@@ -13,6 +13,8 @@ import {
   type MethodBacktest,
   type ResidualChecks,
   type TestResult,
+  significant,
+  toScale,
 } from './engine/index.js';
 import { autoSeason, ingest, type IngestOutcome } from './ingest/index.js';
 import type { Series } from './ingest/types.js';
@@ -65,6 +67,8 @@ export interface JobOptions {
   event?: Origin['event'];
   /** Worker threads for the analysis (default: one per core); the output does not depend on it. */
   jobs?: number;
+  /** Every point of history and the per-step backtest measures in the results (default: what charts need). */
+  fullHistory?: boolean;
 }
 
 const SPACING_WORD: Record<Series['spacing'], string> = {
@@ -78,8 +82,11 @@ const SPACING_WORD: Record<Series['spacing'], string> = {
   row: 'row order',
 };
 
-/** Points of history (and residuals) kept per series in the results, for charts. */
-export const HISTORY_CAP = 240;
+/**
+ * Points of history (and residuals) kept per series in the results by default: what the charts draw
+ * (the comment's chart shows 30, more when checked rows reach further back). `fullHistory` keeps all.
+ */
+export const HISTORY_CAP = 60;
 
 export async function runJob(o: JobOptions): Promise<Results> {
   const plan = await loadPlan(o.configPath, o.cwd);
@@ -102,7 +109,7 @@ async function fileHash(file: string): Promise<string | null> {
 
 type BuildOptions = Pick<
   JobOptions,
-  'failOn' | 'newRows' | 'baseNote' | 'onProgress' | 'now' | 'shard' | 'commit' | 'event'
+  'failOn' | 'newRows' | 'baseNote' | 'onProgress' | 'now' | 'shard' | 'commit' | 'event' | 'fullHistory'
 > & { configHash?: string | null };
 
 /** Pure: the plan and what ingestion produced -> Results, on this thread. */
@@ -150,10 +157,11 @@ interface AnalyseInit {
   /** defaultsOf(plan): marks that a worker's copy of the plan cannot carry. */
   defaulted: boolean[];
   newRows: Record<string, number> | undefined;
+  fullHistory: boolean;
 }
 
-function analyseInit(plan: Plan, o: Pick<JobOptions, 'newRows'>): AnalyseInit {
-  return { plan, defaulted: defaultsOf(plan), newRows: o.newRows };
+function analyseInit(plan: Plan, o: Pick<JobOptions, 'newRows' | 'fullHistory'>): AnalyseInit {
+  return { plan, defaulted: defaultsOf(plan), newRows: o.newRows, fullHistory: o.fullHistory ?? false };
 }
 
 const adopted = new WeakSet<AnalyseInit>();
@@ -182,7 +190,7 @@ export const SERIES_PER_WORKER = 20;
 export async function analyseFleet(
   plan: Plan,
   outcome: IngestOutcome,
-  o: Pick<JobOptions, 'newRows' | 'onProgress' | 'jobs' | 'shard'>,
+  o: Pick<JobOptions, 'newRows' | 'onProgress' | 'jobs' | 'shard' | 'fullHistory'>,
 ): Promise<SeriesResult[]> {
   const todo = toAnalyse(plan, outcome, o.shard);
   const jobs = Math.min(o.jobs ?? defaultJobs(), Math.floor(todo.length / SERIES_PER_WORKER));
@@ -296,7 +304,8 @@ export function concludeRun(
   return { verdict: runVerdict(series), gate: decideGate(o.failOn, summary), summary };
 }
 
-function analyseOne(s: Series, m: MetricPlan, o: Pick<BuildOptions, 'newRows'>): SeriesResult {
+function analyseOne(s: Series, m: MetricPlan, o: Pick<AnalyseInit, 'newRows' | 'fullHistory'>): SeriesResult {
+  const cap = o.fullHistory ? Infinity : HISTORY_CAP;
   const notes = [...s.notes];
   const observations = countObserved(s.values);
   const seasonSource = m.season === 'auto' ? 'auto' : 'config';
@@ -307,9 +316,11 @@ function analyseOne(s: Series, m: MetricPlan, o: Pick<BuildOptions, 'newRows'>):
   if (methods.length < m.methods.length)
     notes.push('Seasonal naive left out: the series has no season (season 1), where it equals naive.');
   const base = emptySeries(s, m, season, seasonSource, observations, notes);
+  const lastPoints = () => historyFrom(s, Math.max(0, s.values.length - cap));
   if (methods.length === 0)
     return {
       ...base,
+      history: lastPoints(),
       verdict: 'error',
       reason: 'No method left to fit: seasonal naive needs a season above 1.',
     };
@@ -336,7 +347,13 @@ function analyseOne(s: Series, m: MetricPlan, o: Pick<BuildOptions, 'newRows'>):
   };
   const a = analyse(s.values, engine);
   if (!a.ok) {
-    return { ...base, notes: [...notes, ...a.notes], verdict: 'insufficient-data', reason: a.reason };
+    return {
+      ...base,
+      history: lastPoints(),
+      notes: [...notes, ...a.notes],
+      verdict: 'insufficient-data',
+      reason: a.reason,
+    };
   }
   notes.push(...a.notes.filter((n) => !notes.includes(n)));
 
@@ -381,7 +398,7 @@ function analyseOne(s: Series, m: MetricPlan, o: Pick<BuildOptions, 'newRows'>):
     method: a.chosen.method,
     intervalKind: a.forecast.kind,
     // One sigma and one set of residual checks: those of the model that judged the checked rows.
-    sigma: finiteOrNull((judge?.fit ?? a.chosen).sigma),
+    sigma: finiteOrNull(significant((judge?.fit ?? a.chosen).sigma)),
     sigmaDf: (judge?.fit ?? a.chosen).sigmaDf,
     forecast: forecastPoints(a, s, m.horizon),
     residualChecks: summariseChecks(
@@ -389,23 +406,25 @@ function analyseOne(s: Series, m: MetricPlan, o: Pick<BuildOptions, 'newRows'>):
       judge ? 'before-checked' : 'all',
       (judge?.fit ?? a.chosen).n,
     ),
-    backtest: summariseBacktest(a),
+    backtest: summariseBacktest(a, o.fullHistory),
     checked,
     limit,
-    ...chartData(s, a, checked[0]?.index, notes),
+    ...chartData(s, a, checked[0]?.index, notes, cap),
     notes,
   };
 }
 
-/** History (and the residuals aligned with it) for charts: the last HISTORY_CAP points, reaching back
- * to the first checked observation when a pull request adds more rows than that. */
+/** History (and the residuals aligned with it) for charts: the last `cap` points, reaching back to the
+ * first checked observation when a pull request adds more rows than that. Residuals are written to
+ * the precision sigma gives them (numeric.ts toScale). */
 function chartData(
   s: Series,
   a: Analysis,
   firstChecked: number | undefined,
   notes: string[],
+  cap: number,
 ): Pick<SeriesResult, 'history' | 'residuals'> {
-  const start = Math.max(0, Math.min(s.values.length - HISTORY_CAP, firstChecked ?? Infinity));
+  const start = Math.max(0, Math.min(s.values.length - cap, firstChecked ?? Infinity));
   if (start > 0)
     notes.push(
       `Charts show the last ${s.values.length - start} of ${s.values.length} points; the analysis used all of them.`,
@@ -413,7 +432,7 @@ function chartData(
   const residuals: (number | null)[] = [];
   for (let i = start; i < s.values.length; i++) {
     const r = a.chosen.residuals[i]!;
-    residuals.push(Number.isFinite(r) ? r : null);
+    residuals.push(Number.isFinite(r) ? toScale(r, a.chosen.sigma) : null);
   }
   return { history: historyFrom(s, start), residuals };
 }
@@ -450,7 +469,6 @@ function emptySeries(
     spacing: s.spacing,
     season,
     seasonSource,
-    history: historyFrom(s, Math.max(0, s.values.length - HISTORY_CAP)),
     notes,
   });
 }
@@ -572,13 +590,15 @@ function forecastPoints(a: Analysis, s: Series, horizon: number): ForecastPoint[
   const out: ForecastPoint[] = [];
   const fc = a.forecast;
   for (let h = 1; h <= Math.min(horizon, fc.horizon); h++) {
+    // Digits below a ten-thousandth of the standard error carry nothing (numeric.ts toScale).
+    const se = fc.se[h - 1]!;
     const lower: LevelMap = {};
     const upper: LevelMap = {};
     for (const b of fc.bands) {
-      lower[String(b.level)] = b.lower[h - 1]!;
-      upper[String(b.level)] = b.upper[h - 1]!;
+      lower[String(b.level)] = toScale(b.lower[h - 1]!, se);
+      upper[String(b.level)] = toScale(b.upper[h - 1]!, se);
     }
-    out.push({ step: h, time: timeAfterLast(s, h), mean: fc.mean[h - 1]!, lower, upper });
+    out.push({ step: h, time: timeAfterLast(s, h), mean: toScale(fc.mean[h - 1]!, se), lower, upper });
   }
   return out;
 }
@@ -589,7 +609,7 @@ function summariseChecks(
   observations: number,
 ): ResidualCheckSummary {
   const t = (x: TestResult) => ({
-    statistic: x.statistic,
+    statistic: significant(x.statistic),
     df: x.df,
     pValue: x.pValue,
     adjustedP: x.adjustedP,
@@ -598,11 +618,15 @@ function summariseChecks(
   });
   return {
     ljungBox: { ...t(c.ljungBox), lags: c.ljungBox.lags },
-    bias: { ...t(c.bias), mean: c.bias.mean, zeroByConstruction: c.bias.zeroByConstruction },
-    normality: { ...t(c.normality), skewness: c.normality.skewness, kurtosis: c.normality.kurtosis },
+    bias: { ...t(c.bias), mean: significant(c.bias.mean), zeroByConstruction: c.bias.zeroByConstruction },
+    normality: {
+      ...t(c.normality),
+      skewness: significant(c.normality.skewness),
+      kurtosis: significant(c.normality.kurtosis),
+    },
     spread: { ...t(c.spread), test: c.spread.name },
-    acf: c.acf,
-    acfBound: c.acfBound,
+    acf: c.acf.map((x) => significant(x)),
+    acfBound: significant(c.acfBound),
     adjustment: 'holm',
     family: c.family,
     caveat: c.caveat,
@@ -622,28 +646,31 @@ function measures(x: {
 }): MeasureSet {
   return {
     origins: x.origins,
-    me: finiteOrNull(x.me),
-    rmse: finiteOrNull(x.rmse),
-    mae: finiteOrNull(x.mae),
-    mpe: finiteOrNull(x.mpe),
-    mape: finiteOrNull(x.mape),
-    mase: finiteOrNull(x.mase),
+    me: finiteOrNull(significant(x.me)),
+    rmse: finiteOrNull(significant(x.rmse)),
+    mae: finiteOrNull(significant(x.mae)),
+    mpe: finiteOrNull(significant(x.mpe)),
+    mape: finiteOrNull(significant(x.mape)),
+    mase: finiteOrNull(significant(x.mase)),
   };
 }
 
-function summariseBacktest(a: Analysis): BacktestSummary {
+/** The backtest for the results: measures, coverage and scores to 6 significant digits (the precision
+ * a mean over the origins carries, and then some); per-step measures only with `full`. */
+function summariseBacktest(a: Analysis, full: boolean): BacktestSummary {
   const methods: BacktestSummary['methods'] = {};
   for (const [name, mb] of Object.entries(a.backtest.methods) as [
     keyof typeof a.backtest.methods,
     MethodBacktest,
   ][]) {
     const coverage: Record<string, LevelMap> = {};
-    for (const [kind, levels] of Object.entries(mb.coverage)) coverage[kind] = { ...levels };
+    for (const [kind, levels] of Object.entries(mb.coverage))
+      coverage[kind] = Object.fromEntries(Object.entries(levels).map(([l, v]) => [l, significant(v)]));
     methods[name] = {
       ...measures(mb),
-      steps: mb.steps.map((st) => ({ step: st.step, ...measures(st) })),
+      steps: full ? mb.steps.map((st) => ({ step: st.step, ...measures(st) })) : [],
       coverage,
-      score: finiteOrNull(a.selection.scores[name] ?? NaN),
+      score: finiteOrNull(significant(a.selection.scores[name] ?? NaN)),
     };
   }
   return {

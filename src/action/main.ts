@@ -193,6 +193,7 @@ async function runAction(d: ActionDeps): Promise<void> {
       configPath: s.config,
       failOn: s.failOn,
       jobs: s.jobs,
+      fullHistory: s.fullHistory,
       ...(newRows ? { newRows } : {}),
       ...(baseNote ? { baseNote } : {}),
     });

@@ -39,6 +39,8 @@ export interface Settings {
   issueLabel: string;
   /** Worker threads for the analysis. */
   jobs: number;
+  /** Every point of history and the per-step backtest measures in the results file. */
+  fullHistory: boolean;
   /** The runner's facts about this run. */
   run: RunContext;
 }
@@ -92,6 +94,7 @@ export const INPUT_DEFAULTS = {
   markdown: '',
   'issue-label': 'leadline',
   jobs: 'auto',
+  'full-history': 'false',
 } as const;
 
 export const FAIL_ON_VALUES: readonly FailOn[] = ['alarm', 'limit', 'both', 'never'];
@@ -226,6 +229,7 @@ export function readSettings(input: InputReader, env: NodeJS.ProcessEnv, cwd = p
     markdown: outputPath('markdown', get('markdown'), workingDirectory),
     issueLabel: label,
     jobs: parseJobs(get('jobs'), 'jobs'),
+    fullHistory: parseSwitch('full-history', get('full-history')),
     run: {
       eventName: env.GITHUB_EVENT_NAME ?? '',
       eventPath: env.GITHUB_EVENT_PATH || null,
@@ -246,4 +250,11 @@ export function configKey(s: Pick<Settings, 'config' | 'workingDirectory' | 'wor
   const abs = path.resolve(s.workingDirectory, s.config);
   const rel = path.relative(s.workspace, abs);
   return (rel && !rel.startsWith('..') && !path.isAbsolute(rel) ? rel : abs).split(path.sep).join('/');
+}
+
+/** A yes/no input: `true` or `false` (any case). */
+function parseSwitch(input: string, raw: string): boolean {
+  const v = raw.trim().toLowerCase();
+  if (v === 'true' || v === 'false') return v === 'true';
+  throw invalid(input, raw, 'true or false');
 }

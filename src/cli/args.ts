@@ -34,6 +34,8 @@ export interface CliSettings {
   files: string[];
   /** Worker threads for the analysis. */
   jobs: number;
+  /** Every point of history and the per-step backtest measures in the results JSON. */
+  fullHistory: boolean;
 }
 
 export const HELP = `leadline — judge metric CSVs against their forecasts and warn before limits are crossed
@@ -58,6 +60,8 @@ Options for run:
                        --json; the shard publishes nothing and exits 0 once its file is written
   --jobs N             worker threads for the analysis: a number, or auto (default: one per core);
                        the results are the same whatever the number
+  --full-history       keep every point of history and the per-step backtest measures in the
+                       results JSON (default: the last 60 points, what the charts draw)
   -h, --help           show this help
   -V, --version        show the version
 
@@ -129,6 +133,7 @@ export function parseCli(argv: string[], env: NodeJS.ProcessEnv, cwd: string, is
         quiet: { type: 'boolean' },
         shard: { type: 'string' },
         jobs: { type: 'string' },
+        'full-history': { type: 'boolean' },
         help: { type: 'boolean', short: 'h' },
         version: { type: 'boolean', short: 'V' },
       },
@@ -151,6 +156,7 @@ export function parseCli(argv: string[], env: NodeJS.ProcessEnv, cwd: string, is
     shard: v.shard === undefined ? null : parseShard(v.shard, '--shard'),
     files: [] as string[],
     jobs: parseJobs(v.jobs ?? 'auto', '--jobs'),
+    fullHistory: v['full-history'] ?? false,
   };
   if (v.help) return { ...base, command: 'help' };
   if (v.version) return { ...base, command: 'version' };

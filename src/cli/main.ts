@@ -119,6 +119,7 @@ async function run(settings: CliSettings, io: CliIo, outputs: Outputs): Promise<
     failOn: settings.failOn,
     shard: settings.shard,
     jobs: settings.jobs,
+    fullHistory: settings.fullHistory,
     commit: await headCommit(systemGit, cwd),
     onProgress: (done, total) => {
       // Progress only when there are many series and it has taken a moment; stderr keeps stdout clean.

@@ -1,5 +1,6 @@
-// The engine's public surface: pure statistics, no I/O, no global state (the only module-level
-// state is a memo of t quantiles, which cannot change any result). See docs/design.md for the conventions.
+// The engine's public surface: pure statistics, no I/O, no global state that can change a result
+// (module-level state: a memo of t quantiles and the scratch workspace, each written before it is
+// read). See docs/design.md for the conventions.
 export * from './types.js';
 export { tQuantile, tCdf, normalQuantile, normalCdf, chiSquareCdf, chiSquareQuantile, fCdf } from './dist.js';
 export { createRandom, type Random } from './random.js';
@@ -10,3 +11,4 @@ export { selectMethod } from './select.js';
 export { simulatePaths } from './simulate.js';
 export { chooseIntervalKind, makeForecast, tailProbability, quantileAt } from './forecast.js';
 export { analyse } from './analyse.js';
+export { significant, toScale } from './numeric.js';
