@@ -17,7 +17,7 @@ export function defaultMinTrain(season: number): number {
  * - score `mase` (scale-free, so comparable across series); paths 1000; seed 1.
  * - check.last 1 (the newest observation); direction `both`; alarmLevel = the highest level;
  *   falseAlarms `none`; limit none (limit.risk 0.05 and limit.within = horizon once a limit is set).
- * - blanks `error`; duplicates `error`.
+ * - blanks `error`; duplicates `error`; timeFormat `auto`.
  */
 export const DEFAULTS: MetricOptions = deepFreeze<MetricOptions>({
   season: 'auto',
@@ -36,6 +36,7 @@ export const DEFAULTS: MetricOptions = deepFreeze<MetricOptions>({
   limit: null,
   blanks: 'error',
   duplicates: 'error',
+  timeFormat: 'auto',
 });
 
 /** Default risk of a limit. */

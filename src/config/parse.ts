@@ -2,7 +2,7 @@
 // the config file, the line and column, and the key path; when there are several, the first (in
 // reading order) is the error's location and the others are listed in its message.
 import { closest, distance } from 'fastest-levenshtein';
-import { LineCounter, parseDocument, type Document } from 'yaml';
+import { isCollection, isSeq, LineCounter, parseDocument, visit, type Document } from 'yaml';
 import type { z } from 'zod';
 import { LeadlineError } from '../errors.js';
 import type { DurationUnit, LimitOptions, MetricOptions, MetricPlan, Plan } from './types.js';
@@ -89,6 +89,23 @@ export function parsePlan(text: string, configPath: string): Plan {
         ? ` (and ${doc.errors.length - 1} more YAML problem${doc.errors.length > 2 ? 's' : ''})`
         : '';
     fail(`YAML syntax error: ${firstLine(e.message)}${more}.`, { line: pos.line, column: pos.col });
+  }
+  // A key that is a list or mapping (`? [a, b]`) has no place in the config; YAML would turn it into
+  // text with a warning on the console.
+  let collectionKey: { kind: string; at: number } | null = null;
+  visit(doc, {
+    Pair(_, pair) {
+      if (isCollection(pair.key)) {
+        collectionKey = { kind: isSeq(pair.key) ? 'a list' : 'a mapping', at: pair.key.range?.[0] ?? 0 };
+        return visit.BREAK;
+      }
+      return undefined;
+    },
+  });
+  if (collectionKey) {
+    const { kind, at } = collectionKey as { kind: string; at: number };
+    const pos = lc.linePos(at);
+    fail(`A key must be plain text, found ${kind}.`, { line: pos.line, column: pos.col });
   }
   let raw: unknown;
   try {
@@ -228,6 +245,7 @@ function buildMetric(
     limit,
     blanks: pick('blanks') ?? DEFAULTS.blanks,
     duplicates: pick('duplicates') ?? DEFAULTS.duplicates,
+    timeFormat: pick('timeFormat') ?? DEFAULTS.timeFormat,
   };
   if (userMinTrain === undefined) defaultedMinTrain.add(plan);
   return plan;
@@ -277,7 +295,14 @@ function buildLimit(
     within = { steps: rawWithin };
     withinLabel = String(rawWithin);
   } else {
-    const parsed = parseDuration(rawWithin)!;
+    const parsed = parseDuration(rawWithin);
+    if (parsed === null) {
+      problems.push({
+        path: [...(own?.within !== undefined ? [...base, 'limit'] : ['defaults', 'limit']), 'within'],
+        message: `Expected a window of more than 0, found ${describeValue(rawWithin)}.`,
+      });
+      return null;
+    }
     within = { amount: parsed.amount, unit: parsed.unit as DurationUnit };
     withinLabel = rawWithin.trim();
   }

@@ -5,6 +5,7 @@
 // the built-in one.
 import * as z from 'zod';
 import { METHOD_NAMES } from '../engine/types.js';
+import { TIME_FORMATS } from '../ingest/times.js';
 
 /** A duration such as `30d`: a positive number and one of m (minutes), h, d, w, mo (months), q, y. */
 export const DURATION_PATTERN = /^\s*(\d+(?:\.\d+)?)\s*(mo|m|h|d|w|q|y)\s*$/;
@@ -136,6 +137,12 @@ const duplicates = z.enum(['error', 'first', 'last', 'mean']).meta({
   default: 'error',
 });
 
+const timeFormat = z.enum(TIME_FORMATS).meta({
+  description:
+    'The form of the time column: "auto" decides from the cells (ISO 8601; numbers as YYYYMMDD dates when all are, four-digit years, or epoch seconds below 1e11 and milliseconds above); or state it: iso, yyyymmdd, year, epoch-seconds, epoch-milliseconds.',
+  default: 'auto',
+});
+
 /** Options a metric may set and `defaults:` may set for every metric. */
 export const optionShape = {
   season: season.optional(),
@@ -154,6 +161,7 @@ export const optionShape = {
   limit: limit.optional(),
   blanks: blanks.optional(),
   duplicates: duplicates.optional(),
+  timeFormat: timeFormat.optional(),
 };
 
 const columnName = z.string().min(1);

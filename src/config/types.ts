@@ -2,6 +2,7 @@
 // src/config turns YAML into this; src/job.ts and src/ingest read it.
 import type { IntervalChoice, MethodName, ScoreName } from '../engine/types.js';
 import type { Direction, FalseAlarmControl } from '../results.js';
+import type { TimeFormat } from '../ingest/times.js';
 
 export type DurationUnit = 'm' | 'h' | 'd' | 'w' | 'mo' | 'q' | 'y';
 
@@ -37,6 +38,8 @@ export interface MetricOptions {
   blanks: 'error' | 'missing';
   /** Rows sharing a time: an error naming both lines, or keep the first/last, or average. */
   duplicates: 'error' | 'first' | 'last' | 'mean';
+  /** The form of the time column, or `auto` to decide from the cells. */
+  timeFormat: TimeFormat;
 }
 
 export interface MetricPlan extends MetricOptions {

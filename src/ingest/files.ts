@@ -1,10 +1,12 @@
 // Metric file patterns -> files inside the working directory. Anything that leads outside it, by
 // `..`, an absolute path or a symlink, is refused: a config must not make Leadline read (and then
 // quote in a public comment) files from elsewhere on the runner.
-import { realpath, stat } from 'node:fs/promises';
+import type { Stats } from 'node:fs';
+import { readdir, realpath, stat } from 'node:fs/promises';
 import path from 'node:path';
 import { glob, isDynamicPattern } from 'tinyglobby';
 import { LeadlineError } from '../errors.js';
+import { nearest, visible } from '../untrusted.js';
 
 const toPosix = (p: string): string => p.split(path.sep).join('/');
 
@@ -25,7 +27,34 @@ function normalise(p: string): string {
  * Throws LeadlineError: 'config' when the pattern or a match leads outside `cwd` (through `..`, an
  * absolute path, or a symlink), 'data' when nothing matches.
  */
-export async function resolveFiles(pattern: string, cwd: string): Promise<string[]> {
+/** Most files one metric's glob may match: past it the run would spend minutes and gigabytes. */
+export const MAX_FILES_PER_METRIC = 5000;
+
+/** What a path that is not a regular file is, for messages. */
+function kindOf(st: Stats): string {
+  if (st.isDirectory()) return 'a directory';
+  if (st.isFIFO()) return 'a FIFO';
+  if (st.isSocket()) return 'a socket';
+  if (st.isCharacterDevice() || st.isBlockDevice()) return 'a device';
+  return 'not a file';
+}
+
+function notRegular(shown: string, st: Stats): LeadlineError {
+  const what = kindOf(st);
+  return new LeadlineError(
+    'data',
+    what === 'a directory'
+      ? `"${visible(shown)}" is a directory, not a CSV file.`
+      : `"${visible(shown)}" is not a regular file (${what}); Leadline reads only regular files.`,
+    { file: shown },
+  );
+}
+
+export async function resolveFiles(
+  pattern: string,
+  cwd: string,
+  maxFiles = MAX_FILES_PER_METRIC,
+): Promise<string[]> {
   const base = path.resolve(cwd);
   let root: string;
   try {
@@ -58,16 +87,17 @@ export async function resolveFiles(pattern: string, cwd: string): Promise<string
 
   let matches: string[];
   if (!isDynamicPattern(norm)) {
-    let isFile = false;
+    let st: Stats;
     try {
-      isFile = (await stat(path.join(base, norm))).isFile();
+      st = await stat(path.join(base, norm));
     } catch {
-      throw new LeadlineError('data', `The file "${given}" does not exist (relative to ${base}).`, {
-        file: given,
-      });
+      throw new LeadlineError(
+        'data',
+        `The file "${visible(given)}" does not exist (relative to ${base}).${await nearFile(base, norm)}`,
+        { file: given },
+      );
     }
-    if (!isFile)
-      throw new LeadlineError('data', `"${given}" is a directory, not a CSV file.`, { file: given });
+    if (!st.isFile()) throw notRegular(given, st);
     matches = [norm];
   } else {
     matches = await glob(norm, {
@@ -78,7 +108,16 @@ export async function resolveFiles(pattern: string, cwd: string): Promise<string
       followSymbolicLinks: true,
     });
     if (matches.length === 0) {
-      throw new LeadlineError('data', `No file matches "${given}" (relative to ${base}).`, { file: given });
+      throw new LeadlineError('data', `No file matches "${visible(given)}" (relative to ${base}).`, {
+        file: given,
+      });
+    }
+    if (matches.length > maxFiles) {
+      throw new LeadlineError(
+        'config',
+        `"${visible(given)}" matches ${matches.length} files; Leadline reads at most ${maxFiles} per metric. Narrow the pattern, or split the files across metrics.`,
+        { file: given },
+      );
     }
   }
 
@@ -101,7 +140,24 @@ export async function resolveFiles(pattern: string, cwd: string): Promise<string
         { file: rel2 },
       );
     }
+    const st = await stat(real).catch(() => null);
+    if (st && !st.isFile()) throw notRegular(rel2, st);
     out.add(rel2);
   }
   return [...out].sort();
+}
+
+/** " Did you mean …?" naming the closest file in the folder of a missing one, or "". */
+async function nearFile(base: string, rel: string): Promise<string> {
+  const folder = path.posix.dirname(rel);
+  let names: string[];
+  try {
+    names = (await readdir(path.join(base, folder), { withFileTypes: true }))
+      .filter((d) => d.isFile())
+      .map((d) => d.name);
+  } catch {
+    return '';
+  }
+  const near = nearest(path.posix.basename(rel), names);
+  return near === null ? '' : ` Did you mean "${visible(folder === '.' ? near : `${folder}/${near}`)}"?`;
 }

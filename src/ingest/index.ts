@@ -5,13 +5,29 @@
 import path from 'node:path';
 import { performance } from 'node:perf_hooks';
 import type { MetricPlan, Plan } from '../config/types.js';
+import { durationToSteps } from '../config/duration.js';
 import { LeadlineError } from '../errors.js';
 import type { Series } from './types.js';
 import { resolveFiles } from './files.js';
 import { describeMs, describeStep, gridIndex, gridTime, inferSpacing, type GridSpec } from './grid.js';
-import { CellStatus, readTable, type ColumnRoles, type Table } from './read.js';
-import { numberTimeUnit, numberToMs, TimeKind } from './times.js';
-import { closest, distance } from 'fastest-levenshtein';
+import {
+  CellStatus,
+  MAX_MAGNITUDE,
+  readTable,
+  type ColumnRoles,
+  type Table,
+  type TimeColumn,
+} from './read.js';
+import {
+  MAX_TIME_MS,
+  MIN_TIME_MS,
+  numberTimeUnit,
+  numberToMs,
+  TimeKind,
+  type NumberTimeUnit,
+  type TimeFormat,
+} from './times.js';
+import { displayName, nearest, shorten, visible } from '../untrusted.js';
 
 export { autoSeason } from './season.js';
 export { resolveFiles } from './files.js';
@@ -87,7 +103,7 @@ export async function ingest(plan: Plan, cwd: string): Promise<IngestOutcome> {
       const t = tables.get(file)!;
       if (t instanceof LeadlineError)
         failures.push({ metric, column: null, key: null, error: t, verdict: 'error' });
-      else buildMetric(metric, t, files.length > 1, series, failures);
+      else buildMetric(metric, t, files.length > 1, series, failures, plan.configPath);
     }
   }
   return { series, failures, filesRead: tables.size, parseMs: performance.now() - started };
@@ -106,22 +122,17 @@ function verdictOf(e: LeadlineError): IngestFailure['verdict'] {
   return insufficient.has(e) ? 'insufficient-data' : 'error';
 }
 
-function isNear(word: string, candidate: string): boolean {
-  const d = distance(word.toLowerCase(), candidate.toLowerCase());
-  return d < Math.min(word.length, candidate.length) && d <= Math.max(2, Math.floor(word.length / 3));
-}
-
 function columnList(header: string[]): string {
-  return header.length === 0 ? '(none)' : header.map((h) => JSON.stringify(h)).join(', ');
+  return header.length === 0 ? '(none)' : header.map((h) => visible(JSON.stringify(shorten(h)))).join(', ');
 }
 
 function missingColumn(t: Table, role: string, name: string): LeadlineError {
   const header = t.header!;
-  const near = header.length > 0 ? closest(name, header) : null;
-  const hint = near !== null && isNear(name, near) ? ` Did you mean "${near}"?` : '';
+  const near = nearest(name, header);
+  const hint = near !== null ? ` Did you mean "${visible(near)}"?` : '';
   return new LeadlineError(
     'data',
-    `The ${role} column "${name}" is not in the header; the columns are: ${columnList(header)}.${hint}`,
+    `The ${role} column "${visible(name)}" is not in the header; the columns are: ${columnList(header)}.${hint}`,
     {
       file: t.file,
       line: t.headerLine,
@@ -131,7 +142,7 @@ function missingColumn(t: Table, role: string, name: string): LeadlineError {
 
 function quoteCell(text: string): string {
   const s = text.length > 40 ? `${text.slice(0, 37)}…` : text;
-  return JSON.stringify(s);
+  return visible(JSON.stringify(s));
 }
 
 interface TimeInfo {
@@ -139,16 +150,43 @@ interface TimeInfo {
   notes: string[];
 }
 
-const timeCache = new WeakMap<Table, Map<number, TimeInfo | LeadlineError>>();
+const timeCache = new WeakMap<Table, Map<string, TimeInfo | LeadlineError>>();
 
-/** The time column in epoch ms, or the error that makes it unusable. */
-function timesOf(t: Table, index: number, name: string): TimeInfo | LeadlineError {
+const FORMAT_WORDS: Record<Exclude<TimeFormat, 'auto'>, string> = {
+  iso: 'an ISO 8601 date or datetime',
+  yyyymmdd: 'a YYYYMMDD date',
+  year: 'a year (four digits)',
+  'epoch-seconds': 'a number of epoch seconds',
+  'epoch-milliseconds': 'a number of epoch milliseconds',
+};
+const FORMAT_UNIT: Partial<Record<TimeFormat, NumberTimeUnit>> = {
+  yyyymmdd: 'yyyymmdd',
+  year: 'years',
+  'epoch-seconds': 'seconds',
+  'epoch-milliseconds': 'milliseconds',
+};
+
+/** The time column in epoch ms, or the error that makes it unusable. `format` is the metric's timeFormat. */
+function timesOf(
+  t: Table,
+  index: number,
+  name: string,
+  format: TimeFormat = 'auto',
+): TimeInfo | LeadlineError {
   let cache = timeCache.get(t);
   if (!cache) timeCache.set(t, (cache = new Map()));
-  const hit = cache.get(index);
+  const cacheKey = `${index}:${format}`;
+  const hit = cache.get(cacheKey);
   if (hit) return hit;
   const col = t.times.get(index)!;
   const where = (row: number) => ({ file: t.file, line: t.lines[row]!, column: index + 1 });
+  const stated = format === 'auto' ? '' : ` (timeFormat: ${format})`;
+  const notForm = (r: number) =>
+    new LeadlineError(
+      'data',
+      `The time ${quoteCell(col.invalidText.get(r) ?? cellText(col, r))} in column "${visible(name)}" is not ${FORMAT_WORDS[format as Exclude<TimeFormat, 'auto'>]}${stated}.`,
+      where(r),
+    );
   let result: TimeInfo | LeadlineError | null = null;
   let firstIso = -1;
   let firstNumber = -1;
@@ -158,18 +196,23 @@ function timesOf(t: Table, index: number, name: string): TimeInfo | LeadlineErro
     if (k === TimeKind.Blank) {
       result = new LeadlineError(
         'data',
-        `The time in column "${name}" is blank; every row needs a time.`,
+        `The time in column "${visible(name)}" is blank; every row needs a time.`,
         where(r),
       );
     } else if (k === TimeKind.Invalid) {
-      result = new LeadlineError(
-        'data',
-        `The time ${quoteCell(col.invalidText.get(r) ?? '')} in column "${name}" is not an ISO 8601 date or datetime (e.g. 2024-03-01 or 2024-03-01T12:00:00Z) or an epoch number.`,
-        where(r),
-      );
+      result =
+        format === 'auto'
+          ? new LeadlineError(
+              'data',
+              `The time ${quoteCell(col.invalidText.get(r) ?? '')} in column "${visible(name)}" is not an ISO 8601 date or datetime (e.g. 2024-03-01 or 2024-03-01T12:00:00Z) or an epoch number.`,
+              where(r),
+            )
+          : notForm(r);
     } else if (k === TimeKind.Number) {
+      if (format === 'iso') result = notForm(r);
       if (firstNumber < 0) firstNumber = r;
     } else {
+      if (format !== 'auto' && format !== 'iso') result = notForm(r);
       if (firstIso < 0) firstIso = r;
       if (k === TimeKind.Naive) naive = true;
     }
@@ -177,7 +220,7 @@ function timesOf(t: Table, index: number, name: string): TimeInfo | LeadlineErro
       const [a, b] = firstIso < firstNumber ? [firstIso, firstNumber] : [firstNumber, firstIso];
       result = new LeadlineError(
         'data',
-        `Column "${name}" mixes time forms: line ${t.lines[a]} has ${col.kind[a] === TimeKind.Number ? 'a number' : 'an ISO 8601 time'}, this line ${col.kind[b] === TimeKind.Number ? 'a number' : 'an ISO 8601 time'}; use one form throughout.`,
+        `Column "${visible(name)}" mixes time forms: line ${t.lines[a]} has ${col.kind[a] === TimeKind.Number ? 'a number' : 'an ISO 8601 time'}, this line ${col.kind[b] === TimeKind.Number ? 'a number' : 'an ISO 8601 time'}; use one form throughout.`,
         where(b),
       );
     }
@@ -186,20 +229,54 @@ function timesOf(t: Table, index: number, name: string): TimeInfo | LeadlineErro
     const notes: string[] = [];
     let ms = col.raw;
     if (firstNumber >= 0) {
-      const unit = numberTimeUnit(col.raw, t.rowCount);
+      const unit = FORMAT_UNIT[format] ?? numberTimeUnit(col.raw, t.rowCount);
       ms = new Float64Array(t.rowCount);
       for (let r = 0; r < t.rowCount; r++) ms[r] = numberToMs(col.raw[r]!, unit);
-      notes.push(
-        unit === 'years'
-          ? `The times in "${name}" are four-digit numbers, read as years.`
-          : `The times in "${name}" are numbers, read as epoch ${unit} (${unit === 'seconds' ? 'all below' : 'some at or above'} 1e11).`,
-      );
+      if (format === 'auto')
+        notes.push(
+          unit === 'years'
+            ? `The times in "${visible(name)}" are four-digit numbers, read as years.`
+            : unit === 'yyyymmdd'
+              ? `The times in "${visible(name)}" are 8-digit numbers, read as calendar dates (YYYYMMDD); set timeFormat to say otherwise.`
+              : `The times in "${visible(name)}" are numbers, read as epoch ${unit} (${unit === 'seconds' ? 'all below' : 'some at or above'} 1e11); set timeFormat to say otherwise.`,
+        );
     }
-    if (naive) notes.push(`Times in "${name}" without a UTC offset were read as UTC.`);
-    result = { ms, notes };
+    let early = -1;
+    for (let r = 0; r < t.rowCount && result === null; r++) {
+      const v = ms[r]!;
+      if (Number.isNaN(v)) result = notForm(r);
+      else if (!(v >= MIN_TIME_MS && v <= MAX_TIME_MS))
+        result = new LeadlineError(
+          'data',
+          `The time ${quoteCell(cellText(col, r))} in column "${visible(name)}" is outside the years 0001–9999${firstNumber >= 0 ? ' as read (a number in other units? set timeFormat)' : ''}.`,
+          where(r),
+        );
+      else if (early < 0 && v < EARLY_MS) early = r;
+    }
+    if (result === null) {
+      if (early >= 0)
+        notes.push(
+          `Some times in "${visible(name)}" are before the year 1000 (line ${t.lines[early]}: ${new Date(ms[early]!).toISOString().slice(0, 10)}); they were read as written.`,
+        );
+      if (naive) notes.push(`Times in "${visible(name)}" without a UTC offset were read as UTC.`);
+      result = { ms, notes };
+    }
   }
-  cache.set(index, result);
+  cache.set(cacheKey, result);
   return result;
+}
+
+/** Start of the year 1000: earlier times are read as written, with a note. */
+const EARLY_MS = Date.UTC(1000, 0, 1);
+
+/** A time cell as written, for messages (numbers from their parsed value). */
+function cellText(col: TimeColumn, r: number): string {
+  const text = col.invalidText.get(r);
+  if (text !== undefined) return text;
+  const k = col.kind[r];
+  if (k === TimeKind.Number) return String(col.raw[r]);
+  const iso = new Date(col.raw[r]!).toISOString();
+  return k === TimeKind.Date ? iso.slice(0, 10) : k === TimeKind.Naive ? iso.slice(0, 19) : iso;
 }
 
 /** Row indices (file order) of each key value, in order of first appearance. */
@@ -219,7 +296,7 @@ function groupsOf(t: Table, m: MetricPlan): { key: string | null; rows: Int32Arr
     while (col.ids[r] !== blank) r++;
     return new LeadlineError(
       'data',
-      `The key in column "${m.key}" is blank; every row of a long-format file needs a key.`,
+      `The key in column "${visible(m.key)}" is blank; every row of a long-format file needs a key.`,
       {
         file: t.file,
         line: t.lines[r]!,
@@ -246,6 +323,7 @@ function buildMetric(
   multi: boolean,
   series: Series[],
   failures: IngestFailure[],
+  configPath: string,
 ): void {
   const fail = (
     error: LeadlineError,
@@ -266,7 +344,7 @@ function buildMetric(
     if (both) {
       return new LeadlineError(
         'data',
-        `The header has "${name}" twice (columns ${both[0]} and ${both[1]}); rename one.`,
+        `The header has "${visible(name)}" twice (columns ${both[0]} and ${both[1]}); rename one.`,
         {
           file: t.file,
           line: t.headerLine,
@@ -308,7 +386,7 @@ function buildMetric(
 
   let times: TimeInfo | null = null;
   if (m.time !== null) {
-    const info = timesOf(t, timeIndex, m.time);
+    const info = timesOf(t, timeIndex, m.time, m.timeFormat);
     if (info instanceof LeadlineError) return void fail(info, 'error');
     times = info;
   }
@@ -321,6 +399,11 @@ function buildMetric(
       fail(layout, verdictOf(layout), null, g.key);
       continue;
     }
+    const window = windowTooLong(m, layout, configPath);
+    if (window) {
+      fail(window, 'error', null, g.key);
+      continue;
+    }
     for (const [column, ci] of valueIndex) {
       const s = buildSeries(t, m, layout, column, ci, g.key, multi);
       if (s instanceof LeadlineError) {
@@ -328,6 +411,26 @@ function buildMetric(
       } else series.push(s);
     }
   }
+}
+
+/**
+ * Longest limit window in steps: a duration on fine data (180d of minutes) would otherwise be
+ * hundreds of thousands of forecast steps, minutes of work and gigabytes of memory.
+ */
+export const MAX_WINDOW_STEPS = 10_000;
+
+/** The error for a limit window longer than MAX_WINDOW_STEPS at this series' spacing, or null. */
+function windowTooLong(m: MetricPlan, layout: Layout, configPath: string): LeadlineError | null {
+  if (!m.limit) return null;
+  const spacing = layout.spec?.spacing ?? 'row';
+  const steps = durationToSteps(m.limit.within, spacing, layout.spec?.stepMs ?? null);
+  if (steps === null || steps <= MAX_WINDOW_STEPS) return null;
+  const step = layout.spec ? describeStep(layout.spec) : 'row';
+  return new LeadlineError(
+    'config',
+    `The limit window ${m.limit.withinLabel} is ${steps} steps of one ${step} for this series; at most ${MAX_WINDOW_STEPS} are forecast. Give a shorter window.`,
+    { file: configPath, line: m.line, keyPath: `${m.keyPath}.limit.within` },
+  );
 }
 
 /** Where each grid point's value comes from. */
@@ -373,14 +476,14 @@ function layoutTimed(
     if (distinct.length === 0 || ms[r]! !== distinct[distinct.length - 1]) distinct.push(ms[r]!);
   if (order.length < MIN_OBSERVATIONS) {
     return tooFew(
-      `Only ${order.length} row${order.length === 1 ? '' : 's'}${key !== null ? ` for key "${key}"` : ''}; at least ${MIN_OBSERVATIONS} observations are needed.`,
+      `Only ${order.length} row${order.length === 1 ? '' : 's'}${key !== null ? ` for key "${displayName(key)}"` : ''}; at least ${MIN_OBSERVATIONS} observations are needed.`,
       t.file,
     );
   }
   if (distinct.length < 2) {
     if (m.duplicates === 'error') return duplicateError(t, order[0]!, order[1]!, timeIndex, true, null);
     return tooFew(
-      `All ${order.length} rows${key !== null ? ` for key "${key}"` : ''} have the same time, which leaves 1 observation; at least ${MIN_OBSERVATIONS} are needed.`,
+      `All ${order.length} rows${key !== null ? ` for key "${displayName(key)}"` : ''} have the same time, which leaves 1 observation; at least ${MIN_OBSERVATIONS} are needed.`,
       t.file,
     );
   }
@@ -449,10 +552,13 @@ function duplicateError(
   spec: GridSpec | null,
 ): LeadlineError {
   const [first, second] = a < b ? [a, b] : [b, a];
-  const what = exact || !spec ? 'the same time' : `the same ${describeStep(spec)} on the time grid`;
+  const what =
+    exact || !spec
+      ? 'have the same time'
+      : `fall on the same point of the time grid (one point every ${describeStep(spec)})`;
   return new LeadlineError(
     'data',
-    `Lines ${t.lines[first]} and ${t.lines[second]} have ${what}; remove one, or set "duplicates" to first, last or mean.`,
+    `Lines ${t.lines[first]} and ${t.lines[second]} ${what}; remove one, or set "duplicates" to first, last or mean.`,
     { file: t.file, line: t.lines[second]!, column: timeIndex + 1 },
   );
 }
@@ -470,11 +576,18 @@ function buildSeries(
   let blanks = 0;
   for (const r of layout.rows) {
     const st = col.status[r]!;
+    if (st === CellStatus.TooLarge) {
+      return new LeadlineError(
+        'data',
+        `The value ${quoteCell(col.invalidText.get(r) ?? '')} in column "${visible(column)}" is too large for the statistics (beyond ±${MAX_MAGNITUDE.toExponential()}).`,
+        { file: t.file, line: t.lines[r]!, column: ci + 1 },
+      );
+    }
     if (st === CellStatus.Invalid) {
       const text = col.invalidText.get(r);
       return new LeadlineError(
         'data',
-        `The cell ${text === undefined ? '' : `${quoteCell(text)} `}in column "${column}" is not a number (expected e.g. 12.5 or -3e4, with "." for decimals).`,
+        `The cell ${text === undefined ? '' : `${quoteCell(text)} `}in column "${visible(column)}" is not a number (expected e.g. 12.5 or -3e4, with "." for decimals).`,
         { file: t.file, line: t.lines[r]!, column: ci + 1 },
       );
     }
@@ -482,7 +595,7 @@ function buildSeries(
       if (m.blanks === 'error') {
         return new LeadlineError(
           'data',
-          `The cell in column "${column}" is blank; fill it, or set "blanks: missing" to read blanks as missing values.`,
+          `The cell in column "${visible(column)}" is blank; fill it, or set "blanks: missing" to read blanks as missing values.`,
           {
             file: t.file,
             line: t.lines[r]!,
@@ -524,7 +637,7 @@ function buildSeries(
   for (let i = 0; i < values.length; i++) if (!Number.isNaN(values[i]!)) observed++;
   if (observed < MIN_OBSERVATIONS) {
     return tooFew(
-      `Only ${observed} observation${observed === 1 ? '' : 's'} in column "${column}"${key !== null ? ` for key "${key}"` : ''}; at least ${MIN_OBSERVATIONS} are needed.`,
+      `Only ${observed} observation${observed === 1 ? '' : 's'} in column "${visible(column)}"${key !== null ? ` for key "${displayName(key)}"` : ''}; at least ${MIN_OBSERVATIONS} are needed.`,
       t.file,
     );
   }

@@ -15,7 +15,13 @@ export interface ColumnRoles {
   key: boolean;
 }
 
-export const CellStatus = { Ok: 0, Blank: 1, Invalid: 2 } as const;
+export const CellStatus = { Ok: 0, Blank: 1, Invalid: 2, TooLarge: 3 } as const;
+
+/**
+ * Largest magnitude of a value: beyond it sums of squares overflow and the statistics turn to NaN
+ * (real metrics stay far below; a byte count of a zettabyte is 1e21).
+ */
+export const MAX_MAGNITUDE = 1e100;
 
 export interface ValueColumn {
   numbers: Float64Array;
@@ -84,9 +90,10 @@ export function parseNumberCell(text: string): { value: number; status: number }
   if (s === '') return { value: NaN, status: CellStatus.Blank };
   if (!NUMBER.test(s)) return { value: NaN, status: CellStatus.Invalid };
   const v = Number(s);
-  return Number.isFinite(v)
-    ? { value: v, status: CellStatus.Ok }
-    : { value: NaN, status: CellStatus.Invalid };
+  if (!Number.isFinite(v)) return { value: NaN, status: CellStatus.Invalid };
+  return Math.abs(v) > MAX_MAGNITUDE
+    ? { value: NaN, status: CellStatus.TooLarge }
+    : { value: v, status: CellStatus.Ok };
 }
 
 /** Chooses comma, semicolon or tab: whichever occurs most (outside quotes) in the header line. */
@@ -115,6 +122,16 @@ function firstLine(text: string, complete: boolean): string | null {
     }
   }
   return complete || text.length >= HEAD_LIMIT ? text.slice(startAt) : null;
+}
+
+/** Two neighbouring fields that read as one number with a decimal comma ("1", "5" -> "1,5"), or null. */
+function decimalComma(record: string[]): string | null {
+  for (let i = 0; i + 1 < record.length; i++) {
+    const a = record[i]!.trim();
+    const b = record[i + 1]!.trim();
+    if (/^[+-]?\d+$/.test(a) && /^\d+$/.test(b)) return `${a},${b}`;
+  }
+  return null;
 }
 
 function csvMessage(e: CsvError): { message: string; line: number | null } {
@@ -165,6 +182,16 @@ export async function readTable(abs: string, file: string, wanted: Map<string, C
   } catch (e) {
     source.destroy();
     throw readError(e, file);
+  }
+  let boms = 0;
+  while (head[boms * 3] === 0xef && head[boms * 3 + 1] === 0xbb && head[boms * 3 + 2] === 0xbf) boms++;
+  if (boms > 1) {
+    source.destroy();
+    throw new LeadlineError(
+      'data',
+      `The file starts with ${boms} byte-order marks (U+FEFF); an editor added one too many. Remove them (save the file as UTF-8).`,
+      { file, line: 1, column: 1 },
+    );
   }
   if (
     head.length >= 2 &&
@@ -249,9 +276,12 @@ export async function readTable(abs: string, file: string, wanted: Map<string, C
     nextLine += span;
     if (record.length === 1 && record[0]!.trim() === '') return;
     if (table.header !== null && record.length !== width) {
+      const comma = table.delimiter === ',' ? decimalComma(record) : null;
       throw new LeadlineError(
         'data',
-        `This row has ${record.length} field${record.length === 1 ? '' : 's'} but the header has ${width}; a value containing the delimiter ${JSON.stringify(table.delimiter)} must be quoted.`,
+        comma
+          ? `This row has ${record.length} fields but the header has ${width}: "${comma}" looks like a number with a decimal comma. Write it with a point (${comma.replace(',', '.')}), or quote it ("${comma}"), or use ";" as the delimiter.`
+          : `This row has ${record.length} field${record.length === 1 ? '' : 's'} but the header has ${width}; a value containing the delimiter ${JSON.stringify(table.delimiter)} must be quoted.`,
         { file, line: startLine },
       );
     }
@@ -314,7 +344,7 @@ export async function readTable(abs: string, file: string, wanted: Map<string, C
       const p = parseNumberCell(cell);
       c.numbers.push(p.value);
       c.status.push(p.status);
-      if (p.status === CellStatus.Invalid && c.col.invalidText.size < INVALID_TEXTS)
+      if (p.status >= CellStatus.Invalid && c.col.invalidText.size < INVALID_TEXTS)
         c.col.invalidText.set(row, cell);
     }
     for (const c of timeCols) {

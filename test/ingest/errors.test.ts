@@ -85,7 +85,7 @@ describe('bad cells name the file, line and column', () => {
       'time: t, value: v',
     );
     expect(f.error.message).toBe(
-      'Lines 3 and 4 have the same day on the time grid; remove one, or set "duplicates" to first, last or mean.',
+      'Lines 3 and 4 fall on the same point of the time grid (one point every day); remove one, or set "duplicates" to first, last or mean.',
     );
   });
 
@@ -165,7 +165,7 @@ describe('missing data gives insufficient data; missing columns an error listing
     expect(f.column).toBe('latency');
     expect(f.error.line).toBe(1);
     expect(f.error.message).toBe(
-      'The value column "latency" is not in the header; the columns are: "date", "latency_ms".',
+      'The value column "latency" is not in the header; the columns are: "date", "latency_ms". Did you mean "latency_ms"?',
     );
     const g = await failure('date,latency\n2024-01-01,1\n', 'time: date, value: latncy');
     expect(g.error.message).toContain('Did you mean "latency"?');
