@@ -365,7 +365,9 @@ export async function mergeResults(files: string[], o: MergeOptions): Promise<Me
   // Pass 1: heads first (everything is refused before any series is read when they disagree).
   const heads: Head[] = [];
   for (const file of files) {
-    const first = await readResultsFile(file).next();
+    const reader = readResultsFile(file);
+    const first = await reader.next();
+    await reader.return(undefined); // closes the file
     if (first.done || first.value.kind !== 'head') throw refuse(file, 'this file has no results head.');
     heads.push(first.value.head);
   }

@@ -23,7 +23,6 @@ export function parseShard(text: string, what: string): Shard {
     throw new LeadlineError(
       'usage',
       `${what}: "${text}" is not a shard; expected i/n with 1 ≤ i ≤ n ≤ ${MAX_SHARDS}, e.g. 2/4 for the second of four.`,
-      { keyPath: what },
     );
   return { index, count };
 }

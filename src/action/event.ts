@@ -6,9 +6,24 @@ import type { CommentTarget } from './settings.js';
 export interface EventFacts {
   /** The pull request this run is for, when the event carries one. */
   pullRequest: { number: number; baseSha: string | null; headSha: string | null } | null;
+  /**
+   * On `workflow_run`: the run that finished (and uploaded results). Its head commit and pull
+   * requests come from GitHub, not from the workflow that ran: they are what a fork cannot forge.
+   * For a fork's pull request GitHub leaves `pullRequests` empty; then the pull request is found by
+   * the head repository's owner and branch (see workflowRunPullRequest in publish.ts).
+   */
+  workflowRun: {
+    event: string;
+    headSha: string | null;
+    headOwner: string | null;
+    headBranch: string | null;
+    pullRequests: { number: number; headSha: string | null }[];
+  } | null;
 }
 
-const PR_EVENTS = new Set(['pull_request', 'pull_request_target']);
+/** Events that carry a pull request. */
+export const PR_EVENT_NAMES: ReadonlySet<string> = new Set(['pull_request', 'pull_request_target']);
+const PR_EVENTS = PR_EVENT_NAMES;
 const TRACKING_EVENTS = new Set(['push', 'schedule', 'workflow_dispatch']);
 
 /** Reads GITHUB_EVENT_PATH; a missing or unreadable payload is treated as empty (local runs). */
@@ -27,13 +42,43 @@ export async function readEvent(
   }
 }
 
+const sha = (x: unknown) => (typeof x === 'string' && /^[0-9a-f]{7,64}$/i.test(x) ? x : null);
+const word = (x: unknown, max = 255) => (typeof x === 'string' && x.length <= max ? x : null);
+const prNumber = (x: unknown) => (typeof x === 'number' && Number.isSafeInteger(x) && x > 0 ? x : null);
+
 /** Pure: payload -> facts. Tolerates any shape. */
 export function eventFacts(payload: unknown): EventFacts {
   const pr = (payload as { pull_request?: unknown } | null)?.pull_request as
     { number?: unknown; base?: { sha?: unknown }; head?: { sha?: unknown } } | undefined;
-  if (!pr || typeof pr.number !== 'number') return { pullRequest: null };
-  const sha = (x: unknown) => (typeof x === 'string' && /^[0-9a-f]{7,64}$/i.test(x) ? x : null);
-  return { pullRequest: { number: pr.number, baseSha: sha(pr.base?.sha), headSha: sha(pr.head?.sha) } };
+  const number = prNumber(pr?.number);
+  return {
+    pullRequest:
+      number === null ? null : { number, baseSha: sha(pr?.base?.sha), headSha: sha(pr?.head?.sha) },
+    workflowRun: workflowRunFacts((payload as { workflow_run?: unknown } | null)?.workflow_run),
+  };
+}
+
+function workflowRunFacts(raw: unknown): EventFacts['workflowRun'] {
+  if (!raw || typeof raw !== 'object') return null;
+  const w = raw as {
+    event?: unknown;
+    head_sha?: unknown;
+    head_branch?: unknown;
+    head_repository?: { owner?: { login?: unknown } };
+    pull_requests?: unknown;
+  };
+  const prs = Array.isArray(w.pull_requests) ? (w.pull_requests as unknown[]) : [];
+  return {
+    event: word(w.event, 64) ?? '',
+    headSha: sha(w.head_sha),
+    headOwner: word(w.head_repository?.owner?.login, 100),
+    headBranch: word(w.head_branch),
+    pullRequests: prs.flatMap((p) => {
+      const q = p as { number?: unknown; head?: { sha?: unknown } } | null;
+      const n = prNumber(q?.number);
+      return n === null ? [] : [{ number: n, headSha: sha(q?.head?.sha) }];
+    }),
+  };
 }
 
 /** Where this run's report goes, once `auto` is resolved against the event. */

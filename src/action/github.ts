@@ -52,6 +52,8 @@ export interface IssueApi {
   updateIssue(issue: number, patch: IssuePatch): Promise<Issue>;
   /** Creates the label when the repository lacks it. */
   ensureLabel(name: string, color: string, description: string): Promise<void>;
+  /** Open pull requests whose head is `owner:branch` (a fork's too), with their head commits. */
+  openPullRequests(head: string): Promise<{ number: number; headSha: string }[]>;
 }
 
 /** The HTTP status of a failed API call, or null for other failures (network, bugs). */
@@ -289,6 +291,20 @@ export function octokitApi(s: OctokitSettings): IssueApi {
         return list(all, 'list the tracking issues')
           .filter((i) => !(i as RawIssue).pull_request)
           .map((i) => issue(i, 'list the tracking issues'));
+      }),
+    openPullRequests: (head) =>
+      call('find the pull request of the workflow run', async () => {
+        const all = await octokit.paginate(octokit.rest.pulls.list, {
+          ...repo,
+          head,
+          state: 'open',
+          per_page: 100,
+        });
+        return (all as { number?: unknown; head?: { sha?: unknown } }[]).flatMap((p) =>
+          typeof p.number === 'number' && typeof p.head?.sha === 'string'
+            ? [{ number: p.number, headSha: p.head.sha }]
+            : [],
+        );
       }),
     createIssue: (title, body, labels) =>
       call('create the tracking issue', async () => {

@@ -3,7 +3,10 @@
 // written whatever happens to the comment, and the gate decides the exit code last.
 import { appendFile } from 'node:fs/promises';
 import * as core from '@actions/core';
-import { isLeadlineError } from '../errors.js';
+import { glob } from 'tinyglobby';
+import { isLeadlineError, LeadlineError } from '../errors.js';
+import { mergeResults, type ExpectedEvent } from '../merge.js';
+import { shardLabel } from '../shard.js';
 import { filesRead, outputProblems, inputGuard, InputGuard, resultsJson, writeOutput } from '../files.js';
 import { runJob, type JobOptions } from '../job.js';
 import { VERDICT_LABEL } from '../report/format.js';
@@ -12,8 +15,15 @@ import { RESULTS_SCHEMA_ID, type Results } from '../results.js';
 import { logSafe, visible } from '../untrusted.js';
 import { VERSION } from '../version.js';
 import { planAnnotations, type Annotation } from './annotations.js';
-import { destination, isPullRequestEvent, readEvent, type Destination } from './event.js';
-import { compareWithBase, isTracked, systemGit, type GitRunner } from './git.js';
+import {
+  PR_EVENT_NAMES,
+  destination,
+  isPullRequestEvent,
+  readEvent,
+  type Destination,
+  type EventFacts,
+} from './event.js';
+import { compareWithBase, headCommit, isTracked, systemGit, type GitRunner } from './git.js';
 import { limitText, octokitApi, type IssueApi, type OctokitSettings } from './github.js';
 import {
   describeError,
@@ -22,6 +32,7 @@ import {
   syncTrackingIssue,
   upsertComment,
   withMarker,
+  workflowRunPullRequest,
 } from './publish.js';
 import { configKey, envInputs, readSettings, type Settings } from './settings.js';
 import {
@@ -145,12 +156,19 @@ async function runAction(d: ActionDeps): Promise<void> {
 
   const event = await readEvent(s.run.eventPath);
   if (event.problem) warn(event.problem);
-  const dest = destination(s.comment, s.run.eventName, event.facts);
+  if (s.shard && s.merge.length > 0)
+    throw new LeadlineError(
+      'usage',
+      'Inputs "shard" and "merge" cannot be used together: each shard computes its part, one merge job publishes.',
+    );
+  let dest = destination(s.comment, s.run.eventName, event.facts);
+  // A shard publishes nothing unless told where: its verdict covers its part only.
+  if (s.shard && s.comment.kind === 'auto') dest = { kind: 'none', why: null };
 
   let newRows: Record<string, number> | undefined;
   let baseNote: string | undefined;
   const pr = event.facts.pullRequest;
-  if (pr && isPullRequestEvent(s.run.eventName, event.facts)) {
+  if (pr && s.merge.length === 0 && isPullRequestEvent(s.run.eventName, event.facts)) {
     const cmp = await compareWithBase(d.git, s.workingDirectory, pr.baseSha);
     if (cmp.ok) {
       newRows = cmp.newRows;
@@ -187,16 +205,39 @@ async function runAction(d: ActionDeps): Promise<void> {
   // Whatever happens in the job, the results file, outputs and summary are written.
   let results: Results;
   let jobError: unknown = null;
+  const mergeFiles: string[] = [];
   try {
-    results = await d.job({
-      cwd: s.workingDirectory,
-      configPath: s.config,
-      failOn: s.failOn,
-      jobs: s.jobs,
-      fullHistory: s.fullHistory,
-      ...(newRows ? { newRows } : {}),
-      ...(baseNote ? { baseNote } : {}),
-    });
+    if (s.merge.length > 0) {
+      // Results files instead of CSVs: a matrix's shards, or a fork's artifact under workflow_run.
+      mergeFiles.push(...(await resultsFiles(s)));
+      const trusted = await trustedPullRequest(d, s, event.facts, token);
+      if (trusted?.dest) dest = trusted.dest;
+      info(`Merging ${mergeFiles.length} results file${mergeFiles.length === 1 ? '' : 's'}.`);
+      const merged = await mergeResults(mergeFiles, {
+        failOn: s.failOn,
+        ...(trusted?.expect ? { expect: trusted.expect } : {}),
+      });
+      results = await merged.full();
+    } else
+      results = await d.job({
+        cwd: s.workingDirectory,
+        configPath: s.config,
+        failOn: s.failOn,
+        jobs: s.jobs,
+        fullHistory: s.fullHistory,
+        shard: s.shard,
+        commit: await headCommit(d.git, s.workingDirectory),
+        event: s.run.eventName
+          ? {
+              name: s.run.eventName,
+              pullRequest: pr?.number ?? null,
+              base: pr?.baseSha ?? null,
+              head: pr?.headSha ?? null,
+            }
+          : null,
+        ...(newRows ? { newRows } : {}),
+        ...(baseNote ? { baseNote } : {}),
+      });
   } catch (e) {
     jobError = e;
     results = failedRun(e, s);
@@ -204,7 +245,10 @@ async function runAction(d: ActionDeps): Promise<void> {
   info(`Leadline: ${VERDICT_LABEL[results.verdict]}. ${results.gate.reason}`);
 
   // Output files. A failure here fails the step after everything else is done.
-  const guard = new InputGuard(s.workingDirectory, s.config, before.patterns, filesRead(results));
+  const guard = new InputGuard(s.workingDirectory, s.config, before.patterns, [
+    ...filesRead(results),
+    ...mergeFiles,
+  ]);
   const save = async (file: string, label: string, text: () => string | Iterable<string>) => {
     if (blocked.has(label)) return;
     try {
@@ -233,31 +277,33 @@ async function runAction(d: ActionDeps): Promise<void> {
   // The summary is written before publishing, so a stalled API cannot lose it.
   const footer = failures.map((f) => `❌ ${escapeText(f)}`);
   const suffix = footer.length > 0 ? `\n\n---\n\n${footer.join('\n\n')}\n` : '';
-  let summary: string;
-  try {
-    if (jobError) throw jobError;
-    summary = fitRendering(
-      (maxChars) => d.renderMarkdown(results, { maxChars, fullReportNote: fullReportNote(link) }),
-      1_000_000,
-      SUMMARY_MAX_BYTES - SUMMARY_FOOTER_ROOM,
-      suffix,
-    );
-  } catch (e) {
-    // A renderer bug (or a job that never finished) must not cost the summary its verdict.
-    const why =
-      e === jobError
-        ? escapeText(
-            isLeadlineError(e)
-              ? e.describe()
-              : `Leadline stopped on an unexpected error (please report it): ${(e as Error)?.message ?? String(e)}`,
-          )
-        : `The report could not be rendered (${escapeText((e as Error).message)}); the results file has everything.`;
-    summary =
-      e === jobError
-        ? `## Leadline could not run\n\n${why}\n${suffix}`
-        : `## Leadline: ${results.verdict}\n\n${escapeText(results.gate.reason)}\n\n${why}${suffix}`;
-    if (e !== jobError) failures.push(`summary: the report could not be rendered: ${(e as Error).message}`);
-  }
+  let summary = '';
+  if (s.shard && !jobError) summary = shardSummary(results, s.results, suffix);
+  else
+    try {
+      if (jobError) throw jobError;
+      summary = fitRendering(
+        (maxChars) => d.renderMarkdown(results, { maxChars, fullReportNote: fullReportNote(link) }),
+        1_000_000,
+        SUMMARY_MAX_BYTES - SUMMARY_FOOTER_ROOM,
+        suffix,
+      );
+    } catch (e) {
+      // A renderer bug (or a job that never finished) must not cost the summary its verdict.
+      const why =
+        e === jobError
+          ? escapeText(
+              isLeadlineError(e)
+                ? e.describe()
+                : `Leadline stopped on an unexpected error (please report it): ${(e as Error)?.message ?? String(e)}`,
+            )
+          : `The report could not be rendered (${escapeText((e as Error).message)}); the results file has everything.`;
+      summary =
+        e === jobError
+          ? `## Leadline could not run\n\n${why}\n${suffix}`
+          : `## Leadline: ${results.verdict}\n\n${escapeText(results.gate.reason)}\n\n${why}${suffix}`;
+      if (e !== jobError) failures.push(`summary: the report could not be rendered: ${(e as Error).message}`);
+    }
   await writeSummary(s, summary);
 
   const published = jobError
@@ -272,18 +318,20 @@ async function runAction(d: ActionDeps): Promise<void> {
   if (published.warning) after.push(`⚠️ ${escapeText(published.warning)}`);
   if (after.length > 0) await writeSummary(s, `\n---\n\n${after.join('\n\n')}\n`);
 
-  const gateFails = !results.gate.passed;
-  try {
-    const plan = planAnnotations(
-      results,
-      { cwd: s.workingDirectory, workspace: s.workspace },
-      { warning: used.warning, error: used.error + failures.length + (gateFails ? 1 : 0) },
-    );
-    for (const a of plan.shown) annotate(a);
-    if (plan.overflow) annotate(plan.overflow);
-  } catch (e) {
-    failures.push(`annotations: ${(e as Error).message}`);
-  }
+  // A shard's gate and annotations would judge its part alone: the merge job gives the run's.
+  const gateFails = !results.gate.passed && !s.shard;
+  if (!s.shard)
+    try {
+      const plan = planAnnotations(
+        results,
+        { cwd: s.workingDirectory, workspace: s.workspace },
+        { warning: used.warning, error: used.error + failures.length + (gateFails ? 1 : 0) },
+      );
+      for (const a of plan.shown) annotate(a);
+      if (plan.overflow) annotate(plan.overflow);
+    } catch (e) {
+      failures.push(`annotations: ${(e as Error).message}`);
+    }
 
   for (const f of failures) {
     used.error++;
@@ -292,6 +340,85 @@ async function runAction(d: ActionDeps): Promise<void> {
   if (jobError) throw jobError;
   if (gateFails) core.setFailed(results.gate.reason);
   else if (failures.length > 0) core.setFailed(`Leadline could not write ${failures.length} output file(s).`);
+}
+
+/** The GitHub API for this repository with the run's settings. */
+function apiOf(
+  d: ActionDeps,
+  s: Settings,
+  repository: { owner: string; repo: string },
+  token: string,
+  signal?: AbortSignal,
+): IssueApi {
+  return d.github({
+    token,
+    owner: repository.owner,
+    repo: repository.repo,
+    apiUrl: s.run.apiUrl,
+    retryBaseMs: s.run.retryBaseMs,
+    requestTimeoutMs: s.run.requestTimeoutMs,
+    ...(signal ? { signal } : {}),
+  });
+}
+
+/** A shard's job summary: what it judged and where the run's report comes from. */
+function shardSummary(r: Results, file: string, suffix: string): string {
+  const sh = r.origin.shard;
+  const part = sh ? `shard ${shardLabel(sh)}: ${r.series.length} of ${sh.series} series` : 'this shard';
+  return (
+    `## Leadline: ${part} judged\n\nThe results are in \`${escapeText(file)}\`. This shard's verdict and ` +
+    'adjusted p-values cover its part only; the job that merges every shard (`merge` input) publishes ' +
+    `the run's report and gate.\n${suffix}`
+  );
+}
+
+/** The `merge` input's files: paths or globs relative to the working directory, each match once, sorted. */
+async function resultsFiles(s: Settings): Promise<string[]> {
+  const found = await glob(s.merge, { cwd: s.workingDirectory, absolute: true, onlyFiles: true, dot: true });
+  if (found.length === 0)
+    throw new LeadlineError(
+      'usage',
+      `merge: no file matches ${s.merge.map((m) => JSON.stringify(visible(m))).join(', ')} under ${s.workingDirectory}. Download the results artifacts there first (actions/download-artifact).`,
+    );
+  return [...new Set(found)].sort();
+}
+
+/**
+ * Under `workflow_run`, the pull request to publish on (from GitHub's account of the finished run,
+ * never from the results files) and what every file must then claim. Under a pull_request event (a
+ * matrix merge in the same workflow) the event's own pull request is expected of every file.
+ */
+async function trustedPullRequest(
+  d: ActionDeps,
+  s: Settings,
+  facts: EventFacts,
+  token: string,
+): Promise<{ dest: Destination | null; expect: ExpectedEvent | null } | null> {
+  const wr = facts.workflowRun;
+  if (s.run.eventName === 'workflow_run' && wr) {
+    if (!PR_EVENT_NAMES.has(wr.event))
+      // A run of push or schedule: the comment input resolves as for that event (auto: tracking issue).
+      return {
+        dest: destination(s.comment, wr.event, { pullRequest: null, workflowRun: null }),
+        expect: null,
+      };
+    if (!token || !s.run.repository)
+      throw new LeadlineError(
+        'usage',
+        'merge under workflow_run needs the token and GITHUB_REPOSITORY to find the pull request: nothing is published.',
+      );
+    const pr = await workflowRunPullRequest(wr, apiOf(d, s, s.run.repository, token));
+    info(
+      `Publishing for pull request #${pr.number} at ${pr.headSha.slice(0, 12)}, as the workflow_run event says.`,
+    );
+    const dest: Destination | null =
+      s.comment.kind === 'auto' || s.comment.kind === 'pull-request'
+        ? { kind: 'comment', issue: pr.number, what: 'pull request' }
+        : null;
+    return { dest, expect: { pullRequest: pr.number, head: pr.headSha } };
+  }
+  const pr = facts.pullRequest;
+  return pr?.headSha ? { dest: null, expect: { pullRequest: pr.number, head: pr.headSha } } : null;
 }
 
 /**
@@ -356,15 +483,7 @@ async function tryPublish(
       action: 'skipped',
       warning: `GITHUB_REPOSITORY is not set, so the report was not posted to ${where}.`,
     };
-  const api = d.github({
-    token,
-    owner: s.run.repository.owner,
-    repo: s.run.repository.repo,
-    apiUrl: s.run.apiUrl,
-    retryBaseMs: s.run.retryBaseMs,
-    requestTimeoutMs: s.run.requestTimeoutMs,
-    signal,
-  });
+  const api = apiOf(d, s, s.run.repository, token, signal);
   // The renderer counts the marker within maxChars; withMarker and cutTo only guard a renderer that
   // leaves it out.
   const body = (mark: string) =>

@@ -1,6 +1,8 @@
 // Publishing the report: one sticky comment per pull request (or issue) per config, and one tracking
 // issue per config. Pure logic over IssueApi; the markers make Leadline's own comments and issues
 // findable again, so nothing is ever duplicated.
+import { LeadlineError } from '../errors.js';
+import type { EventFacts } from './event.js';
 import type { Issue, IssueApi, IssueComment } from './github.js';
 import { ApiFault, httpStatus } from './github.js';
 import { visible } from '../untrusted.js';
@@ -258,5 +260,34 @@ export function publishWarning(e: unknown, where: string, permission: 'pull-requ
     head +
     (retried ? ' Retries did not help; the next run will try again.' : ' The next run will try again.') +
     tail
+  );
+}
+
+/**
+ * The pull request a `workflow_run` publishes for, from what GitHub says about the finished run: its
+ * head commit, and its pull requests, or for a fork (where GitHub lists none) the open pull requests
+ * whose head is the run's owner:branch at that commit. Never from the uploaded results: those are
+ * checked against this. Throws LeadlineError('data') when there is not exactly one.
+ */
+export async function workflowRunPullRequest(
+  run: NonNullable<EventFacts['workflowRun']>,
+  api: IssueApi,
+): Promise<{ number: number; headSha: string }> {
+  const head = run.headSha;
+  if (!head)
+    throw new LeadlineError('data', 'The workflow_run event names no head commit: nothing is published.');
+  const listed = run.pullRequests.filter((p) => p.headSha === null || p.headSha === head);
+  let found = listed.map((p) => p.number);
+  if (found.length === 0 && run.headOwner && run.headBranch) {
+    const open = await api.openPullRequests(`${run.headOwner}:${run.headBranch}`);
+    found = open.filter((p) => p.headSha === head).map((p) => p.number);
+  }
+  found = [...new Set(found)];
+  if (found.length === 1) return { number: found[0]!, headSha: head };
+  throw new LeadlineError(
+    'data',
+    found.length === 0
+      ? `No open pull request has the workflow run's head commit ${head.slice(0, 12)} (it may have been pushed to since, or closed): nothing is published; the next run publishes.`
+      : `Pull requests ${found.map((n) => `#${n}`).join(', ')} all have the workflow run's head commit ${head.slice(0, 12)}: which one to publish on is unclear, so nothing is published.`,
   );
 }

@@ -7,6 +7,7 @@ import { closest } from 'fastest-levenshtein';
 import { LeadlineError } from '../errors.js';
 import { parseJobs } from '../pool.js';
 import type { FailOn } from '../results.js';
+import { parseShard, type Shard } from '../shard.js';
 
 /** Where the report goes. */
 export type CommentTarget =
@@ -41,6 +42,11 @@ export interface Settings {
   jobs: number;
   /** Every point of history and the per-step backtest measures in the results file. */
   fullHistory: boolean;
+  /** `shard: i/n`: judge only that shard's series and publish nothing (see src/shard.ts). */
+  shard: Shard | null;
+  /** `merge`: results files (paths or globs, one per line, relative to `workingDirectory`) to merge
+   * and publish instead of reading the CSVs. Empty: a normal run. */
+  merge: string[];
   /** The runner's facts about this run. */
   run: RunContext;
 }
@@ -95,6 +101,8 @@ export const INPUT_DEFAULTS = {
   'issue-label': 'leadline',
   jobs: 'auto',
   'full-history': 'false',
+  shard: '',
+  merge: '',
 } as const;
 
 export const FAIL_ON_VALUES: readonly FailOn[] = ['alarm', 'limit', 'both', 'never'];
@@ -230,6 +238,8 @@ export function readSettings(input: InputReader, env: NodeJS.ProcessEnv, cwd = p
     issueLabel: label,
     jobs: parseJobs(get('jobs'), 'jobs'),
     fullHistory: parseSwitch('full-history', get('full-history')),
+    shard: get('shard') === '' ? null : parseShard(get('shard'), 'shard'),
+    merge: mergeList(get('merge')),
     run: {
       eventName: env.GITHUB_EVENT_NAME ?? '',
       eventPath: env.GITHUB_EVENT_PATH || null,
@@ -243,6 +253,16 @@ export function readSettings(input: InputReader, env: NodeJS.ProcessEnv, cwd = p
       publishTimeoutMs: positiveMs(env.LEADLINE_PUBLISH_TIMEOUT_MS, PUBLISH_TIMEOUT_MS),
     },
   };
+}
+
+/** The `merge` input: one path or glob per line (or separated by commas), blank lines ignored. */
+function mergeList(raw: string): string[] {
+  const items = raw
+    .split(/[\n,]/)
+    .map((x) => x.trim())
+    .filter(Boolean);
+  for (const x of items) if (/\0/.test(x)) throw invalid('merge', x, 'file paths or globs');
+  return items;
 }
 
 /** The config's identity for markers: its path from the checkout root, forward slashes. */

@@ -6,6 +6,7 @@ import {
   existsSync,
   mkdirSync,
   mkdtempSync,
+  truncateSync,
   readFileSync,
   rmSync,
   writeFileSync,
@@ -559,5 +560,170 @@ describe('the bundled Action on scheduled runs', () => {
     const out = await runAction(server, ws, { name: 'push', payload: {} }, { 'fail-on': 'sometimes' });
     expect(out.code).toBe(1);
     expect(commands(out.stdout, 'error')[0]!.message).toContain('Input "fail-on" is "sometimes"');
+  });
+});
+
+describe('the bundled Action split over a matrix and merged', () => {
+  it('4 shards publish nothing; the merge leaves one comment and one gate, equal to a single run', async () => {
+    const ws = makeWorkspace({ storageSlope: 10, pr: [`${day(60)},121.0`, `${day(61)},190.0`] });
+    const ev = { name: 'pull_request', payload: prPayload(server, ws) };
+    const dir = path.join(ws.runnerTemp, 'artifacts');
+    for (let i = 1; i <= 4; i++) {
+      const shard = await runAction(server, ws, ev, {
+        shard: `${i}/4`,
+        'fail-on': 'both',
+        results: path.join(dir, `shard-${i}`, 'results.json'),
+      });
+      expect(shard.stderr).toBe('');
+      expect(shard.code, `shard ${i}`).toBe(0); // a shard never fails the gate
+      expect(shard.results!.origin.shard).toMatchObject({ index: i, count: 4, series: 2 });
+      expect(shard.results!.origin.event).toEqual({
+        name: 'pull_request',
+        pullRequest: 17,
+        base: ws.base,
+        head: ws.head,
+      });
+      expect(commands(shard.stdout, 'warning').concat(commands(shard.stdout, 'error'))).toEqual([]);
+      expect(shard.summary).toContain(`shard ${i}/4`);
+    }
+    expect(server.calls).toEqual([]); // nothing published, nothing even read
+
+    const merged = await runAction(server, ws, ev, { merge: `${dir}/*/results.json`, 'fail-on': 'both' });
+    expect(merged.stderr).toBe('');
+    expect(merged.code).toBe(1); // the run's gate: one alarm, one limit at risk
+    expect(merged.outputs).toMatchObject({ verdict: 'alarm', alarms: '1', 'at-risk': '1' });
+    expect(server.writes()).toEqual([`POST /repos/fernhill-labs/capacity/issues/17/comments`]);
+    expect(server.commentsOn(17)).toHaveLength(1);
+    expect(server.commentsOn(17)[0]!.body.startsWith(MARK)).toBe(true);
+    const gates = commands(merged.stdout, 'error').filter((e) => e.message.startsWith('Gate failed'));
+    expect(gates).toHaveLength(1);
+    // Annotations on the CSV lines, as a single run makes them.
+    expect(
+      commands(merged.stdout, 'error').find((e) => e.props.file === 'metrics/latency.csv')?.props.line,
+    ).toBe('63');
+
+    // The same pull request judged in one run: the same results apart from the time they were made.
+    const single = await runAction(server, ws, ev, { 'fail-on': 'both', comment: 'off' });
+    const strip = (r: Results) => ({ ...r, generatedAt: '' });
+    expect(strip(merged.results!)).toEqual(strip(single.results!));
+  });
+});
+
+describe('fork-safe publishing from a workflow_run job', () => {
+  /** The pull_request job of a fork: computes with a read-only token, posts nothing, uploads its results. */
+  async function forkArtifact(ws: Workspace): Promise<string> {
+    const out = await runAction(
+      server,
+      ws,
+      { name: 'pull_request', payload: prPayload(server, ws) },
+      { comment: 'off', results: path.join(ws.runnerTemp, 'upload', 'results.json') },
+    );
+    expect(out.code).toBe(0);
+    return readFileSync(path.join(ws.runnerTemp, 'upload', 'results.json'), 'utf8');
+  }
+
+  /** The workflow_run job: no checkout, only the downloaded artifact, and GitHub's account of the run. */
+  async function publish(ws: Workspace, artifact: string | ((file: string) => void)) {
+    const top = mkdtempSync(path.join(os.tmpdir(), 'leadline-publish-'));
+    temp.push(top);
+    const empty: Workspace = {
+      root: path.join(top, 'work'),
+      base: ws.base,
+      head: ws.head,
+      runnerTemp: path.join(top, 'tmp'),
+    };
+    mkdirSync(path.join(empty.root, 'artifact'), { recursive: true });
+    mkdirSync(empty.runnerTemp);
+    const file = path.join(empty.root, 'artifact', 'results.json');
+    if (typeof artifact === 'string') writeFileSync(file, artifact);
+    else artifact(file);
+    server.pulls = [
+      { number: 16, head: 'fernhill-labs:other', sha: 'a'.repeat(40) },
+      { number: 17, head: 'quillby-fan:nightly', sha: ws.head },
+    ];
+    const payload = {
+      action: 'completed',
+      workflow_run: {
+        id: 4242,
+        event: 'pull_request',
+        conclusion: 'success',
+        head_sha: ws.head,
+        head_branch: 'nightly',
+        head_repository: { full_name: 'quillby-fan/capacity', owner: { login: 'quillby-fan' } },
+        pull_requests: [], // GitHub leaves this empty for a fork's pull request
+      },
+      repository: repository(server),
+    };
+    return runAction(
+      server,
+      empty,
+      { name: 'workflow_run', payload },
+      { merge: 'artifact/*.json', 'fail-on': 'alarm' },
+    );
+  }
+
+  it('publishes the fork’s results on the pull request GitHub names for the run', async () => {
+    const ws = makeWorkspace({ pr: [`${day(60)},121.0`, `${day(61)},190.0`] });
+    const artifact = await forkArtifact(ws);
+    expect(server.writes()).toEqual([]);
+    const out = await publish(ws, artifact);
+    expect(out.stderr).toBe('');
+    expect(out.code).toBe(1); // fail-on alarm: one alarm
+    expect(server.calls.find((c) => c.path.endsWith('/pulls'))?.query.head).toBe('quillby-fan:nightly');
+    expect(server.writes()).toEqual([`POST /repos/fernhill-labs/capacity/issues/17/comments`]);
+    expect(server.commentsOn(17)[0]!.body.startsWith(MARK)).toBe(true);
+    expect(out.outputs).toMatchObject({ verdict: 'alarm', alarms: '1' });
+    expect(out.stdout).toContain('Publishing for pull request #17');
+  });
+
+  it('refuses a tampered artifact — another pull request, oversized, invalid — and publishes nothing', async () => {
+    const ws = makeWorkspace({ pr: [`${day(60)},121.0`, `${day(61)},190.0`] });
+    const artifact = await forkArtifact(ws);
+    const hostile = JSON.stringify('<img src=x onerror=alert(1)> **bold**');
+    const cases: [string, string | ((file: string) => void), RegExp][] = [
+      [
+        'another pull request',
+        artifact.replace('"pullRequest": 17', '"pullRequest": 16'),
+        /names pull request #16, but the workflow run being published is for pull request #17/,
+      ],
+      [
+        'another head commit',
+        artifact.replaceAll(ws.head, 'b'.repeat(40)),
+        /computed at head commit bbbbbbbbbbbbbbbbbbb…/,
+      ],
+      [
+        'oversized',
+        (file) => {
+          writeFileSync(file, artifact);
+          truncateSync(file, 1024 ** 3 + 1); // sparse: no disk used
+        },
+        /a results file is refused above 1073741824 bytes/,
+      ],
+      [
+        'invalid',
+        artifact.replace('"verdict":"ok"', '"verdict":' + hostile),
+        /a series is not valid: verdict/,
+      ],
+      [
+        'an oversized text',
+        artifact.replace('"reason":"', `"reason":"${'x'.repeat(5000)}`),
+        /a series is not valid: (backtest\.)?reason: Too big/,
+      ],
+      ['not results', '{"$schema": "urn:other"}', /not a Leadline results file/],
+    ];
+    for (const [what, content, why] of cases) {
+      server.calls = [];
+      const out = await publish(ws, content);
+      expect(out.code, what).toBe(1);
+      expect(server.writes(), what).toEqual([]);
+      const failed = commands(out.stdout, 'error')
+        .map((e) => e.message)
+        .join('\n');
+      expect(failed, what).toMatch(why);
+      expect(out.summary, what).toContain('could not run');
+      expect(out.summary, what).not.toContain('<img');
+      expect(out.outputs['comment-url'], what).toBe('');
+    }
+    expect(server.comments).toEqual([]);
   });
 });

@@ -49,6 +49,8 @@ export class FakeGitHubServer {
   comments: StoredComment[] = [];
   issues: StoredIssue[] = [];
   labels = new Set<string>();
+  /** Open pull requests, by head label ("owner:branch"), for GET /pulls?head=. */
+  pulls: { number: number; head: string; sha: string }[] = [];
   failures: Failure[] = [];
   /** Holds the first `count` matching calls until all have arrived (see handle). */
   barrier: { method: string; path: RegExp; count: number; waiting: (() => void)[] } | null = null;
@@ -265,6 +267,15 @@ export class FakeGitHubServer {
     if ((m = /^\/labels\/([^/]+)$/.exec(p)) && call.method === 'GET') {
       const name = decodeURIComponent(m[1]!);
       return this.labels.has(name) ? send(200, { name }) : send(404, { message: 'Not Found' });
+    }
+    if (p === '/pulls' && call.method === 'GET') {
+      const list = this.pulls.filter((x) => !call.query.head || x.head === call.query.head);
+      const { items, headers } = page(list);
+      return send(
+        200,
+        items.map((x) => ({ number: x.number, state: 'open', head: { sha: x.sha, label: x.head } })),
+        headers,
+      );
     }
     if (p === '/labels' && call.method === 'POST') {
       this.labels.add(String(body.name));

@@ -198,6 +198,12 @@ export class FakeGitHub implements IssueApi {
     const { labels: _l, ...plain } = i;
     return { ...plain };
   }
+  /** Open pull requests by head label ("owner:branch"), for openPullRequests. */
+  pulls: { number: number; head: string; headSha: string }[] = [];
+  async openPullRequests(head: string) {
+    this.check(`openPullRequests ${head}`);
+    return this.pulls.filter((p) => p.head === head).map(({ number, headSha }) => ({ number, headSha }));
+  }
   async ensureLabel(name: string) {
     this.check(`ensureLabel ${name}`);
     if (this.labelCreationFails) throw Object.assign(new Error('forbidden'), { status: 403 });
