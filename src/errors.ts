@@ -1,4 +1,5 @@
 // Leadline's own error type: everything a user can act on. Never shown with a stack trace.
+import { visible } from './untrusted.js';
 
 export interface Where {
   file?: string | null;
@@ -30,7 +31,8 @@ export class LeadlineError extends Error {
   describe(): string {
     const place = [this.file, this.line, this.column].filter((p) => p !== null && p !== undefined).join(':');
     const key = this.keyPath ? `${this.keyPath}: ` : '';
-    return place ? `${place}: ${key}${this.message}` : `${key}${this.message}`;
+    // Untrusted pieces (file names, cells) are shown with invisible characters escaped.
+    return visible(place ? `${place}: ${key}${this.message}` : `${key}${this.message}`, true);
   }
 }
 

@@ -16,6 +16,7 @@ import {
 } from '../files.js';
 import { mergeResults } from '../merge.js';
 import { VERSION } from '../version.js';
+import { safeStream } from '../untrusted.js';
 import { headCommit, systemGit } from '../action/git.js';
 import { shardLabel } from '../shard.js';
 import { HELP, parseCli, type CliSettings } from './args.js';
@@ -29,7 +30,9 @@ export interface CliIo {
 }
 
 /** Runs the command; resolves to the exit code (0 gate passed, 1 gate failed, 2 usage/config/data errors). */
-export async function main(argv: string[], io: CliIo): Promise<number> {
+export async function main(argv: string[], given: CliIo): Promise<number> {
+  // In a workflow step both streams are the job log: no untrusted name may issue a workflow command.
+  const io: CliIo = { ...given, stdout: safeStream(given.stdout), stderr: safeStream(given.stderr) };
   let settings: CliSettings;
   try {
     settings = parseCli(argv, io.env, io.cwd, Boolean(io.stdout.isTTY));

@@ -3,6 +3,7 @@
 import { VERDICT_LABEL } from '../report/format.js';
 import { chanceSentence, needsAttention, placement, reportOrder } from '../report/view.js';
 import type { Results, SeriesResult, Verdict } from '../results.js';
+import { shorten, visible } from '../untrusted.js';
 
 const CODES = { red: 31, green: 32, yellow: 33, blue: 34, dim: 2, bold: 1 } as const;
 type Paint = (c: keyof typeof CODES, s: string) => string;
@@ -19,9 +20,9 @@ const COLOUR: Record<Verdict, keyof typeof CODES> = {
 const WORD_WIDTH = Math.max(...Object.values(VERDICT_LABEL).map((w) => w.length));
 
 /** Control characters in metric names or cells must not reach the terminal as escapes. */
+/** Untrusted text on one terminal line: invisible characters escaped, long names shortened. */
 function clean(s: string): string {
-  // eslint-disable-next-line no-control-regex
-  return s.replace(/[\u0000-\u001f\u007f-\u009f]/g, ' ');
+  return visible(shorten(s, 200));
 }
 
 function fmt(x: number): string {

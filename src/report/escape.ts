@@ -5,6 +5,8 @@
 // literal pipe that cannot split a table cell), and HTML decodes it to the same character, so the
 // result is safe both in markdown text and inside the HTML blocks of a comment (<summary>, <td>).
 // Backslash escapes would not be: inside an HTML block GitHub shows the backslash.
+// Invisible and direction-changing characters are shown as escapes (\u202E), never applied.
+import { visible } from '../untrusted.js';
 
 // eslint-disable-next-line no-control-regex -- matching control characters is the point
 const CONTROL = /[\u0000-\u0008\u000b\u000c\u000e-\u001f\u007f\u2028\u2029]/g;
@@ -20,9 +22,7 @@ const MARKDOWN_SPECIAL = /[&<>"'`|\\*_~[\]#$]/g;
  */
 export function escapeMarkdown(text: string): string {
   return (
-    String(text)
-      .replace(NEWLINES, ' ')
-      .replace(CONTROL, '')
+    visible(String(text).replace(NEWLINES, ' ').replace(CONTROL, ''))
       .replace(MARKDOWN_SPECIAL, (c) => `&#${c.codePointAt(0)!};`)
       // No autolinks: GitHub links bare "scheme://" and "www." text.
       .replace(/:(?=\/\/)/g, '&#58;')
@@ -41,9 +41,7 @@ const HTML_SPECIAL: Record<string, string> = {
 
 /** Text made safe for HTML element content and quoted attribute values. Control characters are dropped. */
 export function escapeHtml(text: string): string {
-  return String(text)
-    .replace(CONTROL, '')
-    .replace(/[&<>"']/g, (c) => HTML_SPECIAL[c]!);
+  return visible(String(text).replace(CONTROL, ''), true).replace(/[&<>"']/g, (c) => HTML_SPECIAL[c]!);
 }
 
 /**
