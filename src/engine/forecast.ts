@@ -13,9 +13,12 @@
 // - the body, between probabilities 1 - u and u, is the sample's own: quantiles by Hyndman & Fan
 //   (1996) definition 6, position p (n + 1), whose expected coverage of a new exchangeable draw is
 //   exactly p; tail probabilities are the sample share at or beyond the value;
-// - beyond u (and below 1 - u) a Student-t tail with nu = the sigma-hat df, centred on the sample
-//   median c and scaled on each side so it meets the sample at u: Q(P) = c + (Q(u) - c) q_nu(P) /
-//   q_nu(u), and P(Y >= x) = 1 - F_nu(q_nu(u) (x - c) / (Q(u) - c)).
+// - beyond u (and below 1 - u) the Student-t(nu) fitted to the sample's mean m and sd (scale
+//   s = sd sqrt((nu - 2) / nu)), scaled to the mass the sample leaves beyond its quantile at u:
+//   P(Y >= x) = (1 - u) S_nu((x - m) / s) / S_nu((Q(u) - m) / s), S_nu = 1 - F_nu (and the mirror
+//   image below), nu the sigma-hat df, or b - 1 when fewer independent observations stand behind
+//   the sample. The tail's shape comes from the sample's mean and sd (far steadier than its extreme
+//   quantiles), its mass from the sample; it joins the body continuously at u.
 //   u = max(0.8, 1 - 5 / min(b, n)), n the sample size and b the independent observations behind it:
 //   the residuals a bootstrap resamples; for empirical h-step errors n / k, k the shocks neighbouring
 //   errors share (h for naive and drift, whose windows overlap; ceil(h / m) for seasonal naive; 1 for
@@ -24,11 +27,11 @@
 // So p-values keep their meaning far beyond the sample (run-wide control can work: a count over
 // 1,000 paths could never go below 1/1,001), and a short history (T = 30) or long step (h = 14)
 // leans on the Student-t shape with its small-sample df instead of a few extreme order statistics.
-// Where the sample has no spread on a side there is no tail to scale: the p-value is then the
-// sample's (1 + count) / (1 + b), reported as an upper bound.
+// Where the sample has no spread there is no tail to scale: the p-value is then the sample's
+// (1 + count) / (1 + b), reported as an upper bound.
 import { runResidualTests } from './checks.js';
 import { tCdf, tQuantile } from './dist.js';
-import { fmtP, selectQuantiles, sortedQuantile } from './numeric.js';
+import { fmtP, meanAndSquares, selectQuantiles, sortedQuantile } from './numeric.js';
 import { simulatePaths } from './simulate.js';
 import type {
   Fit,
@@ -197,7 +200,6 @@ export function makeForecast(fit: Fit, o: ForecastOptions): Forecast {
     nPaths = o.paths;
     paths = simulatePaths(fit, H, nPaths, o.seed, 'bootstrap');
   }
-  const nu = df > 0 ? df : Infinity;
   const base: number[] = [];
   for (let h = 1; h <= H; h++)
     base.push(paths ? fit.residualCount : (empiricalErrors?.[h - 1]?.length ?? 0) / sharedShocks(fit, h));
@@ -214,8 +216,8 @@ export function makeForecast(fit: Fit, o: ForecastOptions): Forecast {
     let q: ((prob: number) => number) | null = null;
     if (paths && work) {
       for (let p = 0; p < nPaths; p++) work[p] = paths[p * H + h]!;
-      q = splicedQuantiles(work, 0, base[h]!, nu, o.levels);
-    } else if (errs && errs.length > 0) q = splicedQuantiles(errs, mean[h]!, base[h]!, nu, o.levels, true);
+      q = splicedQuantiles(work, 0, base[h]!, df, o.levels);
+    } else if (errs && errs.length > 0) q = splicedQuantiles(errs, mean[h]!, base[h]!, df, o.levels, true);
     o.levels.forEach((level, k) => {
       const a = (1 - level / 100) / 2;
       const band = bands[k]!;
@@ -264,6 +266,62 @@ function def6(p: number, n: number): number {
   return n > 1 ? Math.min(1, Math.max(0, (p * (n + 1) - 1) / (n - 1))) : 0;
 }
 
+/** The Student-t tail beyond a sample's body (file comment). */
+interface Tail {
+  u: number;
+  /** Sample quantiles at 1 - u and u (with the offset). */
+  lo: number;
+  hi: number;
+  /** Location, scale and df of the fitted t; s 0 when the sample has no spread. */
+  m: number;
+  s: number;
+  nu: number;
+  /** The fitted t's mass beyond hi and below lo. */
+  beyondHi: number;
+  belowLo: number;
+}
+
+function tailOf(
+  sample: ArrayLike<number>,
+  offset: number,
+  lo: number,
+  hi: number,
+  base: number,
+  df: number,
+): Tail {
+  const n = sample.length;
+  const u = tailStart(base, n);
+  const nu = Math.max(1, Math.min(df > 0 ? df : Infinity, base - 1));
+  const sq = meanAndSquares(sample);
+  const sd = sq.sd(n - 1);
+  const s = nu > 2 && Number.isFinite(nu) ? sd * Math.sqrt((nu - 2) / nu) : sd;
+  const m = offset + sq.mean;
+  const ok = Number.isFinite(s) && s > 0;
+  return {
+    u,
+    lo,
+    hi,
+    m,
+    s: ok ? s : 0,
+    nu,
+    beyondHi: ok ? 1 - tCdf((hi - m) / s, nu) : 0,
+    belowLo: ok ? tCdf((lo - m) / s, nu) : 0,
+  };
+}
+
+/** The tail's quantile at prob beyond the body (prob > u or < 1 - u). */
+function tailQuantile(t: Tail, prob: number): number {
+  if (!(t.s > 0 && t.beyondHi > 0 && t.belowLo > 0)) return prob > t.u ? t.hi : t.lo;
+  if (prob > t.u) return t.m + t.s * tQuantile(1 - ((1 - prob) * t.beyondHi) / (1 - t.u), t.nu);
+  return t.m + t.s * tQuantile((prob * t.belowLo) / (1 - t.u), t.nu);
+}
+
+/** P(Y >= x) beyond the top of the body, P(Y <= x) below its bottom. */
+function tailMass(t: Tail, x: number): number {
+  if (x > t.hi) return ((1 - t.u) * (1 - tCdf((x - t.m) / t.s, t.nu))) / t.beyondHi;
+  return ((1 - t.u) * tCdf((x - t.m) / t.s, t.nu)) / t.belowLo;
+}
+
 /**
  * The spliced quantile function of a sample (file comment) at the probabilities a band needs, by
  * selection: `work` is reordered unless `sorted` (then it is read as ascending). Values are
@@ -273,13 +331,13 @@ function splicedQuantiles(
   work: Float64Array,
   offset: number,
   base: number,
-  nu: number,
+  df: number,
   levels: number[],
   sorted = false,
 ): (prob: number) => number {
   const n = work.length;
   const u = tailStart(base, n);
-  const probs = [0.5, 1 - u, u];
+  const probs = [1 - u, u];
   for (const l of levels) {
     const a = (1 - l / 100) / 2;
     if (a >= 1 - u) probs.push(a, 1 - a);
@@ -295,14 +353,8 @@ function splicedQuantiles(
     );
     probs.forEach((p, k) => at.set(p, offset + out[k]!));
   }
-  const c = at.get(0.5)!;
-  const qu = tQuantile(u, nu);
-  return (prob) => {
-    const v = at.get(prob);
-    if (v !== undefined) return v;
-    if (prob > u) return c + ((at.get(u)! - c) * tQuantile(prob, nu)) / qu;
-    return c + ((at.get(1 - u)! - c) * tQuantile(1 - prob, nu)) / qu;
-  };
+  const tail = tailOf(work, offset, at.get(1 - u)!, at.get(u)!, base, df);
+  return (prob) => at.get(prob) ?? tailQuantile(tail, prob);
 }
 
 function ranges(xs: number[]): string {
@@ -366,30 +418,28 @@ export function tailProbability(
     const n = sorted.length;
     const x = value - offset;
     const u = tailStart(base, n);
-    const nu = fc.df > 0 ? fc.df : Infinity;
-    const c = sortedQuantile(sorted, def6(0.5, n));
-    const hi = sortedQuantile(sorted, def6(u, n));
-    const lo = sortedQuantile(sorted, def6(1 - u, n));
-    const qu = tQuantile(u, nu);
+    const t = tailOf(
+      sorted,
+      0,
+      sortedQuantile(sorted, def6(1 - u, n)),
+      sortedQuantile(sorted, def6(u, n)),
+      base,
+      fc.df,
+    );
     const shareAbove = (n - lowerBound(sorted, x)) / n;
     const shareBelow = upperBound(sorted, x) / n;
     basis = 'sample';
-    if (x > hi) {
+    if (x > t.hi || x < t.lo) {
       basis = 'tail-model';
-      if (hi > c) above = 1 - tCdf((qu * (x - c)) / (hi - c), nu);
-      else {
+      if (t.s > 0 && t.beyondHi > 0 && t.belowLo > 0) {
+        above = x > t.hi ? tailMass(t, x) : 1 - tailMass(t, x);
+        below = 1 - above;
+      } else {
         above = (1 + shareAbove * base) / (1 + base);
-        boundAbove = true;
-      }
-      below = 1 - above;
-    } else if (x < lo) {
-      basis = 'tail-model';
-      if (lo < c) below = tCdf((qu * (x - c)) / (c - lo), nu);
-      else {
         below = (1 + shareBelow * base) / (1 + base);
-        boundBelow = true;
+        if (x > t.hi) boundAbove = true;
+        else boundBelow = true;
       }
-      above = 1 - below;
     } else {
       above = shareAbove;
       below = shareBelow;
@@ -426,12 +476,9 @@ export function quantileAt(fc: Forecast, step: number, prob: number): number {
     const { sorted, offset, base } = sample;
     const n = sorted.length;
     const u = tailStart(base, n);
-    const nu = fc.df > 0 ? fc.df : Infinity;
     const q = (p: number): number => offset + sortedQuantile(sorted, def6(p, n));
     if (prob >= 1 - u && prob <= u) return q(prob);
-    const c = q(0.5);
-    const edge = prob > u ? q(u) : q(1 - u);
-    return c + ((edge - c) * tQuantile(prob > u ? prob : 1 - prob, nu)) / tQuantile(u, nu);
+    return tailQuantile(tailOf(sorted, offset, q(1 - u), q(u), base, fc.df), prob);
   }
   if (!(s > 0)) return mu;
   return mu + tQuantile(prob, fc.df) * s;

@@ -224,33 +224,30 @@ describe('tail probabilities and predictive quantiles', () => {
     const body = tailProbability(out, 2, v, 'above');
     expect(body.basis).toBe('sample');
     expect(body.p).toBeCloseTo(above / 999, 12);
-    // Beyond u = max(0.8, 1 - 5/min(n, 999)) the tail is t(df) scaled to meet the sample at u:
-    // written out here with @stdlib's t CDF on the definition-6 quantiles of the paths.
-    const n = f.residualCount;
-    const u = Math.max(0.8, 1 - 5 / Math.min(n, 999));
+    // Beyond u = max(0.8, 1 - 5/min(b, 999)): the Student-t(nu), nu = min(sigma df, b - 1), fitted to
+    // the paths' mean m and sd (scale s = sd sqrt((nu - 2)/nu)), scaled to the mass 1 - u the sample
+    // leaves beyond its quantile Q(u): P(Y >= x) = (1 - u) S((x - m)/s) / S((Q(u) - m)/s). Written out
+    // with @stdlib's t CDF on the definition-6 quantile, mean and sd of the paths.
+    const b = f.residualCount;
+    const u = Math.max(0.8, 1 - 5 / Math.min(b, 999));
+    const nu = Math.min(f.sigmaDf, b - 1);
     const q6 = (p: number) => {
       const pos = p * 1000;
       const j = Math.floor(pos);
       return col[j - 1]! + (pos - j) * (col[j]! - col[j - 1]!);
     };
-    const c = q6(0.5);
-    const far = c + 10 * (q6(u) - c);
-    const qu = quantileAt(out, 2, u);
-    expect(qu).toBeCloseTo(q6(u), 10);
+    const m = col.reduce((a, x) => a + x, 0) / 999;
+    const sd = Math.sqrt(col.reduce((a, x) => a + (x - m) ** 2, 0) / 998);
+    const sc = sd * Math.sqrt((nu - 2) / nu);
+    const S = (x: number) => 1 - stdTCdf((x - m) / sc, nu);
+    expect(quantileAt(out, 2, u)).toBeCloseTo(q6(u), 10);
+    const far = m + 5 * sc;
     const tail = tailProbability(out, 2, far, 'above');
     expect(tail.basis).toBe('tail-model');
     expect(tail.bound).toBeNull();
-    const tq = (qu - c) / (q6(u) - c); // 1
-    expect(tq).toBeCloseTo(1, 12);
-    // t quantile at u from the t CDF by bisection (independent of the engine's quantile function).
-    let lo = 0;
-    let hi = 50;
-    for (let i = 0; i < 200; i++) {
-      const mid = (lo + hi) / 2;
-      if (stdTCdf(mid, f.sigmaDf) < u) lo = mid;
-      else hi = mid;
-    }
-    expect(tail.p).toBeCloseTo(1 - stdTCdf(10 * lo, f.sigmaDf), 9);
+    expect(tail.p).toBeCloseTo(((1 - u) * S(far)) / S(q6(u)), 9);
+    // The quantile inverts it: P(Y >= Q(0.999)) = 0.001.
+    expect(((1 - u) * S(quantileAt(out, 2, 0.999))) / S(q6(u))).toBeCloseTo(0.001, 8);
     // Far beyond every path the p-value keeps falling (no floor at 1/1000).
     expect(tailProbability(out, 2, 1e12, 'above').p).toBeLessThan(1e-9);
     expect(quantileAt(out, 2, 0.975)).toBeCloseTo(out.bands[0]!.upper[1]!, 12);
