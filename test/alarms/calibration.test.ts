@@ -23,20 +23,20 @@ describe('calibration benchmark, small', () => {
 
   it('alarm rates near 5% at steps 1 and 14 for every kind, short and long histories', async () => {
     const rows = await runCalibration({
-      series: 80,
+      series: 40,
       fleets: 1,
       seed: 3,
       sections: ['level'],
       generators: ['mean', 'naive'],
       kinds: ['analytic', 'bootstrap', 'empirical'],
-      paths: 300,
+      paths: 200,
     });
     expect(rows.length).toBe(2 * 2 * 3 * 2);
-    for (const r of rows) expect(r.rate).toBeLessThan(0.16); // 80 draws at 5%: P(>= 13) < 1e-3
+    for (const r of rows) expect(r.rate).toBeLessThan(0.2); // 40 draws at 5%: P(>= 8) < 0.004
     const pooled = rows.reduce((a, r) => a + r.count, 0) / rows.reduce((a, r) => a + r.n, 0);
     expect(pooled).toBeGreaterThan(0.025);
     expect(pooled).toBeLessThan(0.08);
-  }, 120_000);
+  }, 400_000);
 
   it('Bonferroni finds 5-sigma shifts with bootstrap and empirical intervals, without false alarms', async () => {
     const rows = await runCalibration({
@@ -53,5 +53,5 @@ describe('calibration benchmark, small', () => {
     for (const r of power) expect(r.rate).toBeGreaterThan(0.4); // was 0 with count-based p-values
     const fdr = rows.filter((r) => r.label.startsWith('BH realised FDR'));
     for (const r of fdr) expect(r.rate).toBeLessThan(0.3);
-  }, 120_000);
+  }, 400_000);
 });
