@@ -1,7 +1,6 @@
 // Untrusted text (file names, metric names, column names, key values, CSV cells, config keys) on its
 // way to a person: shown with invisible characters escaped, shortened for display, and never able to
 // act as a GitHub workflow command in the log.
-import { closest, distance } from 'fastest-levenshtein';
 
 /**
  * Characters that are invisible or change how the text around them is shown: control characters,
@@ -52,23 +51,8 @@ export function displayName(text: string, max = DISPLAY_MAX): string {
   return shorten(visible(text), max);
 }
 
-/**
- * The option nearest to `word` when it is near enough to be a likely slip (edit distance within a
- * third of its length, at least 2), or one that starts with it or it starts with (`latency` for
- * `latency_ms`); null otherwise. Case is ignored.
- */
-export function nearest(word: string, options: readonly string[]): string | null {
-  if (options.length === 0) return null;
-  const w = word.toLowerCase();
-  const best = closest(word, options as string[]);
-  const d = distance(w, best.toLowerCase());
-  if (d < Math.min(word.length, best.length) && d <= Math.max(2, Math.floor(word.length / 3))) return best;
-  const prefix = options.filter((o) => {
-    const l = o.toLowerCase();
-    return w.length >= 3 && l.length >= 3 && (l.startsWith(w) || w.startsWith(l));
-  });
-  return prefix.length === 1 ? prefix[0]! : null;
-}
+/** "Did you mean": the one rule lives in src/text/suggest.ts. */
+export { nearest } from './text/index.js';
 
 /**
  * Text for the job log (stdout or stderr). The runner reads any line whose first non-blank characters

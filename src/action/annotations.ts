@@ -3,7 +3,14 @@
 // and 10 errors per step and drops the rest silently, so Leadline keeps within that and counts the
 // remainder in one notice.
 import path from 'node:path';
-import type { FailOn, Results } from '../results.js';
+import type { Results } from '../results.js';
+import { num, numsApart, oneLine, pIs, plural } from '../text/index.js';
+import { gateFailsOn } from '../verdict.js';
+
+export { oneLine };
+
+/** Annotations are one line of plain text: no thousands separators inside "[lower, upper]". */
+const PLAIN = { grouping: false } as const;
 
 export type AnnotationLevel = 'error' | 'warning' | 'notice';
 
@@ -25,23 +32,6 @@ export interface AnnotationPlan {
   overflow: Annotation | null;
 }
 
-/** Text for one line of the annotation UI: control characters and runs of space collapsed. */
-export function oneLine(s: string, max = 300): string {
-  // eslint-disable-next-line no-control-regex
-  const t = s.replace(/[\u0000-\u001f\u007f\s]+/g, ' ').trim();
-  return t.length > max ? `${t.slice(0, max - 1)}…` : t;
-}
-
-function fmt(x: number): string {
-  if (!Number.isFinite(x)) return String(x);
-  return Math.abs(x) >= 1e6 || (Math.abs(x) < 1e-3 && x !== 0)
-    ? x.toExponential(3)
-    : String(Number(x.toPrecision(4)));
-}
-
-const alarmsFail = (f: FailOn) => f === 'alarm' || f === 'both';
-const limitsFail = (f: FailOn) => f === 'limit' || f === 'both';
-
 /**
  * Every annotation the results call for, most urgent first within each level, cut to what GitHub
  * shows. `cwd` is the working directory the results' file paths are relative to; `workspace` the
@@ -53,7 +43,7 @@ export function planAnnotations(
   where: { cwd: string; workspace: string },
   used: { error: number; warning: number } = { error: 0, warning: 0 },
 ): AnnotationPlan {
-  const failOn = results.gate.failOn;
+  const fails = gateFailsOn(results.gate.failOn);
   const rel = (file: string | null): string | undefined => {
     if (!file) return undefined;
     const r = path.relative(where.workspace, path.resolve(where.cwd, file));
@@ -65,7 +55,7 @@ export function planAnnotations(
 
   for (const p of results.problems) {
     all.push({
-      level: failOn === 'never' ? 'warning' : 'error',
+      level: fails.errors ? 'error' : 'warning',
       title: oneLine(`Leadline: ${p.kind} problem${p.metric ? ` in ${p.metric}` : ''}`, 120),
       message: oneLine(p.message, 1000),
       ...(rel(p.file) ? { file: rel(p.file) } : {}),
@@ -76,14 +66,14 @@ export function planAnnotations(
   for (const s of results.series) {
     for (const c of s.checked) {
       if (!c.alarm) continue;
-      const bound = c.side === 'below' ? c.lower : c.upper;
+      const [value, lower, upper, mean] = numsApart([c.value, c.lower, c.upper, c.mean], 4, PLAIN);
       all.push({
-        level: alarmsFail(failOn) ? 'error' : 'warning',
+        level: fails.alarms ? 'error' : 'warning',
         title: oneLine(`Leadline alarm: ${s.name}`, 120),
         message: oneLine(
-          `${fmt(c.value)} is ${c.side ?? 'outside'} the ${c.level}% prediction interval ` +
-            `[${fmt(c.lower)}, ${fmt(c.upper)}] (forecast ${fmt(c.mean)}, ${fmt(Math.abs(c.z))} standard errors ` +
-            `${c.side === 'below' ? 'under' : 'over'}, p = ${fmt(c.adjustedP)}). Bound crossed: ${fmt(bound)}.`,
+          `${value} is ${c.side ?? 'outside'} the ${c.level}% prediction interval ` +
+            `[${lower}, ${upper}] (forecast ${mean}, ${num(Math.abs(c.z), 3, PLAIN)} standard errors ` +
+            `${c.side === 'below' ? 'under' : 'over'}, ${pIs(c.adjustedP)}). Bound crossed: ${c.side === 'below' ? lower : upper}.`,
           1000,
         ),
         ...(rel(s.file) ? { file: rel(s.file) } : {}),
@@ -98,13 +88,13 @@ export function planAnnotations(
         ? ` The point forecast crosses at step ${lim.pointCrossing.step}${lim.pointCrossing.time ? ` (${lim.pointCrossing.time.slice(0, 10)})` : ''}.`
         : '';
       all.push({
-        level: limitsFail(failOn) ? 'error' : 'warning',
+        level: fails.limits ? 'error' : 'warning',
         title: oneLine(`Leadline limit at risk: ${s.name}`, 120),
         message: oneLine(
           lim.alreadyCrossed
-            ? `Already ${lim.side} the limit ${fmt(lim.value)} at the last observation.`
-            : `${fmt(lim.probability * 100)}% chance of going ${lim.side} ${fmt(lim.value)} within ${lim.withinLabel} ` +
-                `(risk accepted: ${fmt(lim.risk * 100)}%).${when} Forecasts are estimates, not guarantees.`,
+            ? `Already ${lim.side} the limit ${num(lim.value, 6, PLAIN)} at the last observation.`
+            : `${num(lim.probability * 100, 3, PLAIN)}% chance of going ${lim.side} ${num(lim.value, 6, PLAIN)} within ${lim.withinLabel} ` +
+                `(risk accepted: ${num(lim.risk * 100, 3, PLAIN)}%).${when} Forecasts are estimates, not guarantees.`,
           1000,
         ),
         ...(rel(s.file) ? { file: rel(s.file) } : {}),
@@ -134,8 +124,8 @@ export function planAnnotations(
           level: 'notice',
           title: 'Leadline: more findings than annotations',
           message:
-            `${more} more finding${more === 1 ? '' : 's'} (${dropped.error} error${dropped.error === 1 ? '' : 's'}, ` +
-            `${dropped.warning} warning${dropped.warning === 1 ? '' : 's'}) not annotated: GitHub shows at most ` +
+            `${plural(more, 'more finding')} (${plural(dropped.error, 'error')}, ` +
+            `${plural(dropped.warning, 'warning')}) not annotated: GitHub shows at most ` +
             `${PER_STEP.error} errors and ${PER_STEP.warning} warnings per step. The job summary and the results file list every one.`,
         };
   return { shown, overflow };

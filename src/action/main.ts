@@ -8,6 +8,7 @@ import { isLeadlineError, LeadlineError } from '../errors.js';
 import { mergeResults, type ExpectedEvent } from '../merge.js';
 import { shardLabel } from '../shard.js';
 import { filesRead, outputProblems, inputGuard, InputGuard, resultsJson, writeOutput } from '../files.js';
+import { escapeMessage as escapeText, plural } from '../text/index.js';
 import { runJob, type JobOptions } from '../job.js';
 import { VERDICT_LABEL } from '../report/format.js';
 import { renderHtml, renderMarkdown } from '../report/index.js';
@@ -176,7 +177,7 @@ async function runAction(d: ActionDeps): Promise<void> {
       info(
         files.length === 0
           ? `Pull request #${pr.number} changes no file under ${s.workingDirectory}: no row is checked.`
-          : `Pull request #${pr.number}: checking the rows it adds to ${files.length} changed file${files.length === 1 ? '' : 's'}.`,
+          : `Pull request #${pr.number}: checking the rows it adds to ${plural(files.length, 'changed file')}.`,
       );
       for (const f of cmp.added)
         info(`${visible(f)} is new in this pull request: only its last row is checked.`);
@@ -510,7 +511,7 @@ async function tryPublish(
       const mark = marker('report', key);
       const out = await upsertComment(api, dest.issue, mark, body(mark));
       info(
-        `Report ${out.action} on ${where}: ${out.url}${out.removed ? ` (${out.removed} duplicate${out.removed === 1 ? '' : 's'} removed)` : ''}`,
+        `Report ${out.action} on ${where}: ${out.url}${out.removed ? ` (${plural(out.removed, 'duplicate')} removed)` : ''}`,
       );
       for (const n of out.notes) info(n);
       return { url: out.url, action: out.action, warning: out.notes.length > 0 ? out.notes.join(' ') : null };
@@ -576,11 +577,4 @@ async function writeSummary(s: Settings, text: string): Promise<void> {
   } catch (e) {
     warn(`Leadline could not write the job summary: ${(e as Error).message}`);
   }
-}
-
-/** Plain text into markdown: characters with markdown or HTML meaning are escaped. */
-export function escapeText(s: string): string {
-  return s.replace(/[\\`*_[\]|<>&~]/g, (c) =>
-    c === '<' ? '&lt;' : c === '>' ? '&gt;' : c === '&' ? '&amp;' : `\\${c}`,
-  );
 }

@@ -3,6 +3,7 @@
 import { VERDICT_LABEL } from '../report/format.js';
 import { chanceSentence, needsAttention, placement, reportOrder } from '../report/view.js';
 import type { Results, SeriesResult, Verdict } from '../results.js';
+import { numsApart, plural } from '../text/index.js';
 import { shorten, visible } from '../untrusted.js';
 
 const CODES = { red: 31, green: 32, yellow: 33, blue: 34, dim: 2, bold: 1 } as const;
@@ -19,23 +20,17 @@ const COLOUR: Record<Verdict, keyof typeof CODES> = {
 /** Widest verdict word, for the column. */
 const WORD_WIDTH = Math.max(...Object.values(VERDICT_LABEL).map((w) => w.length));
 
-/** Control characters in metric names or cells must not reach the terminal as escapes. */
 /** Untrusted text on one terminal line: invisible characters escaped, long names shortened. */
 function clean(s: string): string {
   return visible(shorten(s, 200));
 }
 
-function fmt(x: number): string {
-  if (!Number.isFinite(x)) return String(x);
-  const a = Math.abs(x);
-  return a !== 0 && (a >= 1e6 || a < 1e-3) ? x.toExponential(3) : Number(x.toPrecision(5)).toString();
-}
-
 function line(s: SeriesResult, paint: Paint): string {
   const tag = paint(COLOUR[s.verdict], VERDICT_LABEL[s.verdict].padEnd(WORD_WIDTH));
   const last = s.checked.at(-1);
+  const shown = last ? numsApart([last.value, last.lower, last.upper], 5, { grouping: false }) : [];
   const judged = last
-    ? ` ${fmt(last.value)} vs ${last.level}% interval ${fmt(last.lower)} … ${fmt(last.upper)}: ${placement(s, last)}`
+    ? ` ${shown[0]} vs ${last.level}% interval ${shown[1]} … ${shown[2]}: ${placement(s, last)}`
     : '';
   const method = s.method ? paint('dim', ` [${s.method}, ${s.intervalKind}]`) : '';
   const why = s.reason && (s.verdict !== 'ok' || !last) ? paint('dim', ` — ${clean(s.reason)}`) : '';
@@ -48,8 +43,8 @@ export function renderSummary(r: Results, color: boolean): string {
   const s = r.summary;
   out.push(
     `${paint('bold', 'Leadline')}: ${paint(COLOUR[r.verdict], VERDICT_LABEL[r.verdict])} — ${s.series} series, ` +
-      `${s.checkedObservations} observation${s.checkedObservations === 1 ? '' : 's'} checked, ` +
-      `${s.alarms} alarm${s.alarms === 1 ? '' : 's'}, ${s.atRisk} limit${s.atRisk === 1 ? '' : 's'} at risk`,
+      `${plural(s.checkedObservations, 'observation')} checked, ` +
+      `${plural(s.alarms, 'alarm')}, ${plural(s.atRisk, 'limit')} at risk`,
   );
   const sorted = reportOrder(r);
   const shown = sorted.length > 40 ? sorted.filter((x) => needsAttention(x)) : sorted;

@@ -1,10 +1,11 @@
 // YAML text -> Plan. Pure: no file access. Every problem becomes one LeadlineError('config') that names
 // the config file, the line and column, and the key path; when there are several, the first (in
 // reading order) is the error's location and the others are listed in its message.
-import { closest, distance } from 'fastest-levenshtein';
 import { isCollection, isSeq, LineCounter, parseDocument, visit, type Document } from 'yaml';
 import type { z } from 'zod';
 import { LeadlineError } from '../errors.js';
+import { nearest } from '../text/index.js';
+
 import type { DurationUnit, LimitOptions, MetricOptions, MetricPlan, Plan } from './types.js';
 import { DEFAULT_RISK, DEFAULTS, defaultMinTrain } from './defaults.js';
 import { parseDuration } from './duration.js';
@@ -369,15 +370,6 @@ function keysFor(path: KeyPath): readonly string[] {
   return [];
 }
 
-function suggest(word: string, options: readonly string[]): string | null {
-  if (options.length === 0) return null;
-  const best = closest(word, options as string[]);
-  const d = distance(word.toLowerCase(), best.toLowerCase());
-  return d < Math.min(word.length, best.length) && d <= Math.max(2, Math.floor(best.length / 3))
-    ? best
-    : null;
-}
-
 const EXPECTED: Record<string, string> = {
   string: 'text',
   number: 'a number',
@@ -399,7 +391,7 @@ function fromIssue(issue: Issue, root: unknown): Problem[] {
     case 'unrecognized_keys': {
       const valid = keysFor(path);
       return issue.keys.map((k) => {
-        const near = suggest(k, valid);
+        const near = nearest(k, valid);
         const hint = near
           ? `did you mean "${near}"?`
           : valid.length > 0
@@ -440,7 +432,7 @@ function fromIssue(issue: Issue, root: unknown): Problem[] {
             message: `${issue.message.startsWith('expected') ? capital(issue.message) : `Expected ${options[0]}`}, found ${found}.`,
           },
         ];
-      const near = typeof value === 'string' ? suggest(value, issue.values.map(String)) : null;
+      const near = typeof value === 'string' ? nearest(value, issue.values.map(String)) : null;
       return [
         {
           path,

@@ -29,7 +29,7 @@ import {
 } from './times.js';
 import { displayName, nearest, shorten, visible } from '../untrusted.js';
 
-export { autoSeason } from './season.js';
+export { autoSeason, chooseSeason, type SeasonChoice } from './season.js';
 export { resolveFiles } from './files.js';
 
 export interface IngestFailure {

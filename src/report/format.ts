@@ -1,28 +1,6 @@
-// Number, time and verdict wording shared by the markdown and HTML reports.
+// Time and verdict wording shared by the markdown and HTML reports. Numbers, p-values and counted
+// nouns are formatted by src/text.
 import type { Spacing, Verdict } from '../results.js';
-
-const fmt4 = new Intl.NumberFormat('en-US', { maximumSignificantDigits: 4 });
-const fmt6 = new Intl.NumberFormat('en-US', { maximumSignificantDigits: 6 });
-
-/** A value for people: four significant digits with thousands separators; "n/a" when not finite. */
-export function num(x: number | null | undefined, digits: 4 | 6 = 4): string {
-  if (x === null || x === undefined || !Number.isFinite(x)) return 'n/a';
-  if (x !== 0 && Math.abs(x) < 1e-4) return x.toExponential(2);
-  return (digits === 6 ? fmt6 : fmt4).format(x === 0 ? 0 : x);
-}
-
-/** A p-value: three significant digits, "< 0.001" below that. */
-export function pval(p: number | null | undefined): string {
-  if (p === null || p === undefined || !Number.isFinite(p)) return 'n/a';
-  if (p < 0.001) return '< 0.001';
-  return String(Number(p.toPrecision(2)));
-}
-
-/** A share as a percentage, e.g. 0.934 -> "93.4%". */
-export function pct(x: number | null | undefined, decimals = 1): string {
-  if (x === null || x === undefined || !Number.isFinite(x)) return 'n/a';
-  return `${(x * 100).toFixed(decimals)}%`;
-}
 
 /** A time for tables: the date alone for whole days, otherwise date and time in UTC. */
 export function when(iso: string | null, spacing?: Spacing): string | null {
@@ -85,10 +63,6 @@ export const METHOD_LABEL: Record<string, string> = {
   'seasonal-naive': 'seasonal naive',
   drift: 'drift',
 };
-
-export function plural(n: number, one: string, many = `${one}s`): string {
-  return `${n} ${n === 1 ? one : many}`;
-}
 
 /** Step units for sentences, e.g. "day" for daily series, "row" for row order. */
 export const STEP_UNIT: Record<Spacing, string> = {

@@ -1,8 +1,8 @@
 // The HTML report: one self-contained page (inline CSS and SVG, no script, no network; a content
 // security policy forbids anything else), readable in light and dark mode.
 import type { Results, SeriesResult } from '../results.js';
-import { escapeHtml as h } from './escape.js';
-import { METHOD_LABEL, VERDICT_LABEL, num, pct, plural } from './format.js';
+import { escapeHtml as h, num, pct, plural } from '../text/index.js';
+import { METHOD_LABEL, VERDICT_LABEL } from './format.js';
 import { backtestChart, fanChart, ljungBoxChart, qqChart, spreadChart } from './svg.js';
 import { buildView, reportOrder, type SeriesView } from './view.js';
 

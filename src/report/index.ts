@@ -2,7 +2,7 @@
 // Renderers take only a Results object, so a results file alone renders the whole report.
 export { renderMarkdown, DEFAULT_MAX_CHARS, type MarkdownOptions } from './markdown.js';
 export { renderHtml } from './html.js';
-export { escapeMarkdown, escapeHtml, mermaidLabel } from './escape.js';
+export { escapeMarkdown, escapeHtml, mermaidLabel } from '../text/index.js';
 export {
   buildView,
   needsAttention,

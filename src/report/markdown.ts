@@ -7,7 +7,7 @@ import briefTemplate from './templates/brief.hbs';
 import reportTemplate from './templates/report.hbs';
 import seriesTemplate from './templates/series.hbs';
 import { buildView, type ReportView } from './view.js';
-import { plural } from './format.js';
+import { plural } from '../text/index.js';
 
 export interface MarkdownOptions {
   /** Handlebars source a user supplies, rendered over the same view (partial `series` available). */

@@ -3,8 +3,8 @@
 // labels Leadline makes itself or passes through mermaidLabel; a chart that cannot be built from
 // valid numbers is left out rather than drawn wrong.
 import type { SeriesResult } from '../results.js';
-import { mermaidLabel } from './escape.js';
-import { num, plural, when } from './format.js';
+import { mermaidLabel, num, plural } from '../text/index.js';
+import { when } from './format.js';
 
 /** Points of history before the forecast. */
 export const CHART_HISTORY = 30;

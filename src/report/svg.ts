@@ -16,8 +16,8 @@ import {
 import { chiSquareCdf, normalQuantile } from '../engine/dist.js';
 import { area, line } from 'd3-shape';
 import type { SeriesResult } from '../results.js';
-import { escapeHtml as h } from './escape.js';
-import { METHOD_LABEL, num, pval, when } from './format.js';
+import { escapeHtml as h, num, pval } from '../text/index.js';
+import { METHOD_LABEL, when } from './format.js';
 
 const W = 760;
 const M = { top: 14, right: 18, bottom: 30, left: 64 };

@@ -11,19 +11,9 @@ import type {
   Verdict,
 } from '../results.js';
 import { sideAlpha } from '../alarms/index.js';
-import { escapeMarkdown as md } from './escape.js';
-import {
-  METHOD_LABEL,
-  SPACING_WORD,
-  STEP_UNIT,
-  VERDICT_ICON,
-  VERDICT_LABEL,
-  num,
-  pct,
-  plural,
-  pval,
-  when,
-} from './format.js';
+import { escapeMarkdown as md, num, numsApart, pct, plural, pval } from '../text/index.js';
+import { failedCheckKeys, needsAttention, severityRank } from '../verdict.js';
+import { METHOD_LABEL, SPACING_WORD, STEP_UNIT, VERDICT_ICON, VERDICT_LABEL, when } from './format.js';
 import { mermaidChart } from './mermaid.js';
 import { sparkline } from './sparkline.js';
 
@@ -203,29 +193,18 @@ const CHECK_NAMES: Record<'ljungBox' | 'bias' | 'normality' | 'spread', string> 
 
 /** Residual checks that did not pass, in plain names. */
 export function failedChecks(s: SeriesResult): string[] {
-  const c = s.residualChecks;
-  if (!c) return [];
-  return (Object.keys(CHECK_NAMES) as (keyof typeof CHECK_NAMES)[])
-    .filter((k) => c[k] && c[k].ok === false)
-    .map((k) => CHECK_NAMES[k]);
+  return failedCheckKeys(s).map((k) => CHECK_NAMES[k]);
 }
 
-/**
- * What a reviewer should act on: alarms, limits at risk and errors. Residual-check flags are caveats
- * about a series' intervals, shown in its details, not a call to act.
- */
-export function needsAttention(s: SeriesResult): boolean {
-  return s.verdict === 'alarm' || s.verdict === 'at-risk' || s.verdict === 'error';
-}
+/** What a reviewer should act on (alarms, limits at risk, errors): the rule is src/verdict.ts's. */
+export { needsAttention };
 
-const RANK: Record<Verdict, number> = { alarm: 0, 'at-risk': 1, error: 2, ok: 3, 'insufficient-data': 4 };
-
-/** Series in report order: attention items first (alarms, then limits at risk, errors). */
+/** Series in report order: attention items first, most severe first (src/verdict.ts), then the rest as given. */
 export function reportOrder(results: Results): SeriesResult[] {
   const indexed = results.series.map((s, i) => ({ s, i, att: needsAttention(s) }));
   indexed.sort((a, b) => {
     if (a.att !== b.att) return a.att ? -1 : 1;
-    if (a.att) return RANK[a.s.verdict] - RANK[b.s.verdict] || a.i - b.i;
+    if (a.att) return severityRank(a.s.verdict) - severityRank(b.s.verdict) || a.i - b.i;
     return a.i - b.i;
   });
   return indexed.map((x) => x.s);
@@ -252,16 +231,23 @@ export function placement(s: Pick<SeriesResult, 'direction'>, c: CheckedObservat
 
 function checkedRow(s: SeriesResult, c: CheckedObservation): CheckedRow {
   const result = placement(s, c);
+  const [value, lower, upper] = valueAndBounds(c);
   return {
     alarm: c.alarm,
     where: checkedWhere(s, c),
-    value: num(c.value, 6),
+    value,
     expected: num(c.mean),
-    interval: `${num(c.lower)} to ${num(c.upper)} (${c.level}%)`,
+    interval: `${lower} to ${upper} (${c.level}%)`,
     result,
     p: c.adjustedP !== c.pValue ? `${pval(c.pValue)} (adjusted ${pval(c.adjustedP)})` : pval(c.pValue),
     z: Number.isFinite(c.z) ? `${c.z >= 0 ? '+' : '−'}${Math.abs(c.z).toFixed(2)}` : 'n/a',
   };
+}
+
+/** A checked value (six digits) and its interval (four), with digits enough that a value outside never prints as inside. */
+function valueAndBounds(c: CheckedObservation): [string, string, string] {
+  const [value, lower, upper] = numsApart([c.value, c.lower, c.upper], [6, 4, 4]);
+  return [value!, lower!, upper!];
 }
 
 function attentionRow(s: SeriesResult, section: number): AttentionRow {
@@ -276,8 +262,8 @@ function attentionRow(s: SeriesResult, section: number): AttentionRow {
     verdict: verdictView(s.verdict),
     why: md(s.reason) || md(VERDICT_LABEL[s.verdict]),
     spark: sparkline(s.history.map((h) => h.value)),
-    latest: lastValue ? num(lastValue.value, 6) : 'n/a',
-    expected: lastIsChecked ? `${num(last.lower)} to ${num(last.upper)} (${last.level}%)` : '',
+    latest: lastIsChecked ? valueAndBounds(last)[0] : lastValue ? num(lastValue.value, 6) : 'n/a',
+    expected: lastIsChecked ? `${valueAndBounds(last).slice(1).join(' to ')} (${last.level}%)` : '',
     where: lastValue ? locate(s.file, lastValue.row) : md(s.file),
   };
 }

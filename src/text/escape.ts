@@ -1,4 +1,5 @@
-// Escaping untrusted text (metric names, file names, column and key values, notes) for the reports.
+// Escaping untrusted text (metric names, file names, column and key values, notes, error messages)
+// for the reports, the Action's summary and annotations, and the terminal.
 //
 // Markdown: every character that could start markdown or HTML syntax becomes a numeric character
 // reference. CommonMark never reads an entity as structure ("&#42;" is a literal star, "&#124;" a
@@ -31,6 +32,18 @@ export function escapeMarkdown(text: string): string {
   );
 }
 
+/**
+ * One of Leadline's own messages (an error, a publishing warning) for markdown. It may quote untrusted
+ * text, so it is escaped like escapeMarkdown, but its lines stay apart and its "#12" references to
+ * pull requests and issues stay links.
+ */
+export function escapeMessage(text: string): string {
+  return String(text)
+    .split(/\r\n|\n|\r/)
+    .map((line) => escapeMarkdown(line).replace(/&#35;(?=\d)/g, '#'))
+    .join('  \n');
+}
+
 const HTML_SPECIAL: Record<string, string> = {
   '&': '&amp;',
   '<': '&lt;',
@@ -57,4 +70,19 @@ export function mermaidLabel(text: string, max = 60, fallback = 'series'): strin
     .trim();
   const cut = [...kept].slice(0, max).join('').trim();
   return cut.length > 0 ? cut : fallback;
+}
+
+// eslint-disable-next-line no-control-regex -- matching control characters is the point
+const SPACE_OR_CONTROL = /[\u0000-\u001f\u007f-\u009f\s]+/g;
+
+/** Text for one line of the annotation UI or a log line: control characters and runs of space collapsed, cut to `max`. */
+export function oneLine(s: string, max = 300): string {
+  const t = String(s).replace(SPACE_OR_CONTROL, ' ').trim();
+  return t.length > max ? `${t.slice(0, max - 1)}…` : t;
+}
+
+/** Text for the terminal: control characters (which could be escape sequences) become spaces. */
+export function terminalSafe(s: string): string {
+  // eslint-disable-next-line no-control-regex -- matching control characters is the point
+  return String(s).replace(/[\u0000-\u001f\u007f-\u009f]/g, ' ');
 }

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { escapeHtml, escapeMarkdown, mermaidLabel } from '../../src/report/index.js';
+import { escapeHtml, escapeMarkdown, mermaidLabel } from '../../src/text/index.js';
 
 describe('escapeMarkdown', () => {
   it('turns every markdown and HTML special character into a numeric character reference', () => {

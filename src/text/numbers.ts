@@ -1,0 +1,97 @@
+// Numbers for people: values, p-values, shares and counted nouns. Every report, log line, annotation
+// and reason sentence formats numbers through here, so one value reads the same everywhere.
+
+const formatters = new Map<string, Intl.NumberFormat>();
+function formatter(digits: number, grouping: boolean): Intl.NumberFormat {
+  const key = `${digits}${grouping ? ',' : ''}`;
+  let f = formatters.get(key);
+  if (!f) {
+    f = new Intl.NumberFormat('en-US', { maximumSignificantDigits: digits, useGrouping: grouping });
+    formatters.set(key, f);
+  }
+  return f;
+}
+
+export interface NumOptions {
+  /**
+   * Thousands separators (default true, for reports). Off for annotations and terminal lines, where
+   * "[1,234, 1,300]" would be ambiguous and numbers are searched for as typed.
+   */
+  grouping?: boolean;
+}
+
+/**
+ * A value for people: `digits` significant digits (4 unless asked), thousands separators unless
+ * turned off, exponent notation below 1e-4; "n/a" when missing or not finite.
+ */
+export function num(x: number | null | undefined, digits = 4, opts: NumOptions = {}): string {
+  if (x === null || x === undefined || !Number.isFinite(x)) return 'n/a';
+  if (x !== 0 && Math.abs(x) < 1e-4) return x.toExponential(Math.max(2, digits - 2));
+  return formatter(Math.min(21, Math.max(1, digits)), opts.grouping ?? true).format(x === 0 ? 0 : x);
+}
+
+/** The value `num` shows, as a number (for comparing what two printed values say). */
+function shown(x: number, digits: number): number {
+  if (x !== 0 && Math.abs(x) < 1e-4) return Number(x.toExponential(Math.max(2, digits - 2)));
+  return Number(x.toPrecision(digits));
+}
+
+/**
+ * Values printed side by side that must keep their order: a value and the interval it left, a limit
+ * and a forecast. Each starts at its own significant digits (`digits`, one number for all or one per
+ * value) and all gain digits together until every pair that differs prints in the same order as it
+ * is: never "656.9 is above [655.9, 656.9]". Values that are equal print equal.
+ */
+export function numsApart(
+  xs: readonly number[],
+  digits: number | readonly number[] = 4,
+  opts: NumOptions = {},
+): string[] {
+  const start = xs.map((_, i) => Math.min(17, typeof digits === 'number' ? digits : (digits[i] ?? 4)));
+  for (let extra = 0; extra <= 17; extra++) {
+    const d = start.map((s) => Math.min(17, s + extra));
+    const r = xs.map((x, i) => shown(x, d[i]!));
+    let ok = true;
+    for (let i = 0; i < xs.length && ok; i++)
+      for (let j = 0; j < xs.length && ok; j++) if (xs[i]! < xs[j]! && !(r[i]! < r[j]!)) ok = false;
+    if (ok) return xs.map((x, i) => num(x, d[i]!, opts));
+  }
+  return xs.map((x) => num(x, 17, opts));
+}
+
+/** Below this a p-value prints as a bound: "< 0.001". */
+export const P_FLOOR = 0.001;
+
+/**
+ * A p-value: two significant digits; "< 0.001" below that, never "0". `atMost` marks a p-value that
+ * is only an upper bound (the smallest a resampling test can return when the value is beyond every
+ * draw): it prints as "≤ 0.048".
+ */
+export function pval(p: number | null | undefined, opts: { atMost?: boolean } = {}): string {
+  if (p === null || p === undefined || !Number.isFinite(p)) return 'n/a';
+  if (p < P_FLOOR) return `< ${P_FLOOR}`;
+  const v = String(Number(p.toPrecision(2)));
+  return opts.atMost ? `≤ ${v}` : v;
+}
+
+/** "p = 0.012", "p < 0.001" or "p ≤ 0.048": a p-value in a sentence. */
+export function pIs(p: number | null | undefined, opts: { atMost?: boolean } = {}): string {
+  const v = pval(p, opts);
+  return /^[<≤]/.test(v) ? `p ${v}` : `p = ${v}`;
+}
+
+/** A share as a percentage, e.g. 0.934 -> "93.4%". */
+export function pct(x: number | null | undefined, decimals = 1): string {
+  if (x === null || x === undefined || !Number.isFinite(x)) return 'n/a';
+  return `${(x * 100).toFixed(decimals)}%`;
+}
+
+/** "1 alarm", "3 alarms", "2 series" (with `many`), "1 row was" / "2 rows were" (with both forms). */
+export function plural(n: number, one: string, many = `${one}s`): string {
+  return `${n} ${n === 1 ? one : many}`;
+}
+
+/** The word alone, agreeing with `n`: "step" or "steps", "has" or "have". */
+export function agree(n: number, one: string, many = `${one}s`): string {
+  return n === 1 ? one : many;
+}
