@@ -1,5 +1,5 @@
 // `leadline merge`: the results files of a run's shards (or one whole run's file, e.g. a fork's
-// artifact) -> the run's Results, concluded exactly as a single run concludes (concludeRun in job.ts:
+// artifact) -> the run's Results, concluded exactly as a single run concludes (concludeRun in outcome.ts:
 // run-wide false-alarm control over every checked observation of every shard, verdicts, summary,
 // gate). Results files are untrusted input: each is read as a stream, size-capped, and every part is
 // validated against the results schema (src/results.ts) before anything of it is used.
@@ -10,7 +10,7 @@
 // needs the whole run in memory, as in a single run.
 import { open, readFile, stat } from 'node:fs/promises';
 import { LeadlineError } from './errors.js';
-import { concludeRun } from './job.js';
+import { concludeRun, draftOf } from './outcome.js';
 import {
   RESULTS_SCHEMA_ID,
   resultsHeadSchema,
@@ -427,7 +427,7 @@ export async function mergeResults(files: string[], o: MergeOptions): Promise<Me
   for (const p of problems) delete p.position;
 
   const first = heads[0]!;
-  const concluded = concludeRun(series, {
+  const { series: settledSeries, ...concluded } = concludeRun(series.map(draftOf), {
     metrics: first.summary.metrics,
     falseAlarms: first.summary.falseAlarms,
     failOn: o.failOn,
@@ -443,14 +443,14 @@ export async function mergeResults(files: string[], o: MergeOptions): Promise<Me
     ...concluded,
     problems,
     ...(first.notes ? { notes: first.notes } : {}),
-    series,
+    series: settledSeries,
   };
 
   // Pass 2: the full series, in the run's order, with what concluding decided.
   async function* fullSeries(): AsyncGenerator<SeriesResult> {
     const readers = files.map((file) => seriesOf(file));
     try {
-      for (const [k, settled] of series.entries()) {
+      for (const [k, settled] of settledSeries.entries()) {
         const f = sourceFile[k]!;
         const next = await readers[f]!.next();
         if (next.done || next.value.name !== settled.name)

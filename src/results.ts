@@ -10,6 +10,7 @@
 // String and list caps bound what an untrusted file can make Leadline hold; real runs stay far below.
 import * as z from 'zod';
 import { METHOD_NAMES, type IntervalKind, type MethodName, type ScoreName } from './engine/types.js';
+import { DIRECTIONS, FAIL_ON_VALUES, FALSE_ALARM_CONTROLS, SPACINGS, VERDICTS } from './terms.js';
 
 /** The `$schema` of every results file and the `$id` of leadline-results.schema.json. */
 export const RESULTS_SCHEMA_ID = 'urn:leadline:results:1';
@@ -35,11 +36,11 @@ const time = text(64)
   .nullable()
   .meta({ description: 'ISO 8601 UTC when the series has times, otherwise null.' });
 
-export const verdictSchema = z.enum(['ok', 'alarm', 'at-risk', 'insufficient-data', 'error']);
-export const directionSchema = z.enum(['above', 'below', 'both']);
-export const falseAlarmSchema = z.enum(['none', 'bonferroni', 'fdr']);
-export const spacingSchema = z.enum(['minute', 'hour', 'day', 'week', 'month', 'quarter', 'year', 'row']);
-export const failOnSchema = z.enum(['alarm', 'limit', 'both', 'never']);
+export const verdictSchema = z.enum(VERDICTS);
+export const directionSchema = z.enum(DIRECTIONS);
+export const falseAlarmSchema = z.enum(FALSE_ALARM_CONTROLS);
+export const spacingSchema = z.enum(SPACINGS);
+export const failOnSchema = z.enum(FAIL_ON_VALUES);
 
 /** Bounds keyed by level in percent, e.g. { "80": 12.5, "95": 14.1 }. */
 const levelMap = z.record(text(16), real);
@@ -296,12 +297,8 @@ export const resultsSchema = resultsHeadSchema
       'What one Leadline run found: the run verdict and gate, and for every series its forecast, backtest, residual checks, checked observations and limit. Numbers that are not finite are null.',
   });
 
-export type Verdict = z.output<typeof verdictSchema>;
-export type Direction = z.output<typeof directionSchema>;
-export type FalseAlarmControl = z.output<typeof falseAlarmSchema>;
-export type Spacing = z.output<typeof spacingSchema>;
-/** What makes the run's gate fail. */
-export type FailOn = z.output<typeof failOnSchema>;
+// The shared words (verdict, direction, spacing, gate …) are src/terms.ts's; re-exported for readers.
+export type { Direction, FailOn, FalseAlarmControl, Spacing, Verdict } from './terms.js';
 /** Bounds keyed by level in percent, e.g. { "80": 12.5, "95": 14.1 }. */
 export type LevelMap = Record<string, number>;
 export type ForecastPoint = z.output<typeof forecastPoint>;

@@ -1,6 +1,6 @@
 // Times on a series' regular grid, as ISO 8601 UTC strings for results and reports.
 import type { Series } from './ingest/types.js';
-import type { Spacing } from './results.js';
+import type { Spacing } from './terms.js';
 
 const MONTHS: Partial<Record<Spacing, number>> = { month: 1, quarter: 3, year: 12 };
 

@@ -3,11 +3,12 @@
 import { existsSync, statSync } from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
-import { closest } from 'fastest-levenshtein';
 import { LeadlineError } from '../errors.js';
 import { parseJobs } from '../pool.js';
-import type { FailOn } from '../results.js';
 import { parseShard, type Shard } from '../shard.js';
+import type { FailOn } from '../terms.js';
+import { didYouMean } from '../text/index.js';
+import { FAIL_ON_DEFAULT, parseFailOn } from '../verdict.js';
 
 /** Where the report goes. */
 export type CommentTarget =
@@ -93,7 +94,7 @@ function positiveMs(text: string | undefined, fallback: number): number {
 export const INPUT_DEFAULTS = {
   config: '.github/leadline.yml',
   comment: 'auto',
-  'fail-on': 'limit',
+  'fail-on': FAIL_ON_DEFAULT.action,
   results: '',
   'working-directory': '.',
   html: '',
@@ -105,7 +106,6 @@ export const INPUT_DEFAULTS = {
   merge: '',
 } as const;
 
-export const FAIL_ON_VALUES: readonly FailOn[] = ['alarm', 'limit', 'both', 'never'];
 const COMMENT_WORDS = ['auto', 'pull-request', 'tracking-issue', 'off', 'issue:<number>'];
 
 /** Reads one input as the runner passes it (INPUT_<NAME>, trimmed); '' when absent. */
@@ -120,11 +120,6 @@ function invalid(input: string, value: string, expected: string): LeadlineError 
   return new LeadlineError('usage', `Input "${input}" is ${JSON.stringify(value)}; expected ${expected}.`, {
     keyPath: input,
   });
-}
-
-function suggestion(value: string, words: readonly string[]): string {
-  const near = closest(value.toLowerCase(), [...words]);
-  return near ? ` Did you mean "${near}"?` : '';
 }
 
 /** Parses the `comment` input. */
@@ -142,20 +137,7 @@ export function parseComment(raw: string): CommentTarget {
   throw invalid(
     'comment',
     raw,
-    `one of auto, pull-request, tracking-issue, off, or issue:<number> (e.g. issue:42).${suggestion(v, COMMENT_WORDS)}`,
-  );
-}
-
-/** Parses the `fail-on` input; `alarm,limit` (either order) is accepted for `both`. */
-export function parseFailOn(raw: string): FailOn {
-  const v = raw.trim().toLowerCase();
-  if ((FAIL_ON_VALUES as readonly string[]).includes(v)) return v as FailOn;
-  const parts = v.split(/[\s,]+/).filter(Boolean);
-  if (parts.length === 2 && parts.includes('alarm') && parts.includes('limit')) return 'both';
-  throw invalid(
-    'fail-on',
-    raw,
-    `one of alarm, limit, both, never (default limit).${suggestion(v, FAIL_ON_VALUES)}`,
+    `one of auto, pull-request, tracking-issue, off, or issue:<number> (e.g. issue:42).${didYouMean(v, COMMENT_WORDS)}`,
   );
 }
 
@@ -210,7 +192,7 @@ export function readSettings(input: InputReader, env: NodeJS.ProcessEnv, cwd = p
   if (/[\0\n\r]/.test(config)) throw invalid('config', config, 'a file path on one line');
 
   const comment = parseComment(get('comment'));
-  const failOn = parseFailOn(get('fail-on'));
+  const failOn = parseFailOn(get('fail-on'), 'action');
 
   const label = get('issue-label');
   if (label.length > 50 || /[,\n\r]/.test(label))

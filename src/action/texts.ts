@@ -2,7 +2,10 @@
 // tracking issue's title and notes. Pure; the renderer is passed in.
 import type { Results } from '../results.js';
 import { VERDICT_LABEL } from '../report/format.js';
-import { oneLine } from './annotations.js';
+import { oneLine, plural } from '../text/index.js';
+import { attentionCount, runNeedsAttention } from '../verdict.js';
+
+export { attentionCount };
 
 /** Comment and issue bodies: at most 65,536 characters (and 262,144 UTF-8 bytes). */
 export const COMMENT_MAX_CHARS = 65_536;
@@ -43,23 +46,12 @@ export function fitRendering(render: Render, maxChars: number, maxBytes: number,
   return cutTo(text, maxChars, maxBytes);
 }
 
-/** Metrics needing attention: alarms, limits at risk, or errors. */
-export function attentionCount(r: Results): number {
-  return r.series.filter((s) => s.verdict === 'alarm' || s.verdict === 'at-risk' || s.verdict === 'error')
-    .length;
-}
-
-/** Whether the tracking issue should stay open. */
-export function needsAttention(r: Results): boolean {
-  return r.verdict === 'alarm' || r.verdict === 'at-risk' || r.verdict === 'error' || r.problems.length > 0;
-}
+/** Whether the tracking issue should stay open (the rule is src/verdict.ts's). */
+export const needsAttention: (r: Results) => boolean = runNeedsAttention;
 
 export function trackingTitle(r: Results, configKey: string): string {
   const n = attentionCount(r);
-  const what =
-    n === 0
-      ? 'a problem with the run'
-      : `${n} metric${n === 1 ? '' : 's'} need${n === 1 ? 's' : ''} attention`;
+  const what = n === 0 ? 'a problem with the run' : `${plural(n, 'metric needs', 'metrics need')} attention`;
   return oneLine(`Leadline: ${what} (${configKey})`, 200);
 }
 
@@ -82,7 +74,7 @@ export function closeNote(link: string | null): string {
 export function reopenNote(r: Results, link: string | null): string {
   const n = attentionCount(r);
   return (
-    `Reopened${link ? ` by [this run](${link})` : ''}: ${n} metric${n === 1 ? '' : 's'} need${n === 1 ? 's' : ''} attention again ` +
+    `Reopened${link ? ` by [this run](${link})` : ''}: ${plural(n, 'metric needs', 'metrics need')} attention again ` +
     `(${VERDICT_LABEL[r.verdict]}). The description above has the current report.`
   );
 }

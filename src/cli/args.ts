@@ -2,8 +2,10 @@
 import { parseArgs } from 'node:util';
 import { LeadlineError } from '../errors.js';
 import { parseJobs } from '../pool.js';
-import type { FailOn } from '../results.js';
 import { parseShard, type Shard } from '../shard.js';
+import type { FailOn } from '../terms.js';
+import { didYouMean } from '../text/index.js';
+import { FAIL_ON_DEFAULT, parseFailOn } from '../verdict.js';
 
 export type PrintMode = 'summary' | 'markdown' | 'json' | 'none';
 
@@ -52,7 +54,8 @@ Options for run:
   --markdown FILE      write the markdown report to FILE
   --html FILE          write the self-contained HTML report to FILE
   --template FILE      render the markdown report with this handlebars template instead of the built-in one
-  --fail-on LIST       what fails the run: alarm, limit, alarm,limit (or both), never (default alarm,limit)
+  --fail-on LIST       what fails the run: alarm, limit, alarm,limit (or both), never (default both:
+                       any alarm or limit at risk); errors fail it under every value, never included
   --print MODE         what to print on stdout: summary (default), markdown, json, none
   --color / --no-color force colour on or off (default: on for a terminal, off when NO_COLOR is set)
   --quiet              no progress lines on stderr
@@ -77,69 +80,21 @@ CSVs and the config are never written. An output path that names an input file i
 Exit codes:
   0  the gate passed
   1  the gate failed (alarms or limits at risk, per --fail-on)
-  2  usage, config or data errors (results are still written when the config could be read)
+  2  usage, config or data errors, whatever --fail-on says (results are still written when the
+     config could be read)
 
 Forecasts are estimates with stated uncertainty, not guarantees.
 `;
 
-export function parseFailOn(value: string): FailOn {
-  const parts = value
-    .split(',')
-    .map((p) => p.trim())
-    .filter(Boolean);
-  const set = new Set(parts);
-  for (const p of set) {
-    if (!['alarm', 'limit', 'both', 'never'].includes(p))
-      throw new LeadlineError(
-        'usage',
-        `--fail-on: "${value}" is not valid; expected alarm, limit, alarm,limit, both or never.`,
-      );
-  }
-  if (set.has('never')) {
-    if (set.size > 1)
-      throw new LeadlineError(
-        'usage',
-        `--fail-on: "never" cannot be combined with other values (got "${value}").`,
-      );
-    return 'never';
-  }
-  if (set.has('both') || (set.has('alarm') && set.has('limit'))) return 'both';
-  if (set.has('alarm')) return 'alarm';
-  if (set.has('limit')) return 'limit';
-  throw new LeadlineError(
-    'usage',
-    `--fail-on: expected alarm, limit, alarm,limit, both or never; got an empty value.`,
-  );
-}
-
 export function parseCli(argv: string[], env: NodeJS.ProcessEnv, cwd: string, isTTY: boolean): CliSettings {
   let parsed;
   try {
-    parsed = parseArgs({
-      args: argv,
-      allowPositionals: true,
-      strict: true,
-      options: {
-        config: { type: 'string' },
-        cwd: { type: 'string' },
-        json: { type: 'string' },
-        markdown: { type: 'string' },
-        html: { type: 'string' },
-        template: { type: 'string' },
-        'fail-on': { type: 'string' },
-        print: { type: 'string' },
-        color: { type: 'boolean' },
-        'no-color': { type: 'boolean' },
-        quiet: { type: 'boolean' },
-        shard: { type: 'string' },
-        jobs: { type: 'string' },
-        'full-history': { type: 'boolean' },
-        help: { type: 'boolean', short: 'h' },
-        version: { type: 'boolean', short: 'V' },
-      },
-    });
+    parsed = parseArgs({ args: argv, allowPositionals: true, strict: true, options: OPTIONS });
   } catch (e) {
-    throw new LeadlineError('usage', `${(e as Error).message}. Run "leadline --help" for the options.`);
+    throw new LeadlineError(
+      'usage',
+      `${flagProblem(e as Error & { code?: string })} Run "leadline --help" for the options.`,
+    );
   }
   const v = parsed.values;
   const base = {
@@ -149,7 +104,7 @@ export function parseCli(argv: string[], env: NodeJS.ProcessEnv, cwd: string, is
     markdown: v.markdown ?? null,
     html: v.html ?? null,
     template: v.template ?? null,
-    failOn: parseFailOn(v['fail-on'] ?? 'alarm,limit'),
+    failOn: parseFailOn(v['fail-on'] ?? FAIL_ON_DEFAULT.command, 'command'),
     print: parsePrint(v.print ?? 'summary'),
     color: v['no-color'] ? false : v.color ? true : isTTY && !env.NO_COLOR,
     progress: !v.quiet,
@@ -196,9 +151,47 @@ export function parseCli(argv: string[], env: NodeJS.ProcessEnv, cwd: string, is
 }
 
 function parsePrint(value: string): PrintMode {
-  if (value === 'summary' || value === 'markdown' || value === 'json' || value === 'none') return value;
+  if ((PRINT_MODES as readonly string[]).includes(value)) return value as PrintMode;
   throw new LeadlineError(
     'usage',
-    `--print: "${value}" is not valid; expected summary, markdown, json or none.`,
+    `--print: "${value}" is not valid; expected summary, markdown, json or none.${didYouMean(value, PRINT_MODES)}`,
   );
+}
+
+const PRINT_MODES = ['summary', 'markdown', 'json', 'none'] as const;
+
+const OPTIONS = {
+  config: { type: 'string' },
+  cwd: { type: 'string' },
+  json: { type: 'string' },
+  markdown: { type: 'string' },
+  html: { type: 'string' },
+  template: { type: 'string' },
+  'fail-on': { type: 'string' },
+  print: { type: 'string' },
+  color: { type: 'boolean' },
+  'no-color': { type: 'boolean' },
+  quiet: { type: 'boolean' },
+  shard: { type: 'string' },
+  jobs: { type: 'string' },
+  'full-history': { type: 'boolean' },
+  help: { type: 'boolean', short: 'h' },
+  version: { type: 'boolean', short: 'V' },
+} as const;
+
+/** Every long flag, for "did you mean". */
+const FLAGS = Object.keys(OPTIONS).map((o) => `--${o}`);
+
+/**
+ * node:util's parse error in Leadline's words: an unknown flag is quoted with the nearest real one;
+ * other errors (a flag missing its value …) keep node's message.
+ */
+function flagProblem(e: Error & { code?: string }): string {
+  const unknown = /^Unknown option '([^']+)'/.exec(e.message);
+  if (e.code === 'ERR_PARSE_ARGS_UNKNOWN_OPTION' && unknown) {
+    const flag = unknown[1]!;
+    const bare = flag.replace(/=.*$/, '');
+    return `Unknown option "${flag}".${didYouMean(bare, FLAGS)}`;
+  }
+  return `${e.message.replace(/\.$/, '')}.`;
 }

@@ -1,5 +1,5 @@
 // Limit windows: a number of steps, or a duration converted to steps once the spacing is known.
-import type { Spacing } from '../results.js';
+import type { Spacing } from '../terms.js';
 import type { DurationUnit, LimitOptions } from './types.js';
 import { DURATION_PATTERN } from './schema.js';
 

@@ -1,5 +1,6 @@
 // Leadline's configuration: YAML (default .github/leadline.yml) validated against the schema in
 // schema.ts, defaults applied, resolved into a Plan with one entry per metric.
+import { createHash } from 'node:crypto';
 import { readFile } from 'node:fs/promises';
 import path from 'node:path';
 import { LeadlineError } from '../errors.js';
@@ -65,4 +66,15 @@ export async function loadPlan(configPath: string, cwd: string): Promise<Plan> {
     }
   }
   return plan;
+}
+
+/** "sha256:<hex>" of a file's bytes (the config, recorded in the results' origin), or null when it cannot be read. */
+export async function fileHash(file: string): Promise<string | null> {
+  try {
+    return `sha256:${createHash('sha256')
+      .update(await readFile(file))
+      .digest('hex')}`;
+  } catch {
+    return null;
+  }
 }

@@ -6,6 +6,7 @@
 import * as z from 'zod';
 import { METHOD_NAMES } from '../engine/types.js';
 import { TIME_FORMATS } from '../ingest/times.js';
+import { DIRECTIONS, FALSE_ALARM_CONTROLS } from '../terms.js';
 
 /** A duration such as `30d`: a positive number and one of m (minutes), h, d, w, mo (months), q, y. */
 export const DURATION_PATTERN = /^\s*(\d+(?:\.\d+)?)\s*(mo|m|h|d|w|q|y)\s*$/;
@@ -84,7 +85,7 @@ const check = z
   })
   .meta({ description: 'Which observations are judged against the forecast made before them.' });
 
-const direction = z.enum(['above', 'below', 'both']).meta({
+const direction = z.enum(DIRECTIONS).meta({
   description:
     'The side that is bad: an alarm is raised only for observations outside the interval on this side.',
   default: 'both',
@@ -95,7 +96,7 @@ const alarmLevel = z.number().gt(0).lt(100).meta({
     'The interval level (one of "levels") an observation must leave to raise an alarm. Default: the highest level.',
 });
 
-const falseAlarms = z.enum(['none', 'bonferroni', 'fdr']).meta({
+const falseAlarms = z.enum(FALSE_ALARM_CONTROLS).meta({
   description:
     'Run-wide control of chance alarms across every checked observation: none, bonferroni, or fdr (Benjamini–Hochberg). Set it under "defaults".',
   default: 'none',

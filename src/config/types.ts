@@ -1,7 +1,7 @@
 // The resolved plan: one entry per configured metric, every option filled from defaults.
 // src/config turns YAML into this; src/job.ts and src/ingest read it.
 import type { IntervalChoice, MethodName, ScoreName } from '../engine/types.js';
-import type { Direction, FalseAlarmControl } from '../results.js';
+import type { Direction, FalseAlarmControl } from '../terms.js';
 import type { TimeFormat } from '../ingest/times.js';
 
 export type DurationUnit = 'm' | 'h' | 'd' | 'w' | 'mo' | 'q' | 'y';

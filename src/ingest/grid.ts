@@ -10,7 +10,7 @@
 // Each time is placed at the nearest grid point counted from the first time; times that are off
 // the grid (a job that ran a few minutes late, a daylight-saving shift in the offsets) are moved to
 // it and a note says how far the largest move was. Grid points without a row are gaps (NaN).
-import type { Spacing } from '../results.js';
+import type { Spacing } from '../terms.js';
 
 const SECOND = 1000;
 const MINUTE = 60 * SECOND;

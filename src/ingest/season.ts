@@ -1,5 +1,5 @@
 // `season: auto`: the season length implied by the time spacing.
-import type { Spacing } from '../results.js';
+import type { Spacing } from '../terms.js';
 
 const MINUTE = 60_000;
 const HOUR = 60 * MINUTE;
@@ -45,4 +45,37 @@ export function autoSeason(spacing: Spacing, points: number, stepMs: number | nu
     default:
       return 1;
   }
+}
+
+const SPACING_PHRASE: Record<Spacing, string> = {
+  minute: 'minute spacing',
+  hour: 'hourly spacing',
+  day: 'daily spacing',
+  week: 'weekly spacing',
+  month: 'monthly spacing',
+  quarter: 'quarterly spacing',
+  year: 'yearly spacing',
+  row: 'row order',
+};
+
+export interface SeasonChoice {
+  season: number;
+  source: 'config' | 'auto';
+  /** Says what `auto` chose, or null for a configured season. */
+  note: string | null;
+}
+
+/** The season of a series: the configured one, or for `auto` the one its spacing implies. */
+export function chooseSeason(
+  setting: number | 'auto',
+  s: { spacing: Spacing; stepMs: number | null },
+  observations: number,
+): SeasonChoice {
+  if (setting !== 'auto') return { season: setting, source: 'config', note: null };
+  const season = autoSeason(s.spacing, observations, s.stepMs);
+  return {
+    season,
+    source: 'auto',
+    note: `Season chosen from the ${SPACING_PHRASE[s.spacing]}: ${season === 1 ? 'none' : season}.`,
+  };
 }

@@ -1,5 +1,5 @@
 // One series per (metric, value column, key value), on a regular grid. Produced by src/ingest.
-import type { Spacing } from '../results.js';
+import type { Spacing } from '../terms.js';
 
 export interface Series {
   /** Display name: metric, plus "/column" when the metric has several value columns, plus "[key]". */

@@ -555,6 +555,18 @@ describe('the bundled Action on scheduled runs', () => {
     expect(out.summary).toContain('missing.yml');
   });
 
+  it('fails on a data error under every fail-on, never included, as on a config error', async () => {
+    const ws = makeWorkspace();
+    appendFileSync(path.join(ws.root, 'metrics', 'storage.csv'), `${day(60)},lots\n`);
+    const ev = { name: 'push', payload: { ref: 'refs/heads/main', repository: repository(server) } };
+    const out = await runAction(server, ws, ev, { 'fail-on': 'never', comment: 'off' });
+    expect(out.code).toBe(1);
+    expect(out.results!.gate).toMatchObject({ failOn: 'never', passed: false });
+    const errors = commands(out.stdout, 'error');
+    expect(errors.find((e) => e.props.file === 'metrics/storage.csv')?.message).toMatch(/lots/);
+    expect(errors.at(-1)!.message).toBe('Gate failed (fail-on: never): 1 series could not be analysed.');
+  });
+
   it('rejects an invalid input with its value quoted', async () => {
     const ws = makeWorkspace();
     const out = await runAction(server, ws, { name: 'push', payload: {} }, { 'fail-on': 'sometimes' });

@@ -9,9 +9,9 @@ import {
   configSlug,
   envInputs,
   parseComment,
-  parseFailOn,
   readSettings,
 } from '../../src/action/settings.js';
+import { parseFailOn } from '../../src/verdict.js';
 import { destination, eventFacts } from '../../src/action/event.js';
 
 const ws = mkdtempSync(path.join(os.tmpdir(), 'leadline-settings-'));

@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { HELP, parseCli, parseFailOn } from '../../src/cli/args.js';
+import { HELP, parseCli } from '../../src/cli/args.js';
+import { parseFailOn } from '../../src/verdict.js';
 import { LeadlineError } from '../../src/errors.js';
 
 describe('command-line arguments', () => {

@@ -111,6 +111,45 @@ describe('the command on the demo scenario', () => {
     expect(results.series.find((s) => s.name === 'm')!.verdict).toBe('error');
   });
 
+  it('exits 2 for config and data errors under --fail-on never too', async () => {
+    const dir = tmp();
+    writeFileSync(
+      path.join(dir, 'l.yml'),
+      'version: 1\nmetrics:\n  - name: m\n    file: m.csv\n    value: v\n',
+    );
+    writeFileSync(path.join(dir, 'm.csv'), 'v\n1\n2\nabc\n4\n');
+    const data = await cli([
+      'run',
+      '--cwd',
+      dir,
+      '--config',
+      'l.yml',
+      '--fail-on',
+      'never',
+      '--print',
+      'json',
+    ]);
+    expect(data.code).toBe(2);
+    expect((JSON.parse(data.out) as Results).gate).toEqual({
+      failOn: 'never',
+      passed: false,
+      reason: 'Gate failed (fail-on: never): 1 series could not be analysed.',
+    });
+    writeFileSync(
+      path.join(dir, 'bad.yml'),
+      'version: 1\nmetrics:\n  - name: m\n    file: m.csv\n    valeu: v\n',
+    );
+    expect((await cli(['run', '--cwd', dir, '--config', 'bad.yml', '--fail-on', 'never'])).code).toBe(2);
+  });
+
+  it('suggests the flag meant when one is mistyped', async () => {
+    const r = await cli(['run', '--colour']);
+    expect(r.code).toBe(2);
+    expect(r.err).toMatch(/Unknown option "--colour"\. Did you mean "--color"\?/);
+    expect((await cli(['run', '--fail-on=alarms'])).err).toMatch(/Did you mean "alarm"\?/);
+    expect((await cli(['run', '--mark', 'x.md'])).err).toMatch(/Did you mean "--markdown"\?/);
+  });
+
   it('exits 2 naming the key path and line for a config typo', async () => {
     const dir = tmp();
     writeFileSync(

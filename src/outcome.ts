@@ -1,0 +1,379 @@
+// The results stage: what the engine and the alarm stage found, shaped into the results contract
+// (src/results.ts), and the run assembled: each series' verdict, the summary, the run's verdict and
+// the gate (both decided by src/verdict.ts). Pure.
+import type { MetricPlan } from './config/types.js';
+import { settleRunAlarms } from './alarms/scope.js';
+import {
+  significant,
+  toScale,
+  type Analysis,
+  type Fit,
+  type MethodBacktest,
+  type ResidualChecks,
+  type TestResult,
+} from './engine/index.js';
+import type { IngestFailure } from './ingest/index.js';
+import type { Series } from './ingest/types.js';
+import type {
+  BacktestSummary,
+  CheckedObservation,
+  FailOn,
+  FalseAlarmControl,
+  ForecastPoint,
+  HistoryPoint,
+  LevelMap,
+  LimitResult,
+  MeasureSet,
+  Problem,
+  ResidualCheckSummary,
+  Results,
+  SeriesResult,
+} from './results.js';
+import { timeAfterLast, timeAtIndex } from './time.js';
+import { decideGate, runVerdict, seriesVerdict, type SeriesFindings } from './verdict.js';
+
+/**
+ * Points of history (and residuals) kept per series in the results by default: what the charts draw
+ * (the comment's chart shows 30, more when checked rows reach further back). `fullHistory` keeps all.
+ */
+export const HISTORY_CAP = 60;
+
+/**
+ * A series on its way to the results: its findings, and its verdict when ingestion or the engine
+ * already decided it (an error, or too little data). Analysed series get theirs from src/verdict.ts
+ * once the run's alarms are final.
+ */
+export interface SeriesDraft {
+  findings: SeriesFindings;
+  decided: Pick<SeriesResult, 'verdict' | 'reason'> | null;
+  /** Only in a shard: the series' place in the whole run (see SeriesResult.position). */
+  position?: number;
+}
+
+/** A series read back from a results file (a shard's, for merge) as a draft: errors and too little data keep their verdict. */
+export function draftOf(r: SeriesResult): SeriesDraft {
+  const { verdict, reason, position, ...findings } = r;
+  const decided = verdict === 'error' || verdict === 'insufficient-data' ? { verdict, reason } : null;
+  return { findings, decided, ...(position !== undefined ? { position } : {}) };
+}
+
+/** The display name of a series that could not be read (ingest names the ones it reads the same way). */
+export function seriesName(m: MetricPlan, column: string | null, key: string | null): string {
+  return [m.name, column && m.values.length > 1 ? `/${column}` : '', key !== null ? `[${key}]` : ''].join('');
+}
+
+/** The series' facts and settings, with nothing analysed yet. */
+export function baseFindings(
+  s: Series,
+  m: MetricPlan,
+  season: { season: number; source: 'config' | 'auto' },
+  notes: string[],
+  cap: number,
+): SeriesFindings {
+  const observations = countObserved(s.values);
+  return blankFindings(m, {
+    name: s.name,
+    file: s.file,
+    column: s.column,
+    key: s.key,
+    observations,
+    missing: s.values.length - observations,
+    spacing: s.spacing,
+    season: season.season,
+    seasonSource: season.source,
+    history: historyFrom(s, Math.max(0, s.values.length - cap)),
+    notes,
+  });
+}
+
+/** A series that ingestion could not deliver: the metric's settings and the failure as its verdict. */
+export function failedDraft(f: IngestFailure): SeriesDraft {
+  const m = f.metric;
+  return {
+    findings: blankFindings(m, {
+      name: seriesName(m, f.column, f.key),
+      file: m.file,
+      column: f.column ?? m.values.join(', '),
+      key: f.key,
+      season: m.season === 'auto' ? 1 : m.season,
+      seasonSource: m.season === 'auto' ? 'auto' : 'config',
+    }),
+    decided: { verdict: f.verdict, reason: f.error.describe() },
+  };
+}
+
+/** The problem a failed series reports; too little data is a verdict of its own, not a problem. */
+export function problemOf(f: IngestFailure): Problem | null {
+  if (f.verdict !== 'error') return null;
+  const e = f.error;
+  return {
+    kind: e.kind === 'config' ? 'config' : 'data',
+    message: e.message,
+    file: e.file,
+    line: e.line,
+    column: e.column,
+    keyPath: e.keyPath,
+    metric: f.metric.name,
+  };
+}
+
+/** A series result with nothing analysed yet: the metric's settings, the given fields, empty findings. */
+function blankFindings(
+  m: MetricPlan,
+  fields: Pick<SeriesResult, 'name' | 'file' | 'column' | 'key' | 'season' | 'seasonSource'> &
+    Partial<SeriesFindings>,
+): SeriesFindings {
+  // Field order as in docs/design.md's results format; `rest` fills in the others.
+  const { name, file, column, key, season, seasonSource, ...rest } = fields;
+  return {
+    name,
+    metric: m.name,
+    file,
+    column,
+    key,
+    observations: 0,
+    missing: 0,
+    spacing: 'row',
+    season,
+    seasonSource,
+    method: null,
+    intervalKind: null,
+    sigma: null,
+    sigmaDf: null,
+    levels: m.levels,
+    alarmLevel: m.alarmLevel,
+    direction: m.direction,
+    forecast: [],
+    residualChecks: null,
+    backtest: null,
+    checked: [],
+    limit: null,
+    history: [],
+    residuals: [],
+    notes: [],
+    ...rest,
+  };
+}
+
+/** An analysed series: the engine's analysis, the checked observations and the limit, for the results. */
+export function analysedFindings(
+  base: SeriesFindings,
+  s: Series,
+  a: Analysis,
+  found: {
+    checked: CheckedObservation[];
+    /** The model that judged the checked rows (fitted before them), or null when none were checked. */
+    judge: { fit: Fit; checks: ResidualChecks } | null;
+    limit: LimitResult | null;
+    horizon: number;
+    notes: string[];
+    /** Points of history kept, and whether per-step backtest measures are (the `fullHistory` option). */
+    cap: number;
+    full: boolean;
+  },
+): SeriesFindings {
+  const notes = [...found.notes];
+  // One sigma and one set of residual checks: those of the model that judged the checked rows.
+  const judge = found.judge;
+  const fit = judge?.fit ?? a.chosen;
+  return {
+    ...base,
+    method: a.chosen.method,
+    intervalKind: a.forecast.kind,
+    sigma: finiteOrNull(significant(fit.sigma)),
+    sigmaDf: fit.sigmaDf,
+    forecast: forecastPoints(a, s, found.horizon),
+    residualChecks: summariseChecks(judge?.checks ?? a.checks, judge ? 'before-checked' : 'all', fit.n),
+    backtest: summariseBacktest(a, found.full),
+    checked: found.checked,
+    limit: found.limit,
+    ...chartData(s, a, found.checked[0]?.index, notes, found.cap),
+    notes,
+  };
+}
+
+/**
+ * What a run concludes once every series is analysed, the same for a single run and for a merge of
+ * shards: run-wide false-alarm control over every checked observation of every series (so the
+ * adjusted p-values and alarms are those of the whole run; sets `adjustedP` and `alarm` in place),
+ * then each series' verdict (decided once, here, unless ingestion or the engine already decided it),
+ * the summary, the run's verdict and the gate.
+ */
+export function concludeRun(
+  drafts: readonly SeriesDraft[],
+  o: { metrics: number; falseAlarms: FalseAlarmControl; failOn: FailOn },
+): Pick<Results, 'verdict' | 'gate' | 'summary' | 'series'> {
+  const alarms = settleRunAlarms(
+    drafts.map((d) => d.findings),
+    o.falseAlarms,
+  );
+  const series: SeriesResult[] = drafts.map((d) => {
+    // Key order as in the results format: verdict and reason before notes, position last.
+    const { notes, ...rest } = d.findings;
+    return {
+      ...rest,
+      ...(d.decided ?? seriesVerdict(d.findings)),
+      notes,
+      ...(d.position !== undefined ? { position: d.position } : {}),
+    };
+  });
+  const summary: Results['summary'] = {
+    metrics: o.metrics,
+    series: series.length,
+    alarms: alarms.alarms,
+    atRisk: series.filter((r) => r.limit?.atRisk).length,
+    insufficient: series.filter((r) => r.verdict === 'insufficient-data').length,
+    errors: series.filter((r) => r.verdict === 'error').length,
+    checkedObservations: alarms.checkedObservations,
+    expectedFalseAlarms: alarms.expectedFalseAlarms,
+    falseAlarms: o.falseAlarms,
+  };
+  return { verdict: runVerdict(series), gate: decideGate(o.failOn, summary), summary, series };
+}
+
+/** History (and the residuals aligned with it) for charts: the last HISTORY_CAP points, reaching back
+ * to the first checked observation when a pull request adds more rows than that. */
+function chartData(
+  s: Series,
+  a: Analysis,
+  firstChecked: number | undefined,
+  notes: string[],
+  cap: number,
+): Pick<SeriesResult, 'history' | 'residuals'> {
+  const start = Math.max(0, Math.min(s.values.length - cap, firstChecked ?? Infinity));
+  if (start > 0)
+    notes.push(
+      `Charts show the last ${s.values.length - start} of ${s.values.length} points; the analysis used all of them.`,
+    );
+  const residuals: (number | null)[] = [];
+  for (let i = start; i < s.values.length; i++) {
+    const r = a.chosen.residuals[i]!;
+    residuals.push(Number.isFinite(r) ? toScale(r, a.chosen.sigma) : null);
+  }
+  return { history: historyFrom(s, start), residuals };
+}
+
+function historyFrom(s: Series, start: number): HistoryPoint[] {
+  const history: HistoryPoint[] = [];
+  for (let i = start; i < s.values.length; i++) {
+    const v = s.values[i]!;
+    history.push({
+      index: i,
+      row: s.rows[i]! > 0 ? s.rows[i]! : null,
+      time: timeAtIndex(s, i),
+      value: Number.isNaN(v) ? null : v,
+    });
+  }
+  return history;
+}
+
+function forecastPoints(a: Analysis, s: Series, horizon: number): ForecastPoint[] {
+  const out: ForecastPoint[] = [];
+  const fc = a.forecast;
+  for (let h = 1; h <= Math.min(horizon, fc.horizon); h++) {
+    // Digits below a ten-thousandth of the standard error carry nothing (numeric.ts toScale).
+    const se = fc.se[h - 1]!;
+    const lower: LevelMap = {};
+    const upper: LevelMap = {};
+    for (const b of fc.bands) {
+      lower[String(b.level)] = toScale(b.lower[h - 1]!, se);
+      upper[String(b.level)] = toScale(b.upper[h - 1]!, se);
+    }
+    out.push({ step: h, time: timeAfterLast(s, h), mean: toScale(fc.mean[h - 1]!, se), lower, upper });
+  }
+  return out;
+}
+
+function summariseChecks(
+  c: ResidualChecks,
+  basis: 'before-checked' | 'all',
+  observations: number,
+): ResidualCheckSummary {
+  const t = (x: TestResult) => ({
+    statistic: significant(x.statistic),
+    df: x.df,
+    pValue: x.pValue,
+    adjustedP: x.adjustedP,
+    ok: x.ok,
+    finding: x.finding,
+  });
+  return {
+    ljungBox: { ...t(c.ljungBox), lags: c.ljungBox.lags },
+    bias: { ...t(c.bias), mean: significant(c.bias.mean), zeroByConstruction: c.bias.zeroByConstruction },
+    normality: {
+      ...t(c.normality),
+      skewness: significant(c.normality.skewness),
+      kurtosis: significant(c.normality.kurtosis),
+    },
+    spread: { ...t(c.spread), test: c.spread.name },
+    acf: c.acf.map((x) => significant(x)),
+    acfBound: significant(c.acfBound),
+    adjustment: 'holm',
+    family: c.family,
+    caveat: c.caveat,
+    basis,
+    observations,
+  };
+}
+
+function measures(x: {
+  origins: number;
+  me: number;
+  rmse: number;
+  mae: number;
+  mpe: number;
+  mape: number;
+  mase: number;
+}): MeasureSet {
+  return {
+    origins: x.origins,
+    me: finiteOrNull(significant(x.me)),
+    rmse: finiteOrNull(significant(x.rmse)),
+    mae: finiteOrNull(significant(x.mae)),
+    mpe: finiteOrNull(significant(x.mpe)),
+    mape: finiteOrNull(significant(x.mape)),
+    mase: finiteOrNull(significant(x.mase)),
+  };
+}
+
+/** The backtest for the results: measures, coverage and scores to 6 significant digits (the precision
+ * a mean over the origins carries, and then some); per-step measures only with `full`. */
+function summariseBacktest(a: Analysis, full: boolean): BacktestSummary {
+  const methods: BacktestSummary['methods'] = {};
+  for (const [name, mb] of Object.entries(a.backtest.methods) as [
+    keyof typeof a.backtest.methods,
+    MethodBacktest,
+  ][]) {
+    const coverage: Record<string, LevelMap> = {};
+    for (const [kind, levels] of Object.entries(mb.coverage))
+      coverage[kind] = Object.fromEntries(Object.entries(levels).map(([l, v]) => [l, significant(v)]));
+    methods[name] = {
+      ...measures(mb),
+      steps: full ? mb.steps.map((st) => ({ step: st.step, ...measures(st) })) : [],
+      coverage,
+      score: finiteOrNull(significant(a.selection.scores[name] ?? NaN)),
+    };
+  }
+  return {
+    minTrain: a.backtest.minTrain,
+    horizon: a.backtest.horizon,
+    score: a.selection.score,
+    methods,
+    reason: a.selection.reason,
+  };
+}
+
+export function countObserved(v: Float64Array): number {
+  let n = 0;
+  for (let i = 0; i < v.length; i++) if (!Number.isNaN(v[i]!)) n++;
+  return n;
+}
+
+export function lastObserved(v: Float64Array): number {
+  for (let i = v.length - 1; i >= 0; i--) if (!Number.isNaN(v[i]!)) return v[i]!;
+  return NaN;
+}
+
+function finiteOrNull(x: number): number | null {
+  return Number.isFinite(x) ? x : null;
+}
