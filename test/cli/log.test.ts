@@ -5,7 +5,7 @@ import os from 'node:os';
 import path from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { main } from '../../src/cli/main.js';
-import { escapeHtml, escapeMarkdown } from '../../src/report/escape.js';
+import { escapeHtml, escapeMarkdown } from '../../src/text/index.js';
 
 describe('untrusted text in the log and the reports', () => {
   it('a metric file named like a workflow command reaches stderr neutralised', async () => {
