@@ -1,28 +1,11 @@
-// Times on a series' regular grid, as ISO 8601 UTC strings for results and reports.
+// Times on a series' regular grid, as ISO 8601 UTC strings for results and reports. Calendar steps
+// use the grid's own month arithmetic (src/ingest/grid.ts addMonths): a month-end series stays on
+// month ends, so forecast times, limit crossings and chart axes keep to the series' grid.
 import type { Series } from './ingest/types.js';
+import { addMonths } from './ingest/grid.js';
 import type { Spacing } from './terms.js';
 
 const MONTHS: Partial<Record<Spacing, number>> = { month: 1, quarter: 3, year: 12 };
-
-/** Adds whole calendar months in UTC, keeping the day of month where it exists (else the month's last day). */
-export function addMonthsUtc(ms: number, months: number): number {
-  const d = new Date(ms);
-  const day = d.getUTCDate();
-  const target = new Date(
-    Date.UTC(
-      d.getUTCFullYear(),
-      d.getUTCMonth() + months,
-      1,
-      d.getUTCHours(),
-      d.getUTCMinutes(),
-      d.getUTCSeconds(),
-      d.getUTCMilliseconds(),
-    ),
-  );
-  const lastDay = new Date(Date.UTC(target.getUTCFullYear(), target.getUTCMonth() + 1, 0)).getUTCDate();
-  target.setUTCDate(Math.min(day, lastDay));
-  return target.getTime();
-}
 
 export function isoTime(ms: number): string {
   return new Date(ms).toISOString();
@@ -40,7 +23,7 @@ export function timeAfterLast(s: Pick<Series, 'times' | 'spacing' | 'stepMs'>, s
   if (!s.times || s.times.length === 0) return null;
   const last = s.times[s.times.length - 1]!;
   const months = MONTHS[s.spacing];
-  if (months !== undefined) return isoTime(addMonthsUtc(last, months * step));
+  if (months !== undefined) return isoTime(addMonths(last, months * step));
   if (s.stepMs === null) return null;
   return isoTime(last + s.stepMs * step);
 }
