@@ -67,7 +67,7 @@ describe("the README's install lines", () => {
   it('run as written and print the version, then the demo verdicts', () => {
     expect(run.status, run.stderr).toBe(0);
     expect(run.stdout).toContain(`leadline ${pkg.version}\n`);
-    expect(run.stdout).toMatch(/^Leadline: ALARM — \d+ series/m);
+    expect(run.stdout).toMatch(/^Leadline: out of line — \d+ series/m);
     expect(run.stdout).toContain('Forecasts are estimates with stated uncertainty, not guarantees.');
   });
 
