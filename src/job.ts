@@ -18,6 +18,7 @@ import {
   failedDraft,
   lastObserved,
   problemOf,
+  pullRequestScope,
   seriesName,
   type SeriesDraft,
 } from './outcome.js';
@@ -42,6 +43,8 @@ export interface JobOptions {
    * the base commit. Rows after that are the checked observations; files not listed are not checked.
    */
   newRows?: Record<string, number>;
+  /** Pull-request mode: the files in newRows that the pull request adds (only their last row is new). */
+  addedFiles?: string[];
   /** A note for the whole run, e.g. that the base commit was missing. */
   baseNote?: string;
   /** Called after each series, for progress reporting. */
@@ -70,7 +73,16 @@ export async function runJob(o: JobOptions): Promise<Results> {
 
 type BuildOptions = Pick<
   JobOptions,
-  'failOn' | 'newRows' | 'baseNote' | 'onProgress' | 'now' | 'shard' | 'commit' | 'event' | 'fullHistory'
+  | 'failOn'
+  | 'newRows'
+  | 'addedFiles'
+  | 'baseNote'
+  | 'onProgress'
+  | 'now'
+  | 'shard'
+  | 'commit'
+  | 'event'
+  | 'fullHistory'
 > & { configHash?: string | null };
 
 /** Pure: the plan and what ingestion produced -> Results, on this thread. */
@@ -192,6 +204,8 @@ export function finishResults(
     })
     .filter((p): p is Problem => p !== null);
 
+  // pull-request scope: which files' series are judged, and the rows each changed file gained
+  const scope = pullRequestScope(drafts, plan.pullRequestGate, o.newRows, o.addedFiles);
   // alarms (run-wide false-alarm control) and results: verdicts, summary, gate
   const { series, verdict, gate, summary } = concludeRun(drafts, {
     metrics: plan.metrics.length,
@@ -217,6 +231,7 @@ export function finishResults(
     problems,
   };
   if (o.baseNote) out.notes = [o.baseNote];
+  out.scope = scope;
   return out;
 }
 

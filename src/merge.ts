@@ -443,6 +443,7 @@ export async function mergeResults(files: string[], o: MergeOptions): Promise<Me
     ...concluded,
     problems,
     ...(first.notes ? { notes: first.notes } : {}),
+    ...(first.scope ? { scope: first.scope } : {}),
     series: settledSeries,
   };
 

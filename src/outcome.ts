@@ -30,7 +30,7 @@ import type {
   SeriesResult,
 } from './results.js';
 import { timeAfterLast, timeAtIndex } from './time.js';
-import { decideGate, runVerdict, seriesVerdict, type SeriesFindings } from './verdict.js';
+import { decideGate, isJudged, runVerdict, seriesVerdict, type SeriesFindings } from './verdict.js';
 
 /**
  * Points of history (and residuals) kept per series in the results by default: what the charts draw
@@ -217,18 +217,70 @@ export function concludeRun(
       ...(d.position !== undefined ? { position: d.position } : {}),
     };
   });
+  // Series a pull request leaves alone (judged: false) count for neither the verdict nor the gate.
+  const judged = series.filter(isJudged);
   const summary: Results['summary'] = {
     metrics: o.metrics,
     series: series.length,
     alarms: alarms.alarms,
-    atRisk: series.filter((r) => r.limit?.atRisk).length,
-    insufficient: series.filter((r) => r.verdict === 'insufficient-data').length,
-    errors: series.filter((r) => r.verdict === 'error').length,
+    atRisk: judged.filter((r) => r.limit?.atRisk).length,
+    insufficient: judged.filter((r) => r.verdict === 'insufficient-data').length,
+    errors: judged.filter((r) => r.verdict === 'error').length,
     checkedObservations: alarms.checkedObservations,
     expectedFalseAlarms: alarms.expectedFalseAlarms,
     falseAlarms: o.falseAlarms,
   };
-  return { verdict: runVerdict(series), gate: decideGate(o.failOn, summary), summary, series };
+  return { verdict: runVerdict(judged), gate: decideGate(o.failOn, summary), summary, series };
+}
+
+type Scope = NonNullable<Results['scope']>;
+
+/**
+ * The run's scope. In a pull request (`newRows`: each changed metric file's line count at the base
+ * commit) only the series of the files it changes are judged, unless the config asks for all: the
+ * others are analysed (a limit at risk elsewhere is still worth a line) but not gated, so this marks
+ * them `judged: false` in place. Returns the rows each changed file gained (`added`: files new in the
+ * pull request). Outside a pull request every series is judged on its newest observations.
+ */
+export function pullRequestScope(
+  drafts: readonly SeriesDraft[],
+  gate: Scope['gate'],
+  newRows: Record<string, number> | undefined,
+  addedFiles: readonly string[] = [],
+): Scope {
+  if (!newRows) return { kind: 'latest', files: [], gate: 'all' };
+  const lastRow = new Map<string, number>();
+  for (const { findings: r } of drafts) {
+    const changed = Object.hasOwn(newRows, r.file);
+    if (gate === 'changed') r.judged = changed;
+    const row = r.history.at(-1)?.row ?? null;
+    if (row !== null && changed) lastRow.set(r.file, Math.max(row, lastRow.get(r.file) ?? 0));
+  }
+  const added = new Set(addedFiles);
+  const files = [...lastRow.entries()].map(([file, row]) => ({
+    file,
+    rows: Math.max(0, row - newRows[file]!),
+    added: added.has(file),
+  }));
+  return { kind: 'pull-request', files: byFile(files), gate };
+}
+
+/** The scope of a run from its shards': each shard saw the rows added to the files of its own series,
+ * so the run's list is their union (a file's count is the same in every shard that has it). */
+export function mergedScope(scopes: readonly (Scope | undefined)[]): Scope | undefined {
+  const known = scopes.filter((x): x is Scope => x !== undefined);
+  if (known.length === 0) return undefined;
+  const files = new Map<string, Scope['files'][number]>();
+  for (const sc of known)
+    for (const f of sc.files) {
+      const had = files.get(f.file);
+      files.set(f.file, had ? { ...had, rows: Math.max(had.rows, f.rows), added: had.added || f.added } : f);
+    }
+  return { kind: known[0]!.kind, files: byFile([...files.values()]), gate: known[0]!.gate };
+}
+
+function byFile<T extends { file: string }>(files: T[]): T[] {
+  return files.sort((a, b) => (a.file < b.file ? -1 : a.file > b.file ? 1 : 0));
 }
 
 /** History (and the residuals aligned with it) for charts: the last HISTORY_CAP points, reaching back

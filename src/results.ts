@@ -219,6 +219,12 @@ export const seriesResultSchema = z.strictObject({
   notes,
   /** Only in a shard's file: the series' place (0-based) in the whole run's order, which merge restores. */
   position: count.optional(),
+  /**
+   * Whether this series is judged (its verdict counts for the run and the gate). False only in a
+   * pull request for a series whose file the pull request leaves alone (with `pullRequestGate:
+   * changed`); absent in files written before this field, meaning judged.
+   */
+  judged: z.boolean().optional(),
 });
 
 export const problemSchema = z.strictObject({
@@ -286,6 +292,18 @@ export const resultsHeadSchema = z.strictObject({
   problems: z.array(problemSchema).max(MAX_POINTS),
   /** Run-wide notes, e.g. that a pull request's base commit was not in the clone. */
   notes: notes.optional(),
+  /**
+   * What the run checked. `pull-request`: the rows each changed metric file gained over the base
+   * commit (`added` lists files new in the pull request, of which only the last row is checked) and
+   * which series the gate judged; `latest`: the newest observations of every series.
+   */
+  scope: z
+    .strictObject({
+      kind: z.enum(['pull-request', 'latest']),
+      files: z.array(z.strictObject({ file: text(), rows: count, added: z.boolean() })).max(MAX_POINTS),
+      gate: z.enum(['changed', 'all']),
+    })
+    .optional(),
 });
 
 export const resultsSchema = resultsHeadSchema

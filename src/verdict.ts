@@ -64,11 +64,19 @@ export function seriesVerdict(r: SeriesFindings): Pick<SeriesResult, 'verdict' |
   }
   const verdict: Verdict = alarms.length > 0 ? 'alarm' : r.limit?.atRisk ? 'at-risk' : 'ok';
   if (parts.length > 0) return { verdict, reason: parts.join('; ') };
-  if (r.checked.length > 0)
-    return {
-      verdict,
-      reason: `${plural(r.checked.length, 'checked observation')} within the ${r.alarmLevel}% interval`,
-    };
+  if (r.checked.length > 0) {
+    // Outside on a side that is not watched (or not an alarm after adjustment) is said as such.
+    const outside = r.checked.filter((c) => c.outside).length;
+    const inside = r.checked.length - outside;
+    const said: string[] = [];
+    if (inside > 0)
+      said.push(`${plural(inside, 'checked observation')} within the ${r.alarmLevel}% interval`);
+    if (outside > 0)
+      said.push(
+        `${outside} outside it on ${r.direction === 'both' ? 'a side, but not an alarm after the false-alarm adjustment' : `the side that is not watched (watching ${r.direction})`}`,
+      );
+    return { verdict, reason: said.join('; ') };
+  }
   return { verdict, reason: 'No observation was checked.' };
 }
 
@@ -85,11 +93,20 @@ export function failedCheckKeys(s: Pick<SeriesResult, 'residualChecks'>): Residu
 /**
  * Whether a series needs a reviewer's attention: an alarm, a limit at risk or an error — something
  * to act on. A residual check that failed is a caveat about the intervals, shown in the series'
- * details, not a finding (with independent noise about one check in twenty fails by chance). The
- * report's attention list, the tracking issue and its title all ask this.
+ * details, not a finding (with independent noise about one check in twenty fails by chance). A
+ * series a pull request leaves alone (not judged) needs none. The report's attention list, the
+ * tracking issue and its title all ask this.
  */
-export function needsAttention(s: Pick<SeriesResult, 'verdict'>): boolean {
-  return verdictNeedsAttention(s.verdict);
+export function needsAttention(s: Pick<SeriesResult, 'verdict' | 'judged'>): boolean {
+  return isJudged(s) && verdictNeedsAttention(s.verdict);
+}
+
+/**
+ * Whether a series' verdict counts for the run and the gate: false only in a pull request, for a
+ * series whose file the pull request leaves alone (with `pullRequestGate: changed`).
+ */
+export function isJudged(s: Pick<SeriesResult, 'judged'>): boolean {
+  return s.judged !== false;
 }
 
 /** The verdicts that need attention by themselves: an alarm, a limit at risk, an error. */

@@ -167,12 +167,14 @@ async function runAction(d: ActionDeps): Promise<void> {
   if (s.shard && s.comment.kind === 'auto') dest = { kind: 'none', why: null };
 
   let newRows: Record<string, number> | undefined;
+  let addedFiles: string[] = [];
   let baseNote: string | undefined;
   const pr = event.facts.pullRequest;
   if (pr && s.merge.length === 0 && isPullRequestEvent(s.run.eventName, event.facts)) {
     const cmp = await compareWithBase(d.git, s.workingDirectory, pr.baseSha);
     if (cmp.ok) {
       newRows = cmp.newRows;
+      addedFiles = cmp.added;
       const files = Object.keys(cmp.newRows);
       info(
         files.length === 0
@@ -236,7 +238,7 @@ async function runAction(d: ActionDeps): Promise<void> {
               head: pr?.headSha ?? null,
             }
           : null,
-        ...(newRows ? { newRows } : {}),
+        ...(newRows ? { newRows, addedFiles } : {}),
         ...(baseNote ? { baseNote } : {}),
       });
   } catch (e) {

@@ -24,6 +24,10 @@ export interface CliSettings {
   /** A handlebars template for the markdown report, or null for the built-in one. */
   template: string | null;
   failOn: FailOn;
+  /** A commit or branch: judge only the rows added since it, as the Action does in a pull request. */
+  base: string | null;
+  /** Where to write the brief report (what a pull-request comment shows), or null. */
+  comment: string | null;
   /** What goes to stdout. */
   print: PrintMode;
   /** Colour on stdout (TTY and NO_COLOR unset, unless forced). */
@@ -54,6 +58,10 @@ Options for run:
   --markdown FILE      write the markdown report to FILE
   --html FILE          write the self-contained HTML report to FILE
   --template FILE      render the markdown report with this handlebars template instead of the built-in one
+  --base REF           judge what changed since REF (a commit or branch), as the Action does for a
+                       pull request: only the rows added to metric files since REF, and only their
+                       series gate the run
+  --comment FILE       write the brief markdown report a pull-request comment shows to FILE
   --fail-on LIST       what fails the run: alarm, limit, alarm,limit (or both), never (default both:
                        any alarm or limit at risk); errors fail it under every value, never included
   --print MODE         what to print on stdout: summary (default), markdown, json, none
@@ -105,6 +113,8 @@ export function parseCli(argv: string[], env: NodeJS.ProcessEnv, cwd: string, is
     html: v.html ?? null,
     template: v.template ?? null,
     failOn: parseFailOn(v['fail-on'] ?? FAIL_ON_DEFAULT.command, 'command'),
+    base: v.base ?? null,
+    comment: v.comment ?? null,
     print: parsePrint(v.print ?? 'summary'),
     color: v['no-color'] ? false : v.color ? true : isTTY && !env.NO_COLOR,
     progress: !v.quiet,
@@ -168,6 +178,8 @@ const OPTIONS = {
   html: { type: 'string' },
   template: { type: 'string' },
   'fail-on': { type: 'string' },
+  base: { type: 'string' },
+  comment: { type: 'string' },
   print: { type: 'string' },
   color: { type: 'boolean' },
   'no-color': { type: 'boolean' },

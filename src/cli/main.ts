@@ -17,7 +17,7 @@ import {
 import { mergeResults } from '../merge.js';
 import { VERSION } from '../version.js';
 import { safeStream } from '../untrusted.js';
-import { headCommit, systemGit } from '../action/git.js';
+import { compareWithBase, headCommit, systemGit } from '../action/git.js';
 import { shardLabel } from '../shard.js';
 import { HELP, parseCli, type CliSettings } from './args.js';
 import { renderSummary } from './summary.js';
@@ -57,6 +57,7 @@ export async function main(argv: string[], given: CliIo): Promise<number> {
         [settings.json, '--json'],
         [settings.markdown, '--markdown'],
         [settings.html, '--html'],
+        [settings.comment, '--comment'],
       ] as const
     ).flatMap(([p, label]) => (p ? [{ path: path.resolve(io.cwd, p), label }] : []));
     out =
@@ -75,6 +76,13 @@ export async function main(argv: string[], given: CliIo): Promise<number> {
       await writeOutput(path.resolve(io.cwd, settings.markdown), await markdown(), out.inputs, '--markdown');
     if (settings.html)
       await writeOutput(path.resolve(io.cwd, settings.html), renderHtml(await whole()), out.inputs, '--html');
+    if (settings.comment)
+      await writeOutput(
+        path.resolve(io.cwd, settings.comment),
+        renderMarkdown(await whole(), { detail: 'brief', fullReportNote: fullNote(settings) }),
+        out.inputs,
+        '--comment',
+      );
     if (settings.shard && results.origin.shard) {
       // A shard's verdict covers its part only (false-alarm control is run-wide): it reports and gates nothing.
       const sh = results.origin.shard;
@@ -84,8 +92,16 @@ export async function main(argv: string[], given: CliIo): Promise<number> {
       );
       if (settings.print === 'summary') return 0;
     }
-    if (settings.print === 'summary') io.stdout.write(renderSummary(results, settings.color));
-    else if (settings.print === 'markdown') io.stdout.write(await markdown());
+    if (settings.print === 'summary') {
+      io.stdout.write(renderSummary(results, settings.color));
+      for (const [p, what] of [
+        [settings.comment, 'Comment (brief markdown)'],
+        [settings.markdown, 'Full markdown report'],
+        [settings.html, 'HTML report'],
+        [settings.json, 'Results JSON'],
+      ] as const)
+        if (p) io.stdout.write(`${what}: ${p}\n`);
+    } else if (settings.print === 'markdown') io.stdout.write(await markdown());
     else if (settings.print === 'json') for await (const piece of out.json()) io.stdout.write(piece);
   } catch (e) {
     return fail(e, io);
@@ -109,6 +125,33 @@ interface Outcome {
 
 type Outputs = { path: string; label: string }[];
 
+/**
+ * --base: the rows each metric file gained since REF, by the comparison the Action makes for a pull
+ * request (compareWithBase: merge base of REF and HEAD, line counts at REF).
+ */
+async function changedSince(
+  cwd: string,
+  ref: string,
+): Promise<{ newRows: Record<string, number>; added: string[] }> {
+  if (ref.startsWith('-'))
+    throw new LeadlineError('usage', `--base: "${ref}" is not a commit or branch name.`);
+  const rev = await systemGit.run(
+    ['rev-parse', '--verify', '--quiet', '--end-of-options', `${ref}^{commit}`],
+    { cwd },
+  );
+  const sha = rev.code === 0 ? rev.stdout.toString('utf8').trim() : '';
+  if (!/^[0-9a-f]{40,64}$/.test(sha))
+    throw new LeadlineError(
+      'usage',
+      rev.code === -1
+        ? `--base: git is not available (${rev.stderr.trim()}).`
+        : `--base: "${ref}" is not a commit or branch of the repository at ${cwd}.`,
+    );
+  const cmp = await compareWithBase(systemGit, cwd, sha);
+  if (!cmp.ok) throw new LeadlineError('usage', `--base: ${cmp.note}`);
+  return { newRows: cmp.newRows, added: cmp.added };
+}
+
 async function run(settings: CliSettings, io: CliIo, outputs: Outputs): Promise<Outcome> {
   const cwd = path.resolve(io.cwd, settings.cwd);
   // Before any work: an output naming an input, or two outputs naming one file, is refused.
@@ -116,10 +159,12 @@ async function run(settings: CliSettings, io: CliIo, outputs: Outputs): Promise<
   checkOutputs(outputs, before);
   let lastShown = 0;
   const started = Date.now();
+  const since = settings.base ? await changedSince(cwd, settings.base) : null;
   const results = await runJob({
     cwd,
     configPath: settings.config,
     failOn: settings.failOn,
+    ...(since ? { newRows: since.newRows, addedFiles: since.added } : {}),
     shard: settings.shard,
     jobs: settings.jobs,
     fullHistory: settings.fullHistory,

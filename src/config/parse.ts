@@ -147,7 +147,13 @@ export function parsePlan(text: string, configPath: string): Plan {
     if (plan) metrics.push(plan);
   });
   if (problems.length > 0) report(doc, lc, problems, file);
-  return { configPath, version: 1, metrics, falseAlarms };
+  return {
+    configPath,
+    version: 1,
+    metrics,
+    falseAlarms,
+    pullRequestGate: config.pullRequestGate ?? 'changed',
+  };
 }
 
 function buildMetric(

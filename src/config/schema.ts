@@ -201,6 +201,11 @@ export const configSchema = z
       default: 1,
     }),
     defaults: defaultsSchema.optional(),
+    pullRequestGate: z.enum(['changed', 'all']).optional().meta({
+      description:
+        'In a pull request, which series are judged and can fail the gate: "changed" (the series of the files the pull request changes; the others are one line of context) or "all". Push, schedule and manual runs judge every series.',
+      default: 'changed',
+    }),
     metrics: z.array(metricSchema).min(1).meta({ description: 'The metrics to watch.' }),
   })
   .meta({

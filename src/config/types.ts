@@ -64,4 +64,6 @@ export interface Plan {
   metrics: MetricPlan[];
   /** Run-wide false-alarm control (from defaults.falseAlarms). */
   falseAlarms: FalseAlarmControl;
+  /** In a pull request: judge and gate the changed files' series only, or all. */
+  pullRequestGate: 'changed' | 'all';
 }

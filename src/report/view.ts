@@ -12,7 +12,7 @@ import type {
 } from '../results.js';
 import { sideAlpha } from '../alarms/index.js';
 import { escapeMarkdown as md, num, numsApart, pct, plural, pval } from '../text/index.js';
-import { failedCheckKeys, needsAttention, severityRank } from '../verdict.js';
+import { failedCheckKeys, isJudged, needsAttention, severityRank } from '../verdict.js';
 import { METHOD_LABEL, SPACING_WORD, STEP_UNIT, VERDICT_ICON, VERDICT_LABEL, when } from './format.js';
 import { mermaidChart } from './mermaid.js';
 import { sparkline } from './sparkline.js';
@@ -166,6 +166,8 @@ export interface ReportView {
   caveats: string | null;
   /** What the run checked, e.g. "This pull request adds 3 rows to a.csv." Null when not known. */
   scope: string | null;
+  /** In a pull request, the series it leaves alone in one line, e.g. "12 other series unchanged; …". */
+  elsewhere: string | null;
   /** Where the full report is (the brief report always says it). */
   fullReport: string;
 }
@@ -545,8 +547,48 @@ function names(list: SeriesResult[]): string {
   return list.length > NAMED ? `${shown.join(', ')} and ${list.length - NAMED} more` : shown.join(', ');
 }
 
+/**
+ * What the run checked, in one sentence: in a pull request the rows it adds to each metric file
+ * ("This pull request adds 3 rows to a.csv and 3 to b.csv."), otherwise the newest observations.
+ */
+export function scopeLine(results: Results): string | null {
+  const sc = results.scope;
+  const n = results.summary.checkedObservations;
+  if (!sc) return null;
+  if (sc.kind === 'latest')
+    return n === 0
+      ? 'No observation was checked.'
+      : `This run checks the newest ${plural(n, 'observation')} of ${plural(results.series.length, 'series', 'series')}.`;
+  const grown = sc.files.filter((f) => !f.added && f.rows > 0);
+  const added = sc.files.filter((f) => f.added);
+  const parts = grown.map((f, i) => `${i === 0 ? plural(f.rows, 'row') : f.rows} to ${md(f.file)}`);
+  const list = (xs: string[]) =>
+    xs.length <= 1 ? xs.join('') : `${xs.slice(0, -1).join(', ')} and ${xs.at(-1)}`;
+  const sentences: string[] = [];
+  if (parts.length > 0) sentences.push(`This pull request adds ${list(parts)}.`);
+  if (added.length > 0)
+    sentences.push(
+      `It adds the new metric ${added.length === 1 ? 'file' : 'files'} ${list(added.map((f) => md(f.file)))}; only ${added.length === 1 ? 'its' : 'their'} last row is checked.`,
+    );
+  if (sentences.length === 0) return 'This pull request adds no row to any metric file: nothing was checked.';
+  if (sc.gate === 'all') sentences.push('Every series is judged (pullRequestGate: all).');
+  return sentences.join(' ');
+}
+
+/** In a pull request, the series of files it leaves alone: counted, with what is at risk there named. */
+function elsewhereLine(unchanged: SeriesResult[]): string | null {
+  if (unchanged.length === 0) return null;
+  const atRisk = unchanged.filter((s) => s.limit?.atRisk);
+  const errors = unchanged.filter((s) => s.verdict === 'error');
+  const parts = [`${plural(unchanged.length, 'other series', 'other series')} unchanged`];
+  if (atRisk.length > 0) parts.push(`${plural(atRisk.length, 'limit')} at risk elsewhere: ${names(atRisk)}`);
+  if (errors.length > 0) parts.push(`${plural(errors.length, 'error')} elsewhere: ${names(errors)}`);
+  return `${parts.join('; ')} (not judged in this pull request).`;
+}
+
 /** The series needing no attention in one line: how many of each word, naming all but the steady ones. */
-function othersLine(rest: SeriesResult[], afterAttention: boolean): string | null {
+function othersLine(all: SeriesResult[], afterAttention: boolean): string | null {
+  const rest = all.filter(isJudged);
   if (rest.length === 0) return null;
   const groups = new Map<Verdict, SeriesResult[]>();
   for (const s of rest) groups.set(s.verdict, [...(groups.get(s.verdict) ?? []), s]);
@@ -645,8 +687,9 @@ export function buildView(results: Results, opts: ViewOptions = {}): ReportView 
       ordered.filter((s) => !needsAttention(s)),
       attention.length > 0,
     ),
+    elsewhere: elsewhereLine(ordered.filter((s) => !isJudged(s))),
     caveats: caveatsLine(ordered),
-    scope: null,
+    scope: scopeLine(results),
     fullReport: opts.fullReportNote ?? 'The results JSON has every series in full.',
   };
 }

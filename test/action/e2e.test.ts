@@ -249,6 +249,54 @@ afterEach(async () => {
 });
 
 describe('the bundled Action on a pull request', () => {
+  it('judges and gates only the files the pull request changes, and says what it checked', async () => {
+    // Storage grows 10 GB a day towards its 2000 GB limit, in a file the pull request never touches;
+    // the pull request appends three normal latency rows.
+    const ws = makeWorkspace({
+      storageSlope: 10,
+      pr: [`${day(60)},120.5`, `${day(61)},119.8`, `${day(62)},121.1`],
+    });
+    const out = await runAction(
+      server,
+      ws,
+      { name: 'pull_request', payload: prPayload(server, ws) },
+      { 'fail-on': 'limit', html: path.join(ws.runnerTemp, 'report.html') },
+    );
+    expect(out.code).toBe(0); // the limit at risk elsewhere does not fail this pull request
+    const storage = out.results!.series.find((x) => x.metric === 'orders-db-storage')!;
+    expect(storage.limit!.atRisk).toBe(true);
+    expect(storage.judged).toBe(false);
+    expect(out.results!.series.find((x) => x.metric === 'checkout-latency-p95')!.judged).toBe(true);
+    expect(out.results!.scope).toEqual({
+      kind: 'pull-request',
+      files: [{ file: 'metrics/latency.csv', rows: 3, added: false }],
+      gate: 'changed',
+    });
+    expect(out.outputs).toMatchObject({ verdict: 'ok', alarms: '0', 'at-risk': '0' });
+    const [comment] = server.commentsOn(17);
+    const body = comment!.body;
+    expect(body).toContain('This pull request adds 3 rows to metrics/latency.csv.');
+    expect(body).toContain(
+      '1 other series unchanged; 1 limit at risk elsewhere: orders-db-storage (not judged in this pull request).',
+    );
+    expect(body).toContain('Nothing needs attention.');
+    expect(Buffer.byteLength(body)).toBeLessThanOrEqual(12 * 1024);
+    // The job summary has the full report: the checked-rows line too, and every series' details.
+    expect(out.summary).toContain('This pull request adds 3 rows to metrics/latency.csv.');
+    expect(out.summary).toContain('<summary>');
+
+    // The config can ask for every series to be judged: then the limit fails the gate.
+    writeFileSync(path.join(ws.root, '.github', 'leadline.yml'), `${CONFIG}pullRequestGate: all\n`);
+    const all = await runAction(
+      server,
+      ws,
+      { name: 'pull_request', payload: prPayload(server, ws) },
+      { 'fail-on': 'limit' },
+    );
+    expect(all.code).toBe(1);
+    expect(all.outputs).toMatchObject({ verdict: 'at-risk', 'at-risk': '1' });
+  });
+
   it('creates the sticky comment on the first run and updates it on the second', async () => {
     const ws = makeWorkspace({ pr: [`${day(60)},121.0`, `${day(61)},190.0`] });
     const first = await runAction(server, ws, { name: 'pull_request', payload: prPayload(server, ws) });
