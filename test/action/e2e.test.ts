@@ -651,8 +651,11 @@ describe('the bundled Action split over a matrix and merged', () => {
 
     const merged = await runAction(server, ws, ev, { merge: `${dir}/*/results.json`, 'fail-on': 'both' });
     expect(merged.stderr).toBe('');
-    expect(merged.code).toBe(1); // the run's gate: one alarm, one limit at risk
-    expect(merged.outputs).toMatchObject({ verdict: 'alarm', alarms: '1', 'at-risk': '1' });
+    // The run's gate: one alarm in the changed file; the storage limit at risk is in a file the pull
+    // request leaves alone, so it is context, not judged (pullRequestGate: changed).
+    expect(merged.code).toBe(1);
+    expect(merged.outputs).toMatchObject({ verdict: 'alarm', alarms: '1', 'at-risk': '0' });
+    expect(merged.results!.series.find((x) => x.metric === 'orders-db-storage')!.judged).toBe(false);
     expect(server.writes()).toEqual([`POST /repos/fernhill-labs/capacity/issues/17/comments`]);
     expect(server.commentsOn(17)).toHaveLength(1);
     expect(server.commentsOn(17)[0]!.body.startsWith(MARK)).toBe(true);
