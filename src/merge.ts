@@ -10,7 +10,7 @@
 // needs the whole run in memory, as in a single run.
 import { open, readFile, stat } from 'node:fs/promises';
 import { LeadlineError } from './errors.js';
-import { concludeRun, draftOf } from './outcome.js';
+import { concludeRun, draftOf, mergedScope } from './outcome.js';
 import {
   RESULTS_SCHEMA_ID,
   resultsHeadSchema,
@@ -443,7 +443,7 @@ export async function mergeResults(files: string[], o: MergeOptions): Promise<Me
     ...concluded,
     problems,
     ...(first.notes ? { notes: first.notes } : {}),
-    ...(first.scope ? { scope: first.scope } : {}),
+    ...(first.scope ? { scope: mergedScope(heads.map((h) => h.scope))! } : {}),
     series: settledSeries,
   };
 
