@@ -19,7 +19,8 @@
 //   SSW the within-third sum of squares of z (one-way ANOVA of z over the two thirds), df (1, N - 2),
 //   N = n1 + n3, p = 1 - F_F(F; 1, N - 2). The direction is the sign of zbar_3 - zbar_1.
 // Tests with zero residual variance (a constant series) or too few residuals are not computed:
-// statistic and p are NaN, ok is true, and the finding says why.
+// statistic and p are NaN, ok is true, and the finding says why. So is a test whose statistic or
+// p-value comes out not finite (residuals beyond double-precision range): it is never reported as passed.
 //
 // The four tests form one family per series: a clean series would fail at least one of four 5%
 // tests about 15-19% of the time. Holm's step-down procedure (Holm 1979) controls the chance of any
@@ -228,7 +229,9 @@ export function runResidualTests(fit: Fit, lags?: number): ResidualChecks {
   } else {
     const bf = brownForsythe(d.subarray(0, third), d.subarray(n - third));
     const df2 = 2 * third - 2;
-    if (!(bf.ssw > 0)) {
+    if (!Number.isFinite(bf.first) || !Number.isFinite(bf.last) || !Number.isFinite(bf.ssw)) {
+      spread = notComputed(spreadName, NOT_FINITE, df2);
+    } else if (!(bf.ssw > 0)) {
       // Every residual of each third sits at the same distance from its third's median.
       const grown = bf.last > bf.first;
       spread = {
@@ -253,7 +256,8 @@ export function runResidualTests(fit: Fit, lags?: number): ResidualChecks {
     }
   }
 
-  const flagged = holm(family);
+  const computed = finiteOnly(family);
+  const flagged = holm(computed);
   return {
     acf,
     acfBound: n > 0 ? 1.96 / Math.sqrt(n) : NaN,
@@ -261,9 +265,21 @@ export function runResidualTests(fit: Fit, lags?: number): ResidualChecks {
     bias,
     normality,
     spread,
-    family: family.length,
+    family: computed.length,
     caveat: flagged || [ljungBox, bias, normality, spread].some((t) => !t.ok),
   };
+}
+
+const NOT_FINITE =
+  'the residuals are too large for double-precision arithmetic (the statistic is not finite).';
+
+/** Turns each test whose statistic or p-value is not finite into "not computed"; returns the rest. */
+function finiteOnly(family: Pending[]): Pending[] {
+  return family.filter(({ test }) => {
+    if (Number.isFinite(test.statistic) && Number.isFinite(test.pValue)) return true;
+    Object.assign(test, notComputed(test.name, NOT_FINITE, test.df));
+    return false;
+  });
 }
 
 interface Pending {

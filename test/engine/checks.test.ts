@@ -169,3 +169,23 @@ describe('sigma uncertainty in simulated paths', () => {
     expect(Math.abs(beyond / P - want)).toBeLessThan(4 * Math.sqrt((want * (1 - want)) / P));
   });
 });
+
+describe('residual checks with statistics that are not finite', () => {
+  it('reports a test as not computed, never as passed, when its statistic or p-value is not finite', () => {
+    const f = fit(
+      'naive',
+      Array.from({ length: 31 }, (_, i) => i),
+    );
+    // Residuals near the top of the double range: the deviation of -1.7e308 from a mean near
+    // +1.6e308 overflows to -Infinity, and before the fix every statistic came out NaN with ok true.
+    const res = Array.from({ length: 30 }, (_, i) => (i === 7 ? -1.7e308 : 1.7e308 * (1 - i * 1e-3)));
+    const r = runResidualTests({ ...f, residuals: Float64Array.from([NaN, ...res]) });
+    for (const t of [r.ljungBox, r.bias, r.normality, r.spread]) {
+      expect(t.finding, t.name).toMatch(/not computed: .*not finite/);
+      expect(t.finding, t.name).not.toMatch(/NaN|consistent with|No .* detected/);
+      expect(t.pValue, t.name).toBeNaN();
+    }
+    expect(r.family).toBe(0);
+    expect(r.caveat).toBe(false);
+  });
+});
