@@ -271,7 +271,7 @@ function analyseSeries(
   if (!a.ok)
     return {
       findings: { ...base, notes: [...notes, ...a.notes] },
-      decided: { verdict: 'insufficient-data', reason: a.reason },
+      decided: { verdict: 'too-short', reason: a.reason },
     };
   notes.push(...a.notes.filter((n) => !notes.includes(n)));
 

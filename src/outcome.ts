@@ -53,7 +53,7 @@ export interface SeriesDraft {
 /** A series read back from a results file (a shard's, for merge) as a draft: errors and too little data keep their verdict. */
 export function draftOf(r: SeriesResult): SeriesDraft {
   const { verdict, reason, position, ...findings } = r;
-  const decided = verdict === 'error' || verdict === 'insufficient-data' ? { verdict, reason } : null;
+  const decided = verdict === 'error' || verdict === 'too-short' ? { verdict, reason } : null;
   return { findings, decided, ...(position !== undefined ? { position } : {}) };
 }
 
@@ -224,7 +224,7 @@ export function concludeRun(
     series: series.length,
     alarms: alarms.alarms,
     atRisk: judged.filter((r) => r.limit?.atRisk).length,
-    insufficient: judged.filter((r) => r.verdict === 'insufficient-data').length,
+    insufficient: judged.filter((r) => r.verdict === 'too-short').length,
     errors: judged.filter((r) => r.verdict === 'error').length,
     checkedObservations: alarms.checkedObservations,
     expectedFalseAlarms: alarms.expectedFalseAlarms,

@@ -3,7 +3,7 @@
 // results contract; results.ts builds its schema from these lists and re-exports the types.
 
 /** A series' or the run's verdict (docs/design.md glossary). Severity order lives in src/verdict.ts. */
-export const VERDICTS = ['ok', 'alarm', 'at-risk', 'insufficient-data', 'error'] as const;
+export const VERDICTS = ['ok', 'alarm', 'at-risk', 'too-short', 'error'] as const;
 export type Verdict = (typeof VERDICTS)[number];
 
 /** Which side of the interval is bad. */

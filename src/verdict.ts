@@ -8,10 +8,10 @@ import { FAIL_ON_VALUES, type FailOn, type Verdict } from './terms.js';
 import { didYouMean, numsApart, num, pct, plural } from './text/index.js';
 
 /**
- * Verdicts from most to least severe. `insufficient-data` comes last: too little data is a verdict
- * of its own, not a finding, so the run is "insufficient data" only when nothing else ran.
+ * Verdicts from most to least severe. `too-short` comes last: too little data is a verdict
+ * of its own, not a finding, so the run is "too short" only when nothing else ran.
  */
-export const SEVERITY: readonly Verdict[] = ['error', 'alarm', 'at-risk', 'ok', 'insufficient-data'];
+export const SEVERITY: readonly Verdict[] = ['error', 'alarm', 'at-risk', 'ok', 'too-short'];
 
 /** Sort key: 0 for the most severe verdict. */
 export function severityRank(v: Verdict): number {
@@ -26,7 +26,7 @@ export function bySeverity<T extends Pick<SeriesResult, 'verdict'>>(series: read
     .map((x) => x.s);
 }
 
-/** The run's verdict: the most severe series verdict; insufficient data only when nothing else ran. */
+/** The run's verdict: the most severe series verdict; too short only when nothing else ran. */
 export function runVerdict(series: readonly Pick<SeriesResult, 'verdict'>[]): Verdict {
   for (const v of SEVERITY) if (series.some((s) => s.verdict === v)) return v;
   return 'ok';
@@ -40,7 +40,7 @@ export type SeriesFindings = Omit<SeriesResult, 'verdict' | 'reason'>;
 
 /**
  * The verdict of an analysed series and one line saying why: alarm when a checked observation raised
- * one, else at-risk when its limit is, else ok. (Errors and insufficient data are decided where they
+ * one, else at-risk when its limit is, else ok. (Errors and too short are decided where they
  * happen, in ingestion or the engine, and carry their own reason.)
  */
 export function seriesVerdict(r: SeriesFindings): Pick<SeriesResult, 'verdict' | 'reason'> {

@@ -16,18 +16,18 @@ import { checked, results, series } from './action/helpers.js';
 const v = (verdict: Parameters<typeof runVerdict>[0][number]['verdict']) => ({ verdict });
 
 describe('verdict order', () => {
-  it('makes the run as severe as its worst series, and insufficient data only when nothing else ran', () => {
+  it('makes the run as severe as its worst series, and too short only when nothing else ran', () => {
     expect(runVerdict([v('ok'), v('alarm'), v('error'), v('at-risk')])).toBe('error');
     expect(runVerdict([v('ok'), v('at-risk'), v('alarm')])).toBe('alarm');
-    expect(runVerdict([v('insufficient-data'), v('ok')])).toBe('ok');
-    expect(runVerdict([v('insufficient-data')])).toBe('insufficient-data');
+    expect(runVerdict([v('too-short'), v('ok')])).toBe('ok');
+    expect(runVerdict([v('too-short')])).toBe('too-short');
     expect(runVerdict([])).toBe('ok');
   });
 
   it('sorts every list by the same order, keeping ties in place', () => {
     const list = [
       { n: 1, ...v('ok') },
-      { n: 2, ...v('insufficient-data') },
+      { n: 2, ...v('too-short') },
       { n: 3, ...v('alarm') },
       { n: 4, ...v('error') },
       { n: 5, ...v('alarm') },
@@ -75,7 +75,7 @@ describe('needs attention', () => {
     const ok = series('ok', 'ok.csv');
     const alarm = series('alarm', 'a.csv', { verdict: 'alarm' });
     const error = series('error', 'e.csv', { verdict: 'error' });
-    const short = series('short', 's.csv', { verdict: 'insufficient-data' });
+    const short = series('short', 's.csv', { verdict: 'too-short' });
     const flagged = series('flagged', 'f.csv');
     flagged.residualChecks = {
       ljungBox: { statistic: 40, df: 10, pValue: 0.00002, ok: false, finding: '', lags: 10 },

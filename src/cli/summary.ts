@@ -13,7 +13,7 @@ const COLOUR: Record<Verdict, keyof typeof CODES> = {
   ok: 'green',
   alarm: 'red',
   'at-risk': 'yellow',
-  'insufficient-data': 'dim',
+  'too-short': 'dim',
   error: 'red',
 };
 

@@ -38,7 +38,7 @@ export interface IngestFailure {
   column: string | null;
   key: string | null;
   error: LeadlineError;
-  verdict: 'insufficient-data' | 'error';
+  verdict: 'too-short' | 'error';
 }
 
 export interface IngestOutcome {
@@ -50,7 +50,7 @@ export interface IngestOutcome {
   parseMs: number;
 }
 
-/** Fewest observations (non-missing values) a series needs; fewer gives "insufficient data". */
+/** Fewest observations (non-missing values) a series needs; fewer gives "too short". */
 export const MIN_OBSERVATIONS = 3;
 
 /** A grid may hold at most this many points per observed row (beyond a floor), so a stray date cannot blow it up. */
@@ -119,7 +119,7 @@ function tooFew(message: string, file: string): LeadlineError {
 }
 
 function verdictOf(e: LeadlineError): IngestFailure['verdict'] {
-  return insufficient.has(e) ? 'insufficient-data' : 'error';
+  return insufficient.has(e) ? 'too-short' : 'error';
 }
 
 function columnList(header: string[]): string {
@@ -334,7 +334,7 @@ function buildMetric(
   if (t.header === null) {
     fail(
       new LeadlineError('data', 'The file is empty: no header row and no data.', { file: t.file, line: 1 }),
-      'insufficient-data',
+      'too-short',
     );
     return;
   }
@@ -379,7 +379,7 @@ function buildMetric(
         file: t.file,
         line: t.headerLine,
       }),
-      'insufficient-data',
+      'too-short',
     );
     return;
   }

@@ -38,13 +38,14 @@ export function shortWhen(iso: string | null, spacing: Spacing, index: number): 
 /**
  * The one word for each verdict wherever a person reads it: reports, terminal, counts and the log.
  * The results JSON and the Action's `verdict` output keep the codes (`ok`, `alarm`, `at-risk`,
- * `insufficient-data`, `error`): results are version 1, so values are added, never renamed.
+ * `too-short`, `error`). `too-short` replaced an earlier code for the same state before any release;
+ * otherwise results are version 1, so values are added, never renamed.
  */
 export const VERDICT_LABEL: Record<Verdict, string> = {
   ok: 'steady',
   alarm: 'out of line',
   'at-risk': 'limit at risk',
-  'insufficient-data': 'too short',
+  'too-short': 'too short',
   error: 'error',
 };
 
@@ -53,7 +54,7 @@ export const VERDICT_ICON: Record<Verdict, string> = {
   ok: '🟢',
   alarm: '🔴',
   'at-risk': '🟠',
-  'insufficient-data': '⚪',
+  'too-short': '⚪',
   error: '⛔',
 };
 

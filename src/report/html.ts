@@ -21,7 +21,7 @@ h1{font-size:1.6rem;margin:0 0 4px}h2{font-size:1.25rem;margin:0 0 6px}h3{font-s
 a{color:inherit}
 .muted,.facts,.note{color:var(--muted)}.facts{font-size:.9rem}
 .badge{display:inline-block;padding:1px 8px;border-radius:10px;font-size:.8rem;font-weight:600;border:1px solid currentColor;white-space:nowrap}
-.v-ok{color:var(--ok)}.v-alarm{color:var(--alarm)}.v-at-risk{color:var(--risk)}.v-insufficient-data{color:var(--na)}.v-error{color:var(--alarm)}
+.v-ok{color:var(--ok)}.v-alarm{color:var(--alarm)}.v-at-risk{color:var(--risk)}.v-too-short{color:var(--na)}.v-error{color:var(--alarm)}
 .caution{border-left:4px solid var(--risk);padding:6px 12px;background:var(--card);margin:12px 0}
 table{border-collapse:collapse;width:100%;margin:6px 0 10px;font-size:.88rem;background:var(--card)}
 th,td{border:1px solid var(--line);padding:4px 8px;text-align:left;vertical-align:top}

@@ -638,7 +638,7 @@ export function buildView(results: Results, opts: ViewOptions = {}): ReportView 
         : 'No observation was checked and no limit is at risk.',
     alarm: `${plural(sum.alarms, 'observation')} outside what history predicts.`,
     'at-risk': `${plural(sum.atRisk, 'limit')} at risk of being crossed.`,
-    'insufficient-data': `Every series is ${VERDICT_LABEL['insufficient-data']} to judge yet.`,
+    'too-short': `Every series is ${VERDICT_LABEL['too-short']} to judge yet.`,
     error: `${plural(sum.errors, 'series', 'series')} could not be analysed.`,
   }[results.verdict];
 
@@ -649,7 +649,7 @@ export function buildView(results: Results, opts: ViewOptions = {}): ReportView 
     plural(sum.alarms, 'alarm'),
     `${sum.atRisk} at risk`,
   ];
-  if (sum.insufficient > 0) countParts.push(`${sum.insufficient} ${VERDICT_LABEL['insufficient-data']}`);
+  if (sum.insufficient > 0) countParts.push(`${sum.insufficient} ${VERDICT_LABEL['too-short']}`);
   if (sum.errors > 0) countParts.push(`${plural(sum.errors, 'error')}`);
 
   const falseAlarms = chanceSentence(results);

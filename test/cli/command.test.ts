@@ -46,7 +46,7 @@ describe('the command on the demo scenario', () => {
       'events-db-storage': 'at-risk', // grows ~3 GB/day towards its 2,000 GB volume
       'route-solver-bench': 'ok',
       'label-render': 'alarm', // the newest day carries an injected +46 ms regression
-      'harbour-region-signups': 'insufficient-data', // two rows only
+      'harbour-region-signups': 'too-short', // two rows only
       'web-bundle[tracker-web]': 'ok',
       'web-bundle[driver-app]': 'ok',
       'web-bundle[returns-portal]': 'ok',

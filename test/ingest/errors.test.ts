@@ -137,25 +137,25 @@ describe('malformed CSV names the line', () => {
   });
 });
 
-describe('missing data gives insufficient data; missing columns an error listing the columns', () => {
+describe('missing data gives too short; missing columns an error listing the columns', () => {
   it('an empty file', async () => {
     const f = await failure('', 'value: v');
-    expect(f.verdict).toBe('insufficient-data');
+    expect(f.verdict).toBe('too-short');
     expect(f.error.message).toContain('empty');
     expect(f.error.line).toBe(1);
   });
 
   it('a header without rows', async () => {
     const f = await failure('date,v\n', 'time: date, value: v');
-    expect(f.verdict).toBe('insufficient-data');
+    expect(f.verdict).toBe('too-short');
     expect(f.error.line).toBe(1);
   });
 
   it('fewer than three observations', async () => {
     const f = await failure('date,v\n2024-01-01,1\n2024-01-02,2\n', 'time: date, value: v');
-    expect(f.verdict).toBe('insufficient-data');
+    expect(f.verdict).toBe('too-short');
     const g = await failure('v\n1\n\n2\n', 'value: v, blanks: missing');
-    expect(g.verdict).toBe('insufficient-data');
+    expect(g.verdict).toBe('too-short');
     expect(g.error.message).toContain('Only 2 observations in column "v"');
   });
 
@@ -220,8 +220,8 @@ describe('one metric failing does not stop the others', () => {
     expect(out.failures.map((f) => [f.metric.name, f.column, f.key, f.verdict])).toEqual([
       ['a', 'gone', null, 'error'],
       ['a', 'bad', null, 'error'],
-      ['b', null, 'h2', 'insufficient-data'],
-      ['c', null, null, 'insufficient-data'],
+      ['b', null, 'h2', 'too-short'],
+      ['c', null, null, 'too-short'],
     ]);
   });
 });

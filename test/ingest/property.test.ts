@@ -46,7 +46,7 @@ function checkOutcome(out: IngestOutcome): void {
   for (const f of out.failures) {
     expect(f.error).toBeInstanceOf(LeadlineError);
     expect(f.error.file).toBe('data.csv');
-    expect(['insufficient-data', 'error']).toContain(f.verdict);
+    expect(['too-short', 'error']).toContain(f.verdict);
   }
   for (const s of out.series) {
     expect(s.rows.length).toBe(s.values.length);

@@ -81,7 +81,7 @@ describe.skipIf(!ready)(
       });
       // What our own scenario was built to show.
       if (!haveDemo)
-        expect(results.series.map((s) => s.verdict)).toEqual(['at-risk', 'alarm', 'ok', 'insufficient-data']);
+        expect(results.series.map((s) => s.verdict)).toEqual(['at-risk', 'alarm', 'ok', 'too-short']);
       browser = await launch();
     });
     afterAll(async () => {

@@ -277,7 +277,7 @@ describe('view details', () => {
 
   it('orders attention items first in the view', () => {
     const v = buildView(mixedRun());
-    expect(v.series.map((s) => s.verdict.code)).toEqual(['alarm', 'at-risk', 'ok', 'insufficient-data']);
+    expect(v.series.map((s) => s.verdict.code)).toEqual(['alarm', 'at-risk', 'ok', 'too-short']);
     expect(v.attention.map((a) => a.section)).toEqual([1, 2]);
   });
 

@@ -304,7 +304,7 @@ export function results(list: SeriesResult[], extra: Partial<Results> = {}): Res
       series: list.length,
       alarms,
       atRisk,
-      insufficient: list.filter((s) => s.verdict === 'insufficient-data').length,
+      insufficient: list.filter((s) => s.verdict === 'too-short').length,
       errors: list.filter((s) => s.verdict === 'error').length,
       checkedObservations: checked.length,
       expectedFalseAlarms: checked.reduce((a, c) => a + (1 - c.level / 100), 0),
@@ -332,7 +332,7 @@ export function shortSeries(name: string): SeriesResult {
     checked: [],
     limit: null,
     residuals: [],
-    verdict: 'insufficient-data',
+    verdict: 'too-short',
     reason: 'Only 6 observations; at least 10 are needed.',
     notes: [],
   };
