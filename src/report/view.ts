@@ -14,6 +14,7 @@ import { sideAlpha } from '../alarms/index.js';
 import { escapeMarkdown as md, num, numsApart, pct, plural, pval } from '../text/index.js';
 import { failedCheckKeys, isJudged, needsAttention, severityRank } from '../verdict.js';
 import { METHOD_LABEL, SPACING_WORD, STEP_UNIT, VERDICT_ICON, VERDICT_LABEL, when } from './format.js';
+import { displayName } from '../untrusted.js';
 import { mermaidChart } from './mermaid.js';
 import { sparkline } from './sparkline.js';
 
@@ -179,6 +180,11 @@ export interface ViewOptions {
   fullReportNote?: string;
 }
 
+/** A series' name or key as the report shows it: escaped, and cut to a readable length (results keep it whole). */
+function shownName(text: string): string {
+  return md(displayName(text));
+}
+
 const FORECAST_ROWS = 24;
 const CHECKED_ROWS = 20;
 
@@ -260,7 +266,7 @@ function attentionRow(s: SeriesResult, section: number): AttentionRow {
   const lastIsChecked = last !== undefined && lastValue !== undefined && last.index === lastValue.index;
   return {
     section,
-    name: md(s.name),
+    name: shownName(s.name),
     verdict: verdictView(s.verdict),
     why: md(s.reason) || md(VERDICT_LABEL[s.verdict]),
     spark: sparkline(s.history.map((h) => h.value)),
@@ -286,7 +292,7 @@ function limitRow(s: SeriesResult): LimitRow | null {
       ? 'at risk'
       : 'within the allowed risk';
   return {
-    name: md(s.name),
+    name: shownName(s.name),
     verdict: verdictView(s.verdict),
     limit: `${l.side} ${num(l.value, 6)}`,
     within: plural(l.within, STEP_UNIT[s.spacing]),
@@ -444,7 +450,7 @@ function calibrationRows(s: SeriesResult): CalibrationRow[] {
 
 function facts(s: SeriesResult): string {
   const parts = [`File ${md(s.file)}`, `column ${md(s.column)}`];
-  if (s.key !== null) parts.push(`key ${md(s.key)}`);
+  if (s.key !== null) parts.push(`key ${shownName(s.key)}`);
   parts.push(plural(s.observations, 'observation'));
   if (s.missing > 0) parts.push(`${s.missing} missing`);
   parts.push(SPACING_WORD[s.spacing]);
@@ -478,7 +484,7 @@ function seriesView(s: SeriesResult, section: number, chart: ChartView | null): 
   const bt = s.backtest;
   return {
     section,
-    name: md(s.name),
+    name: shownName(s.name),
     verdict: verdictView(s.verdict),
     reason: md(s.reason),
     attention: needsAttention(s),
@@ -543,7 +549,7 @@ export function chanceSentence(results: Results): string {
 const NAMED = 5;
 
 function names(list: SeriesResult[]): string {
-  const shown = list.slice(0, NAMED).map((s) => md(s.name));
+  const shown = list.slice(0, NAMED).map((s) => shownName(s.name));
   return list.length > NAMED ? `${shown.join(', ')} and ${list.length - NAMED} more` : shown.join(', ');
 }
 
@@ -625,7 +631,7 @@ export function buildView(results: Results, opts: ViewOptions = {}): ReportView 
   for (const s of [...attention, ...ordered.filter((s) => !needsAttention(s))]) {
     if (chartFor.size >= maxCharts) break;
     const c = mermaidChart(s);
-    if (c) chartFor.set(s, { section: section.get(s)!, name: md(s.name), ...c });
+    if (c) chartFor.set(s, { section: section.get(s)!, name: shownName(s.name), ...c });
   }
   const charts = attention.map((s) => chartFor.get(s)).filter((c): c is ChartView => c !== undefined);
 
