@@ -14,7 +14,7 @@ import { sideAlpha } from '../alarms/index.js';
 import { escapeMarkdown as md, num, numsApart, pct, plural, pval } from '../text/index.js';
 import { failedCheckKeys, isJudged, needsAttention, severityRank } from '../verdict.js';
 import { METHOD_LABEL, SPACING_WORD, STEP_UNIT, VERDICT_ICON, VERDICT_LABEL, when } from './format.js';
-import { displayName } from '../untrusted.js';
+import { shorten } from '../untrusted.js';
 import { mermaidChart } from './mermaid.js';
 import { sparkline } from './sparkline.js';
 
@@ -180,9 +180,12 @@ export interface ViewOptions {
   fullReportNote?: string;
 }
 
-/** A series' name or key as the report shows it: escaped, and cut to a readable length (results keep it whole). */
+/** Longest series name or key the report shows whole; longer ones are cut (results keep them whole). */
+const REPORT_NAME_MAX = 200;
+
+/** A series' name or key as the report shows it: escaped, and cut to REPORT_NAME_MAX characters. */
 function shownName(text: string): string {
-  return md(displayName(text));
+  return md(shorten(text, REPORT_NAME_MAX));
 }
 
 const FORECAST_ROWS = 24;
