@@ -1,6 +1,7 @@
 // Time and verdict wording shared by the markdown and HTML reports. Numbers, p-values and counted
 // nouns are formatted by src/text.
 import type { Spacing, Verdict } from '../results.js';
+import { shorten } from '../untrusted.js';
 
 /** A time for tables: the date alone for whole days, otherwise date and time in UTC. */
 export function when(iso: string | null, spacing?: Spacing): string | null {
@@ -87,3 +88,11 @@ export const SPACING_WORD: Record<Spacing, string> = {
   year: 'yearly',
   row: 'row order',
 };
+
+/** Longest series name or key a report shows whole; longer ones are cut (results keep them whole). */
+export const REPORT_NAME_MAX = 200;
+
+/** A series' name or key as every report shows it (markdown, HTML, chart titles): cut to REPORT_NAME_MAX characters, not yet escaped. */
+export function reportName(text: string): string {
+  return shorten(text, REPORT_NAME_MAX);
+}

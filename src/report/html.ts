@@ -2,7 +2,7 @@
 // security policy forbids anything else), readable in light and dark mode.
 import type { Results, SeriesResult } from '../results.js';
 import { escapeHtml as h, num, pct, plural } from '../text/index.js';
-import { METHOD_LABEL, VERDICT_LABEL } from './format.js';
+import { METHOD_LABEL, reportName, VERDICT_LABEL } from './format.js';
 import { backtestChart, fanChart, ljungBoxChart, qqChart, spreadChart } from './svg.js';
 import { buildView, reportOrder, type SeriesView } from './view.js';
 
@@ -87,7 +87,7 @@ function metricSection(s: SeriesResult, v: SeriesView, id: string): string {
   // Healthy series start folded: one line each; what needs attention is open.
   out.push(`<details class="metric" id="${id}"${v.attention ? ' open' : ''}>`);
   out.push(
-    `<summary><h2>${h(s.name)} ${badge(s.verdict)}</h2>${s.reason ? ` <span class="why">${h(s.reason)}</span>` : ''}</summary>`,
+    `<summary><h2>${h(reportName(s.name))} ${badge(s.verdict)}</h2>${s.reason ? ` <span class="why">${h(s.reason)}</span>` : ''}</summary>`,
   );
   out.push(`<p class="facts">${v.facts}</p>`);
   out.push(
@@ -202,7 +202,7 @@ export function renderHtml(results: Results): string {
   const overview = table(
     ['Metric', 'Verdict', 'Why', 'Method', 'Checked', 'Limit risk'],
     ordered.map((s, i) => [
-      i < shown ? `<a href="#${id(i)}">${h(s.name)}</a>` : h(s.name),
+      i < shown ? `<a href="#${id(i)}">${h(reportName(s.name))}</a>` : h(reportName(s.name)),
       badge(s.verdict),
       h(s.reason),
       h(s.method ? (METHOD_LABEL[s.method] ?? s.method) : 'n/a'),

@@ -17,7 +17,7 @@ import { chiSquareCdf, normalQuantile } from '../engine/dist.js';
 import { area, line } from 'd3-shape';
 import type { SeriesResult } from '../results.js';
 import { escapeHtml as h, num, pval } from '../text/index.js';
-import { METHOD_LABEL, when } from './format.js';
+import { METHOD_LABEL, reportName, when } from './format.js';
 
 const W = 760;
 const M = { top: 14, right: 18, bottom: 30, left: 64 };
@@ -186,7 +186,7 @@ export function fanChart(s: SeriesResult, id: string): string {
   }
   const xe = extent(xs);
   const ye = extent(ys);
-  const title = `${s.name}: history and forecast`;
+  const title = `${reportName(s.name)}: history and forecast`;
   if (!xe || !ye) {
     return `${svgOpen(id, 60, title, 'No values to draw.', 'fan')}<text class="empty" x="${W / 2}" y="34" text-anchor="middle">No values to draw.</text></svg>`;
   }
@@ -325,7 +325,7 @@ function sampleSd(xs: number[]): { mean: number; sd: number } {
  * ones and the description says so.
  */
 export function spreadChart(s: SeriesResult, id: string): string {
-  const title = `${s.name}: spread of the residuals over time`;
+  const title = `${reportName(s.name)}: spread of the residuals over time`;
   const pts = residualPoints(s);
   if (pts.length < 6) return emptyHalf(id, title, 'Too few residuals to compare thirds.', 'spread');
   const height = 200;
@@ -401,7 +401,7 @@ export function spreadChart(s: SeriesResult, id: string): string {
  * ends for heavy or light tails and to one side for skew.
  */
 export function qqChart(s: SeriesResult, id: string): string {
-  const title = `${s.name}: residuals against normal quantiles`;
+  const title = `${reportName(s.name)}: residuals against normal quantiles`;
   const r = s.residuals.filter(isNum);
   if (r.length < 3) return emptyHalf(id, title, 'Too few residuals for a Q–Q plot.', 'qq');
   const { mean, sd } = sampleSd(r);
@@ -465,7 +465,7 @@ export function qqChart(s: SeriesResult, id: string): string {
  * own lags and df, so the ringed point is the check's own p-value.
  */
 export function ljungBoxChart(s: SeriesResult, id: string): string {
-  const title = `${s.name}: Ljung–Box p-value by number of lags`;
+  const title = `${reportName(s.name)}: Ljung–Box p-value by number of lags`;
   const c = s.residualChecks;
   const lb = c?.ljungBox;
   const acf = c?.acf ?? [];
@@ -565,7 +565,7 @@ export function backtestChart(s: SeriesResult, id: string): string {
         .map(([m, b]) => ({ m, score: Math.abs(b!.score!), chosen: m === s.method }))
         .sort((a, b) => a.score - b.score)
     : [];
-  const title = `${s.name}: backtest comparison`;
+  const title = `${reportName(s.name)}: backtest comparison`;
   if (!bt || rows.length === 0)
     return `${svgOpen(id, 60, title, 'No backtest to draw.', 'bt')}<text class="empty" x="${W / 2}" y="34" text-anchor="middle">No backtest scores.</text></svg>`;
   const rowH = 24;

@@ -13,8 +13,15 @@ import type {
 import { sideAlpha } from '../alarms/index.js';
 import { escapeMarkdown as md, num, numsApart, pct, plural, pval } from '../text/index.js';
 import { failedCheckKeys, isJudged, needsAttention, severityRank } from '../verdict.js';
-import { METHOD_LABEL, SPACING_WORD, STEP_UNIT, VERDICT_ICON, VERDICT_LABEL, when } from './format.js';
-import { shorten } from '../untrusted.js';
+import {
+  METHOD_LABEL,
+  reportName,
+  SPACING_WORD,
+  STEP_UNIT,
+  VERDICT_ICON,
+  VERDICT_LABEL,
+  when,
+} from './format.js';
 import { mermaidChart } from './mermaid.js';
 import { sparkline } from './sparkline.js';
 
@@ -180,12 +187,9 @@ export interface ViewOptions {
   fullReportNote?: string;
 }
 
-/** Longest series name or key the report shows whole; longer ones are cut (results keep them whole). */
-const REPORT_NAME_MAX = 200;
-
-/** A series' name or key as the report shows it: escaped, and cut to REPORT_NAME_MAX characters. */
+/** A series' name or key as the markdown report shows it: cut (format.ts `reportName`), then escaped. */
 function shownName(text: string): string {
-  return md(shorten(text, REPORT_NAME_MAX));
+  return md(reportName(text));
 }
 
 const FORECAST_ROWS = 24;

@@ -1,6 +1,7 @@
-// A 100 kB key value is cut for display in the markdown report and kept whole in the results file.
+// A 100 kB key value is cut for display in the markdown and HTML reports and kept whole in the results file.
 import { describe, expect, it } from 'vitest';
 import { resultsJson } from '../../src/files.js';
+import { renderHtml } from '../../src/report/html.js';
 import { renderMarkdown } from '../../src/report/markdown.js';
 import { results, series } from './results.js';
 
@@ -17,6 +18,15 @@ describe('very long key values', () => {
     const plain = renderMarkdown(results([base]));
     const headings = (text: string) => text.split('\n').filter((l) => /^#{1,6} /.test(l)).length;
     expect(headings(markdown)).toBe(headings(plain));
+  });
+
+  it('are shortened in the HTML report, its headings, index and chart titles alike', () => {
+    const page = renderHtml(run);
+    const plain = renderHtml(results([base]));
+    // Each place the name appears (heading, index, five chart titles) costs at most about 200 characters more.
+    expect(page.length).toBeLessThan(plain.length + 20 * 300);
+    expect(page).not.toContain('k'.repeat(1_000));
+    expect(page).toContain('100000 characters');
   });
 
   it('are kept whole in the results file', () => {
