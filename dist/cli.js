@@ -25781,7 +25781,7 @@ function numberToMs(v, unit2) {
 }
 
 // src/terms.ts
-var VERDICTS = ["ok", "alarm", "at-risk", "insufficient-data", "error"];
+var VERDICTS = ["ok", "alarm", "at-risk", "too-short", "error"];
 var DIRECTIONS = ["above", "below", "both"];
 var FALSE_ALARM_CONTROLS = ["none", "bonferroni", "fdr"];
 var SPACINGS = ["minute", "hour", "day", "week", "month", "quarter", "year", "row"];
@@ -25905,6 +25905,10 @@ var configSchema = strictObject({
     default: 1
   }),
   defaults: defaultsSchema.optional(),
+  pullRequestGate: _enum(["changed", "all"]).optional().meta({
+    description: 'In a pull request, which series are judged and can fail the gate: "changed" (the series of the files the pull request changes; the others are one line of context) or "all". Push, schedule and manual runs judge every series.',
+    default: "changed"
+  }),
   metrics: array(metricSchema).min(1).meta({ description: "The metrics to watch." })
 }).meta({
   title: "Leadline configuration",
@@ -26091,7 +26095,13 @@ function parsePlan(text2, configPath) {
     if (plan) metrics.push(plan);
   });
   if (problems.length > 0) report(doc, lc, problems, file);
-  return { configPath, version: 1, metrics, falseAlarms: falseAlarms2 };
+  return {
+    configPath,
+    version: 1,
+    metrics,
+    falseAlarms: falseAlarms2,
+    pullRequestGate: config2.pullRequestGate ?? "changed"
+  };
 }
 function buildMetric(m, d, base, line3, falseAlarms2, problems) {
   const pick2 = (k2) => m[k2] !== void 0 ? m[k2] : d[k2];
@@ -27255,7 +27265,9 @@ function runResidualTests(fit, lags) {
   } else {
     const bf = brownForsythe(d.subarray(0, third), d.subarray(n - third));
     const df2 = 2 * third - 2;
-    if (!(bf.ssw > 0)) {
+    if (!Number.isFinite(bf.first) || !Number.isFinite(bf.last) || !Number.isFinite(bf.ssw)) {
+      spread = notComputed(spreadName, NOT_FINITE, df2);
+    } else if (!(bf.ssw > 0)) {
       const grown = bf.last > bf.first;
       spread = {
         ...notComputed(spreadName, "the first and last thirds of the residuals do not vary in spread.", df2),
@@ -27275,7 +27287,8 @@ function runResidualTests(fit, lags) {
       });
     }
   }
-  const flagged = holm(family);
+  const computed = finiteOnly(family);
+  const flagged = holm(computed);
   return {
     acf,
     acfBound: n > 0 ? 1.96 / Math.sqrt(n) : NaN,
@@ -27283,9 +27296,17 @@ function runResidualTests(fit, lags) {
     bias,
     normality,
     spread,
-    family: family.length,
+    family: computed.length,
     caveat: flagged || [ljungBox, bias, normality, spread].some((t) => !t.ok)
   };
+}
+var NOT_FINITE = "the residuals are too large for double-precision arithmetic (the statistic is not finite).";
+function finiteOnly(family) {
+  return family.filter(({ test }) => {
+    if (Number.isFinite(test.statistic) && Number.isFinite(test.pValue)) return true;
+    Object.assign(test, notComputed(test.name, NOT_FINITE, test.df));
+    return false;
+  });
 }
 function holm(family) {
   const m = family.length;
@@ -31805,7 +31826,7 @@ function tooFew(message, file) {
   return e;
 }
 function verdictOf(e) {
-  return insufficient.has(e) ? "insufficient-data" : "error";
+  return insufficient.has(e) ? "too-short" : "error";
 }
 function columnList(header) {
   return header.length === 0 ? "(none)" : header.map((h) => visible(JSON.stringify(shorten(h)))).join(", ");
@@ -31975,7 +31996,7 @@ function buildMetric2(m, t, multi, series, failures, configPath) {
   if (t.header === null) {
     fail2(
       new LeadlineError("data", "The file is empty: no header row and no data.", { file: t.file, line: 1 }),
-      "insufficient-data"
+      "too-short"
     );
     return;
   }
@@ -32020,7 +32041,7 @@ function buildMetric2(m, t, multi, series, failures, configPath) {
         file: t.file,
         line: t.headerLine
       }),
-      "insufficient-data"
+      "too-short"
     );
     return;
   }
@@ -32466,7 +32487,7 @@ function timeAfterLast(s2, step) {
 }
 
 // src/verdict.ts
-var SEVERITY = ["error", "alarm", "at-risk", "ok", "insufficient-data"];
+var SEVERITY = ["error", "alarm", "at-risk", "ok", "too-short"];
 function severityRank(v) {
   return SEVERITY.indexOf(v);
 }
@@ -32493,11 +32514,18 @@ function seriesVerdict(r) {
   }
   const verdict = alarms.length > 0 ? "alarm" : r.limit?.atRisk ? "at-risk" : "ok";
   if (parts.length > 0) return { verdict, reason: parts.join("; ") };
-  if (r.checked.length > 0)
-    return {
-      verdict,
-      reason: `${plural(r.checked.length, "checked observation")} within the ${r.alarmLevel}% interval`
-    };
+  if (r.checked.length > 0) {
+    const outside = r.checked.filter((c) => c.outside).length;
+    const inside2 = r.checked.length - outside;
+    const said = [];
+    if (inside2 > 0)
+      said.push(`${plural(inside2, "checked observation")} within the ${r.alarmLevel}% interval`);
+    if (outside > 0)
+      said.push(
+        `${outside} outside it on ${r.direction === "both" ? "a side, but not an alarm after the false-alarm adjustment" : `the side that is not watched (watching ${r.direction})`}`
+      );
+    return { verdict, reason: said.join("; ") };
+  }
   return { verdict, reason: "No observation was checked." };
 }
 var CHECK_KEYS = ["ljungBox", "bias", "normality", "spread"];
@@ -32507,7 +32535,10 @@ function failedCheckKeys(s2) {
   return CHECK_KEYS.filter((k2) => c[k2] && c[k2].ok === false);
 }
 function needsAttention(s2) {
-  return verdictNeedsAttention(s2.verdict);
+  return isJudged(s2) && verdictNeedsAttention(s2.verdict);
+}
+function isJudged(s2) {
+  return s2.judged !== false;
 }
 function verdictNeedsAttention(v) {
   return v === "alarm" || v === "at-risk" || v === "error";
@@ -32557,7 +32588,7 @@ function decideGate(failOn, s2) {
 var HISTORY_CAP = 60;
 function draftOf(r) {
   const { verdict, reason, position, ...findings } = r;
-  const decided = verdict === "error" || verdict === "insufficient-data" ? { verdict, reason } : null;
+  const decided = verdict === "error" || verdict === "too-short" ? { verdict, reason } : null;
   return { findings, decided, ...position !== void 0 ? { position } : {} };
 }
 function seriesName2(m, column, key) {
@@ -32670,18 +32701,50 @@ function concludeRun(drafts, o) {
       ...d.position !== void 0 ? { position: d.position } : {}
     };
   });
+  const judged = series.filter(isJudged);
   const summary = {
     metrics: o.metrics,
     series: series.length,
     alarms: alarms.alarms,
-    atRisk: series.filter((r) => r.limit?.atRisk).length,
-    insufficient: series.filter((r) => r.verdict === "insufficient-data").length,
-    errors: series.filter((r) => r.verdict === "error").length,
+    atRisk: judged.filter((r) => r.limit?.atRisk).length,
+    insufficient: judged.filter((r) => r.verdict === "too-short").length,
+    errors: judged.filter((r) => r.verdict === "error").length,
     checkedObservations: alarms.checkedObservations,
     expectedFalseAlarms: alarms.expectedFalseAlarms,
     falseAlarms: o.falseAlarms
   };
-  return { verdict: runVerdict(series), gate: decideGate(o.failOn, summary), summary, series };
+  return { verdict: runVerdict(judged), gate: decideGate(o.failOn, summary), summary, series };
+}
+function pullRequestScope(drafts, gate, newRows, addedFiles = []) {
+  if (!newRows) return { kind: "latest", files: [], gate: "all" };
+  const lastRow = /* @__PURE__ */ new Map();
+  for (const { findings: r } of drafts) {
+    const changed = Object.hasOwn(newRows, r.file);
+    if (gate === "changed") r.judged = changed;
+    const row = r.history.at(-1)?.row ?? null;
+    if (row !== null && changed) lastRow.set(r.file, Math.max(row, lastRow.get(r.file) ?? 0));
+  }
+  const added = new Set(addedFiles);
+  const files = [...lastRow.entries()].map(([file, row]) => ({
+    file,
+    rows: Math.max(0, row - newRows[file]),
+    added: added.has(file)
+  }));
+  return { kind: "pull-request", files: byFile(files), gate };
+}
+function mergedScope(scopes) {
+  const known = scopes.filter((x2) => x2 !== void 0);
+  if (known.length === 0) return void 0;
+  const files = /* @__PURE__ */ new Map();
+  for (const sc of known)
+    for (const f2 of sc.files) {
+      const had = files.get(f2.file);
+      files.set(f2.file, had ? { ...had, rows: Math.max(had.rows, f2.rows), added: had.added || f2.added } : f2);
+    }
+  return { kind: known[0].kind, files: byFile([...files.values()]), gate: known[0].gate };
+}
+function byFile(files) {
+  return files.sort((a2, b) => a2.file < b.file ? -1 : a2.file > b.file ? 1 : 0);
 }
 function chartData(s2, a2, firstChecked, notes2, cap) {
   const start3 = Math.max(0, Math.min(s2.values.length - cap, firstChecked ?? Infinity));
@@ -32980,7 +33043,13 @@ var seriesResultSchema = strictObject({
   reason: text(),
   notes,
   /** Only in a shard's file: the series' place (0-based) in the whole run's order, which merge restores. */
-  position: count.optional()
+  position: count.optional(),
+  /**
+   * Whether this series is judged (its verdict counts for the run and the gate). False only in a
+   * pull request for a series whose file the pull request leaves alone (with `pullRequestGate:
+   * changed`); absent in files written before this field, meaning judged.
+   */
+  judged: boolean2().optional()
 });
 var problemSchema = strictObject({
   kind: _enum(["config", "data", "internal"]),
@@ -33033,7 +33102,17 @@ var resultsHeadSchema = strictObject({
   summary: summarySchema,
   problems: array(problemSchema).max(MAX_POINTS),
   /** Run-wide notes, e.g. that a pull request's base commit was not in the clone. */
-  notes: notes.optional()
+  notes: notes.optional(),
+  /**
+   * What the run checked. `pull-request`: the rows each changed metric file gained over the base
+   * commit (`added` lists files new in the pull request, of which only the last row is checked) and
+   * which series the gate judged; `latest`: the newest observations of every series.
+   */
+  scope: strictObject({
+    kind: _enum(["pull-request", "latest"]),
+    files: array(strictObject({ file: text(), rows: count, added: boolean2() })).max(MAX_POINTS),
+    gate: _enum(["changed", "all"])
+  }).optional()
 });
 var resultsSchema = resultsHeadSchema.extend({ series: array(seriesResultSchema).max(1e7) }).meta({
   $id: RESULTS_SCHEMA_ID,
@@ -33130,6 +33209,7 @@ function finishResults(plan, outcome, analysed, o) {
     const p = problemOf(f2);
     return p && shard ? { ...p, position: i } : p;
   }).filter((p) => p !== null);
+  const scope = pullRequestScope(drafts, plan.pullRequestGate, o.newRows, o.addedFiles);
   const { series, verdict, gate, summary } = concludeRun(drafts, {
     metrics: plan.metrics.length,
     falseAlarms: plan.falseAlarms,
@@ -33154,6 +33234,7 @@ function finishResults(plan, outcome, analysed, o) {
     problems
   };
   if (o.baseNote) out.notes = [o.baseNote];
+  out.scope = scope;
   return out;
 }
 function analyseSeries(s2, m, o) {
@@ -33186,7 +33267,7 @@ function analyseSeries(s2, m, o) {
   if (!a2.ok)
     return {
       findings: { ...base, notes: [...notes2, ...a2.notes] },
-      decided: { verdict: "insufficient-data", reason: a2.reason }
+      decided: { verdict: "too-short", reason: a2.reason }
     };
   notes2.push(...a2.notes.filter((n) => !notes2.includes(n)));
   const scope = checkScope(s2, m.check.last, o.newRows);
@@ -33229,10 +33310,10 @@ function analyseSeries(s2, m, o) {
 var import_handlebars = __toESM(require_lib(), 1);
 
 // src/report/templates/brief.hbs
-var brief_default = "## {{verdict.icon}} Leadline: {{verdict.label}}\n\n**{{headline}}** {{gate}}\n{{#if scope}}\n\n{{scope}}\n{{/if}}\n{{#each runNotes}}\n\n> {{this}}\n{{/each}}\n{{#if problems.length}}\n\n### Problems\n\n| Where | What went wrong |\n|---|---|\n{{#each problems}}\n| {{where}} | {{message}} |\n{{/each}}\n{{/if}}\n{{#if attention.length}}\n\n### Needs attention\n\n| | Metric | Why | Recent | Latest | Judged against |\n|---|---|---|---|---|---|\n{{#each attention}}\n| {{verdict.icon}} | {{name}} | {{why}} | {{spark}} | {{latest}} | {{expected}} |\n{{/each}}\n{{#if attentionNote}}\n\n{{attentionNote}}\n{{/if}}\n{{#each charts}}\n\n**{{name}}**. {{legend}}\n\n```mermaid\n{{source}}\n```\n{{/each}}\n{{else}}\n\nNothing needs attention.\n{{/if}}\n{{#if others}}\n\n{{others}}\n{{/if}}\n{{#if caveats}}\n\n{{caveats}}\n{{/if}}\n\n{{falseAlarms}} {{caution}}\n{{#if omitted}}\n\n> \u2702\uFE0F {{omitted}}\n{{else}}\n\n{{fullReport}}\n{{/if}}\n\n<sub>{{generated}}</sub>\n";
+var brief_default = "## {{verdict.icon}} Leadline: {{verdict.label}}\n\n**{{headline}}** {{gate}}\n{{#if scope}}\n\n{{scope}}\n{{/if}}\n{{#each runNotes}}\n\n> {{this}}\n{{/each}}\n{{#if problems.length}}\n\n### Problems\n\n| Where | What went wrong |\n|---|---|\n{{#each problems}}\n| {{where}} | {{message}} |\n{{/each}}\n{{/if}}\n{{#if attention.length}}\n\n### Needs attention\n\n| | Metric | Why | Recent | Latest | Judged against |\n|---|---|---|---|---|---|\n{{#each attention}}\n| {{verdict.icon}} | {{name}} | {{why}} | {{spark}} | {{latest}} | {{expected}} |\n{{/each}}\n{{#if attentionNote}}\n\n{{attentionNote}}\n{{/if}}\n{{#each charts}}\n\n**{{name}}**. {{legend}}\n\n```mermaid\n{{source}}\n```\n{{/each}}\n{{else}}\n\nNothing needs attention.\n{{/if}}\n{{#if others}}\n\n{{others}}\n{{/if}}\n{{#if elsewhere}}\n\n{{elsewhere}}\n{{/if}}\n{{#if caveats}}\n\n{{caveats}}\n{{/if}}\n\n{{falseAlarms}} {{caution}}\n{{#if omitted}}\n\n> \u2702\uFE0F {{omitted}}\n{{else}}\n\n{{fullReport}}\n{{/if}}\n\n<sub>{{generated}}</sub>\n";
 
 // src/report/templates/report.hbs
-var report_default = "## {{verdict.icon}} Leadline: {{verdict.label}}\n\n**{{headline}}** {{gate}}\n{{#if scope}}\n\n{{scope}}\n{{/if}}\n\n{{counts}}\n\n{{falseAlarms}} {{caution}}\n{{#each runNotes}}\n\n> {{this}}\n{{/each}}\n{{#if problems.length}}\n\n### Problems\n\n| Where | What went wrong |\n|---|---|\n{{#each problems}}\n| {{where}} | {{message}} |\n{{/each}}\n{{/if}}\n\n### Needs attention\n\n{{#if attention.length}}\n| | Metric | Why | Recent | Latest | Judged against | Source |\n|---|---|---|---|---|---|---|\n{{#each attention}}\n| {{verdict.icon}} | {{name}} | {{why}} | {{spark}} | {{latest}} | {{expected}} | {{where}} |\n{{/each}}\n{{#if attentionNote}}\n\n{{attentionNote}}\n{{/if}}\n{{else}}\nNothing needs attention.\n{{/if}}\n{{#if caveats}}\n\n{{caveats}}\n{{/if}}\n{{#if charts.length}}\n\n### Charts\n{{#each charts}}\n\n**{{name}}**. {{legend}}\n\n```mermaid\n{{source}}\n```\n{{/each}}\n{{/if}}\n{{#if limits.length}}\n\n### Limits\n\n| | Metric | Limit | Window | Chance of crossing | Allowed | Forecast crosses | Bound crosses |\n|---|---|---|---|---|---|---|---|\n{{#each limits}}\n| {{verdict.icon}} | {{name}} | {{limit}} | {{within}} | {{chance}} | {{allowed}} | {{pointCrossing}} | {{boundCrossing}} |\n{{/each}}\n{{#if limitsNote}}\n\n{{limitsNote}}\n{{/if}}\n{{/if}}\n{{#if series.length}}\n\n### Every metric\n{{#each series}}\n{{> series}}\n{{/each}}\n{{/if}}\n{{#if omitted}}\n\n> \u2702\uFE0F {{omitted}}\n{{/if}}\n\n<sub>{{generated}}</sub>\n";
+var report_default = "## {{verdict.icon}} Leadline: {{verdict.label}}\n\n**{{headline}}** {{gate}}\n{{#if scope}}\n\n{{scope}}\n{{/if}}\n\n{{counts}}\n\n{{falseAlarms}} {{caution}}\n{{#each runNotes}}\n\n> {{this}}\n{{/each}}\n{{#if problems.length}}\n\n### Problems\n\n| Where | What went wrong |\n|---|---|\n{{#each problems}}\n| {{where}} | {{message}} |\n{{/each}}\n{{/if}}\n\n### Needs attention\n\n{{#if attention.length}}\n| | Metric | Why | Recent | Latest | Judged against | Source |\n|---|---|---|---|---|---|---|\n{{#each attention}}\n| {{verdict.icon}} | {{name}} | {{why}} | {{spark}} | {{latest}} | {{expected}} | {{where}} |\n{{/each}}\n{{#if attentionNote}}\n\n{{attentionNote}}\n{{/if}}\n{{else}}\nNothing needs attention.\n{{/if}}\n{{#if elsewhere}}\n\n{{elsewhere}}\n{{/if}}\n{{#if caveats}}\n\n{{caveats}}\n{{/if}}\n{{#if charts.length}}\n\n### Charts\n{{#each charts}}\n\n**{{name}}**. {{legend}}\n\n```mermaid\n{{source}}\n```\n{{/each}}\n{{/if}}\n{{#if limits.length}}\n\n### Limits\n\n| | Metric | Limit | Window | Chance of crossing | Allowed | Forecast crosses | Bound crosses |\n|---|---|---|---|---|---|---|---|\n{{#each limits}}\n| {{verdict.icon}} | {{name}} | {{limit}} | {{within}} | {{chance}} | {{allowed}} | {{pointCrossing}} | {{boundCrossing}} |\n{{/each}}\n{{#if limitsNote}}\n\n{{limitsNote}}\n{{/if}}\n{{/if}}\n{{#if series.length}}\n\n### Every metric\n{{#each series}}\n{{> series}}\n{{/each}}\n{{/if}}\n{{#if omitted}}\n\n> \u2702\uFE0F {{omitted}}\n{{/if}}\n\n<sub>{{generated}}</sub>\n";
 
 // src/report/templates/series.hbs
 var series_default = "\n<details>\n<summary>{{verdict.icon}} <b>{{name}}</b>: {{verdict.label}}{{#if reason}}. {{reason}}{{/if}}</summary>\n\n{{facts}}\n{{#if limit}}\n\n{{limit}}\n{{/if}}\n{{#if checked.length}}\n\n**Checked observations**\n\n| When | Value | Forecast | Interval | Result | p | z |\n|---|---|---|---|---|---|---|\n{{#each checked}}\n| {{where}} | {{value}} | {{expected}} | {{interval}} | {{#if alarm}}\u{1F534} {{/if}}{{result}} | {{p}} | {{z}} |\n{{/each}}\n{{/if}}\n{{#if forecast.length}}\n\n**Forecast**\n\n| Step | When | Forecast |{{#each forecastLevels}} {{this}} interval |{{/each}}\n|---|---|---|{{#each forecastLevels}}---|{{/each}}\n{{#each forecast}}\n| {{step}} | {{time}} | {{mean}} |{{#each bands}} {{this}} |{{/each}}\n{{/each}}\n{{#if forecastNote}}\n\n{{forecastNote}}\n{{/if}}\n{{/if}}\n{{#if backtest.length}}\n\n**Backtest of the candidates**\n\n| Method | | Score ({{backtestScore}}) | RMSE | MAE | MASE | MAPE | ME | Origins |\n|---|---|---|---|---|---|---|---|---|\n{{#each backtest}}\n| {{method}} | {{#if chosen}}\u2705 chosen{{/if}} | {{score}} | {{rmse}} | {{mae}} | {{mase}} | {{mape}} | {{me}} | {{origins}} |\n{{/each}}\n\nWhy this method: {{backtestReason}} {{backtestNote}}\n{{/if}}\n{{#if checks.length}}\n\n**Residual checks**\n\n| Check | Result | Statistic | p | What it means |\n|---|---|---|---|---|\n{{#each checks}}\n| {{name}} | {{mark}}{{result}} | {{statistic}} | {{p}} | {{finding}} |\n{{/each}}\n\n{{checksNote}}\n{{/if}}\n{{#if calibration.length}}\n\n**Calibration**\n\n| Interval kind | Level | Backtest coverage | Judgement |\n|---|---|---|---|\n{{#each calibration}}\n| {{kind}}{{#if used}} (used){{/if}} | {{level}} | {{coverage}} | {{judgement}} |\n{{/each}}\n\n{{calibrationNote}}\n{{/if}}\n{{#if chart}}\n\n{{chart.legend}}\n\n```mermaid\n{{chart.source}}\n```\n{{/if}}\n{{#if notes.length}}\n\n**Notes**\n\n{{#each notes}}\n- {{this}}\n{{/each}}\n{{/if}}\n\n</details>\n";
@@ -33253,14 +33334,14 @@ var VERDICT_LABEL = {
   ok: "steady",
   alarm: "out of line",
   "at-risk": "limit at risk",
-  "insufficient-data": "too short",
+  "too-short": "too short",
   error: "error"
 };
 var VERDICT_ICON = {
   ok: "\u{1F7E2}",
   alarm: "\u{1F534}",
   "at-risk": "\u{1F7E0}",
-  "insufficient-data": "\u26AA",
+  "too-short": "\u26AA",
   error: "\u26D4"
 };
 var METHOD_LABEL = {
@@ -33289,6 +33370,10 @@ var SPACING_WORD = {
   year: "yearly",
   row: "row order"
 };
+var REPORT_NAME_MAX = 200;
+function reportName(text2) {
+  return shorten(text2, REPORT_NAME_MAX);
+}
 
 // src/report/mermaid.ts
 var CHART_HISTORY = 30;
@@ -33417,6 +33502,9 @@ function sparkline(values, width = 20) {
 }
 
 // src/report/view.ts
+function shownName(text2) {
+  return escapeMarkdown(reportName(text2));
+}
 var FORECAST_ROWS = 24;
 var CHECKED_ROWS = 20;
 function verdictView(v) {
@@ -33479,7 +33567,7 @@ function attentionRow(s2, section) {
   const lastIsChecked = last !== void 0 && lastValue !== void 0 && last.index === lastValue.index;
   return {
     section,
-    name: escapeMarkdown(s2.name),
+    name: shownName(s2.name),
     verdict: verdictView(s2.verdict),
     why: escapeMarkdown(s2.reason) || escapeMarkdown(VERDICT_LABEL[s2.verdict]),
     spark: sparkline(s2.history.map((h) => h.value)),
@@ -33499,7 +33587,7 @@ function limitRow(s2) {
   if (!l) return null;
   const status = l.alreadyCrossed ? `already ${l.side} the limit` : l.atRisk ? "at risk" : "within the allowed risk";
   return {
-    name: escapeMarkdown(s2.name),
+    name: shownName(s2.name),
     verdict: verdictView(s2.verdict),
     limit: `${l.side} ${num(l.value, 6)}`,
     within: plural(l.within, STEP_UNIT[s2.spacing]),
@@ -33625,7 +33713,7 @@ function calibrationRows(s2) {
 }
 function facts(s2) {
   const parts = [`File ${escapeMarkdown(s2.file)}`, `column ${escapeMarkdown(s2.column)}`];
-  if (s2.key !== null) parts.push(`key ${escapeMarkdown(s2.key)}`);
+  if (s2.key !== null) parts.push(`key ${shownName(s2.key)}`);
   parts.push(plural(s2.observations, "observation"));
   if (s2.missing > 0) parts.push(`${s2.missing} missing`);
   parts.push(SPACING_WORD[s2.spacing]);
@@ -33656,7 +33744,7 @@ function seriesView(s2, section, chart) {
   const bt = s2.backtest;
   return {
     section,
-    name: escapeMarkdown(s2.name),
+    name: shownName(s2.name),
     verdict: verdictView(s2.verdict),
     reason: escapeMarkdown(s2.reason),
     attention: needsAttention(s2),
@@ -33694,10 +33782,40 @@ function chanceSentence(results) {
 }
 var NAMED = 5;
 function names(list) {
-  const shown2 = list.slice(0, NAMED).map((s2) => escapeMarkdown(s2.name));
+  const shown2 = list.slice(0, NAMED).map((s2) => shownName(s2.name));
   return list.length > NAMED ? `${shown2.join(", ")} and ${list.length - NAMED} more` : shown2.join(", ");
 }
-function othersLine(rest, afterAttention) {
+function scopeLine(results) {
+  const sc = results.scope;
+  const n = results.summary.checkedObservations;
+  if (!sc) return null;
+  if (sc.kind === "latest")
+    return n === 0 ? "No observation was checked." : `This run checks the newest ${plural(n, "observation")} of ${plural(results.series.length, "series", "series")}.`;
+  const grown = sc.files.filter((f2) => !f2.added && f2.rows > 0);
+  const added = sc.files.filter((f2) => f2.added);
+  const parts = grown.map((f2, i) => `${i === 0 ? plural(f2.rows, "row") : f2.rows} to ${escapeMarkdown(f2.file)}`);
+  const list = (xs) => xs.length <= 1 ? xs.join("") : `${xs.slice(0, -1).join(", ")} and ${xs.at(-1)}`;
+  const sentences = [];
+  if (parts.length > 0) sentences.push(`This pull request adds ${list(parts)}.`);
+  if (added.length > 0)
+    sentences.push(
+      `It adds the new metric ${added.length === 1 ? "file" : "files"} ${list(added.map((f2) => escapeMarkdown(f2.file)))}; only ${added.length === 1 ? "its" : "their"} last row is checked.`
+    );
+  if (sentences.length === 0) return "This pull request adds no row to any metric file: nothing was checked.";
+  if (sc.gate === "all") sentences.push("Every series is judged (pullRequestGate: all).");
+  return sentences.join(" ");
+}
+function elsewhereLine(unchanged) {
+  if (unchanged.length === 0) return null;
+  const atRisk = unchanged.filter((s2) => s2.limit?.atRisk);
+  const errors = unchanged.filter((s2) => s2.verdict === "error");
+  const parts = [`${plural(unchanged.length, "other series", "other series")} unchanged`];
+  if (atRisk.length > 0) parts.push(`${plural(atRisk.length, "limit")} at risk elsewhere: ${names(atRisk)}`);
+  if (errors.length > 0) parts.push(`${plural(errors.length, "error")} elsewhere: ${names(errors)}`);
+  return `${parts.join("; ")} (not judged in this pull request).`;
+}
+function othersLine(all, afterAttention) {
+  const rest = all.filter(isJudged);
   if (rest.length === 0) return null;
   const groups = /* @__PURE__ */ new Map();
   for (const s2 of rest) groups.set(s2.verdict, [...groups.get(s2.verdict) ?? [], s2]);
@@ -33725,7 +33843,7 @@ function buildView(results, opts = {}) {
   for (const s2 of [...attention, ...ordered.filter((s3) => !needsAttention(s3))]) {
     if (chartFor.size >= maxCharts) break;
     const c = mermaidChart(s2);
-    if (c) chartFor.set(s2, { section: section.get(s2), name: escapeMarkdown(s2.name), ...c });
+    if (c) chartFor.set(s2, { section: section.get(s2), name: shownName(s2.name), ...c });
   }
   const charts = attention.map((s2) => chartFor.get(s2)).filter((c) => c !== void 0);
   const sum = results.summary;
@@ -33734,7 +33852,7 @@ function buildView(results, opts = {}) {
     ok: sum.checkedObservations > 0 ? "Every checked observation is within its interval and no limit is at risk." : "No observation was checked and no limit is at risk.",
     alarm: `${plural(sum.alarms, "observation")} outside what history predicts.`,
     "at-risk": `${plural(sum.atRisk, "limit")} at risk of being crossed.`,
-    "insufficient-data": `Every series is ${VERDICT_LABEL["insufficient-data"]} to judge yet.`,
+    "too-short": `Every series is ${VERDICT_LABEL["too-short"]} to judge yet.`,
     error: `${plural(sum.errors, "series", "series")} could not be analysed.`
   }[results.verdict];
   const countParts = [
@@ -33744,7 +33862,7 @@ function buildView(results, opts = {}) {
     plural(sum.alarms, "alarm"),
     `${sum.atRisk} at risk`
   ];
-  if (sum.insufficient > 0) countParts.push(`${sum.insufficient} ${VERDICT_LABEL["insufficient-data"]}`);
+  if (sum.insufficient > 0) countParts.push(`${sum.insufficient} ${VERDICT_LABEL["too-short"]}`);
   if (sum.errors > 0) countParts.push(`${plural(sum.errors, "error")}`);
   const falseAlarms2 = chanceSentence(results);
   const limits = ordered.map(limitRow).filter((r) => r !== null);
@@ -33776,8 +33894,9 @@ function buildView(results, opts = {}) {
       ordered.filter((s2) => !needsAttention(s2)),
       attention.length > 0
     ),
+    elsewhere: elsewhereLine(ordered.filter((s2) => !isJudged(s2))),
     caveats: caveatsLine(ordered),
-    scope: null,
+    scope: scopeLine(results),
     fullReport: opts.fullReportNote ?? "The results JSON has every series in full."
   };
 }
@@ -37637,7 +37756,7 @@ function fanChart(s2, id) {
   }
   const xe = extent(xs);
   const ye = extent(ys);
-  const title = `${s2.name}: history and forecast`;
+  const title = `${reportName(s2.name)}: history and forecast`;
   if (!xe || !ye) {
     return `${svgOpen(id, 60, title, "No values to draw.", "fan")}<text class="empty" x="${W / 2}" y="34" text-anchor="middle">No values to draw.</text></svg>`;
   }
@@ -37721,7 +37840,7 @@ function sampleSd(xs) {
   return { mean, sd };
 }
 function spreadChart(s2, id) {
-  const title = `${s2.name}: spread of the residuals over time`;
+  const title = `${reportName(s2.name)}: spread of the residuals over time`;
   const pts = residualPoints(s2);
   if (pts.length < 6) return emptyHalf(id, title, "Too few residuals to compare thirds.", "spread");
   const height = 200;
@@ -37756,7 +37875,7 @@ function spreadChart(s2, id) {
   ).join("") + `<text class="tick" x="${HALF - m.right}" y="${height - 8}" text-anchor="end">time \u2192</text></g></svg>`;
 }
 function qqChart(s2, id) {
-  const title = `${s2.name}: residuals against normal quantiles`;
+  const title = `${reportName(s2.name)}: residuals against normal quantiles`;
   const r = s2.residuals.filter(isNum);
   if (r.length < 3) return emptyHalf(id, title, "Too few residuals for a Q\u2013Q plot.", "qq");
   const { mean, sd } = sampleSd(r);
@@ -37782,7 +37901,7 @@ function qqChart(s2, id) {
   ).join("") + `<text class="tick" x="${HALF - m.right}" y="${height - 4}" text-anchor="end">normal quantile</text><text class="tick" x="${m.left + 4}" y="${m.top + 4}">residual (sd units)</text></g></svg>`;
 }
 function ljungBoxChart(s2, id) {
-  const title = `${s2.name}: Ljung\u2013Box p-value by number of lags`;
+  const title = `${reportName(s2.name)}: Ljung\u2013Box p-value by number of lags`;
   const c = s2.residualChecks;
   const lb = c?.ljungBox;
   const acf = c?.acf ?? [];
@@ -37836,7 +37955,7 @@ function residualCount(q, acf) {
 function backtestChart(s2, id) {
   const bt = s2.backtest;
   const rows = bt ? Object.entries(bt.methods).filter(([, b]) => b && isNum(b.score)).map(([m, b]) => ({ m, score: Math.abs(b.score), chosen: m === s2.method })).sort((a2, b) => a2.score - b.score) : [];
-  const title = `${s2.name}: backtest comparison`;
+  const title = `${reportName(s2.name)}: backtest comparison`;
   if (!bt || rows.length === 0)
     return `${svgOpen(id, 60, title, "No backtest to draw.", "bt")}<text class="empty" x="${W / 2}" y="34" text-anchor="middle">No backtest scores.</text></svg>`;
   const rowH = 24;
@@ -37878,7 +37997,7 @@ h1{font-size:1.6rem;margin:0 0 4px}h2{font-size:1.25rem;margin:0 0 6px}h3{font-s
 a{color:inherit}
 .muted,.facts,.note{color:var(--muted)}.facts{font-size:.9rem}
 .badge{display:inline-block;padding:1px 8px;border-radius:10px;font-size:.8rem;font-weight:600;border:1px solid currentColor;white-space:nowrap}
-.v-ok{color:var(--ok)}.v-alarm{color:var(--alarm)}.v-at-risk{color:var(--risk)}.v-insufficient-data{color:var(--na)}.v-error{color:var(--alarm)}
+.v-ok{color:var(--ok)}.v-alarm{color:var(--alarm)}.v-at-risk{color:var(--risk)}.v-too-short{color:var(--na)}.v-error{color:var(--alarm)}
 .caution{border-left:4px solid var(--risk);padding:6px 12px;background:var(--card);margin:12px 0}
 table{border-collapse:collapse;width:100%;margin:6px 0 10px;font-size:.88rem;background:var(--card)}
 th,td{border:1px solid var(--line);padding:4px 8px;text-align:left;vertical-align:top}
@@ -37936,7 +38055,7 @@ function metricSection(s2, v, id) {
   const out = [];
   out.push(`<details class="metric" id="${id}"${v.attention ? " open" : ""}>`);
   out.push(
-    `<summary><h2>${escapeHtml(s2.name)} ${badge(s2.verdict)}</h2>${s2.reason ? ` <span class="why">${escapeHtml(s2.reason)}</span>` : ""}</summary>`
+    `<summary><h2>${escapeHtml(reportName(s2.name))} ${badge(s2.verdict)}</h2>${s2.reason ? ` <span class="why">${escapeHtml(s2.reason)}</span>` : ""}</summary>`
   );
   out.push(`<p class="facts">${v.facts}</p>`);
   out.push(
@@ -38030,7 +38149,7 @@ function renderHtml(results) {
   const overview = table(
     ["Metric", "Verdict", "Why", "Method", "Checked", "Limit risk"],
     ordered.map((s2, i) => [
-      i < shown2 ? `<a href="#${id(i)}">${escapeHtml(s2.name)}</a>` : escapeHtml(s2.name),
+      i < shown2 ? `<a href="#${id(i)}">${escapeHtml(reportName(s2.name))}</a>` : escapeHtml(reportName(s2.name)),
       badge(s2.verdict),
       escapeHtml(s2.reason),
       escapeHtml(s2.method ? METHOD_LABEL[s2.method] ?? s2.method : "n/a"),
@@ -38578,6 +38697,7 @@ async function mergeResults(files, o) {
     ...concluded,
     problems,
     ...first.notes ? { notes: first.notes } : {},
+    ...first.scope ? { scope: mergedScope(heads.map((h) => h.scope)) } : {},
     series: settledSeries
   };
   async function* fullSeries() {
@@ -38637,6 +38757,114 @@ var systemGit = {
     });
   }
 };
+function missingBaseNote(baseSha, detail) {
+  const what = baseSha ? `The pull request's base commit ${baseSha.slice(0, 12)} is not in this clone` : `The event payload names no base commit for the pull request`;
+  return `${what}${detail ? ` (${detail})` : ""}, so the rows the pull request adds could not be told apart: the last observations of each series were checked instead (check.last). To check exactly the new rows, fetch the history: \`actions/checkout\` with \`fetch-depth: 0\`.`;
+}
+function countLines(bytes) {
+  let n = 0;
+  for (let i = bytes.indexOf(10); i !== -1; i = bytes.indexOf(10, i + 1)) n++;
+  if (bytes.length > 0 && bytes[bytes.length - 1] !== 10) n++;
+  return n;
+}
+function parseBatch(out, requests) {
+  const res = [];
+  let at = 0;
+  while (res.length < requests && at < out.length) {
+    const eol = out.indexOf(10, at);
+    if (eol === -1) break;
+    const header = out.subarray(at, eol).toString("utf8");
+    at = eol + 1;
+    const m = /^[0-9a-f]+ (\S+) (\d+)$/.exec(header);
+    if (!m) {
+      res.push(null);
+      continue;
+    }
+    const size = Number(m[2]);
+    res.push(m[1] === "blob" ? out.subarray(at, at + size) : null);
+    at += size + 1;
+  }
+  while (res.length < requests) res.push(null);
+  return res;
+}
+function firstLine3(s2) {
+  return s2.trim().split("\n")[0] ?? "";
+}
+async function compareWithBase(git, cwd, baseSha) {
+  if (!baseSha) return { ok: false, note: missingBaseNote(null) };
+  const exists = await git.run(["cat-file", "-e", `${baseSha}^{commit}`], { cwd });
+  if (exists.code === -1)
+    return { ok: false, note: missingBaseNote(baseSha, `git is not available: ${exists.stderr}`) };
+  if (exists.code !== 0 && /not a git repository/i.test(exists.stderr))
+    return {
+      ok: false,
+      note: missingBaseNote(
+        baseSha,
+        "the working directory is not a git checkout: run actions/checkout first"
+      )
+    };
+  if (exists.code !== 0) return { ok: false, note: missingBaseNote(baseSha) };
+  const diffArgs = (range2) => [
+    "-c",
+    "core.quotepath=off",
+    "diff",
+    "--name-status",
+    "-z",
+    "--no-renames",
+    "--diff-filter=AM",
+    "--relative",
+    ...range2,
+    "--"
+  ];
+  let diff = await git.run(diffArgs([`${baseSha}...HEAD`]), { cwd });
+  if (diff.code !== 0) diff = await git.run(diffArgs([baseSha, "HEAD"]), { cwd });
+  if (diff.code !== 0)
+    return { ok: false, note: missingBaseNote(baseSha, `git diff failed: ${firstLine3(diff.stderr)}`) };
+  const fields = diff.stdout.toString("utf8").split("\0");
+  const changed = [];
+  for (let i = 0; i + 1 < fields.length; i += 2) {
+    const status = fields[i];
+    const file = fields[i + 1];
+    if (status && file) changed.push({ status: status[0], file });
+  }
+  if (changed.length === 0) return { ok: true, newRows: {}, added: [] };
+  const baseIds = await treeIds(git, cwd, baseSha);
+  const headIds = changed.some((c) => c.status === "A") ? await treeIds(git, cwd, "HEAD") : /* @__PURE__ */ new Map();
+  if (baseIds === null || headIds === null)
+    return { ok: false, note: missingBaseNote(baseSha, "git ls-tree failed") };
+  const ids = changed.map((c) => (c.status === "A" ? headIds : baseIds).get(c.file) ?? null);
+  const requests = ids.filter((id) => id !== null);
+  const batch = requests.length === 0 ? { code: 0, stdout: Buffer.alloc(0), stderr: "" } : await git.run(["cat-file", "--batch"], { cwd, input: requests.join("\n") + "\n" });
+  if (batch.code !== 0)
+    return { ok: false, note: missingBaseNote(baseSha, `git cat-file failed: ${firstLine3(batch.stderr)}`) };
+  const blobs = parseBatch(batch.stdout, requests.length);
+  const newRows = {};
+  const added = [];
+  let next = 0;
+  changed.forEach((c, i) => {
+    if (ids[i] === null) return;
+    const blob = blobs[next++];
+    if (!blob) return;
+    const key = c.file.split("\\").join("/");
+    if (c.status === "A") {
+      added.push(key);
+      newRows[key] = Math.max(0, countLines(blob) - 1);
+    } else newRows[key] = countLines(blob);
+  });
+  return { ok: true, newRows, added };
+}
+async function treeIds(git, cwd, rev) {
+  const r = await git.run(["-c", "core.quotepath=off", "ls-tree", "-r", "-z", rev, "--", "."], { cwd });
+  if (r.code !== 0) return null;
+  const ids = /* @__PURE__ */ new Map();
+  for (const entry of r.stdout.toString("utf8").split("\0")) {
+    const tab = entry.indexOf("	");
+    if (tab < 0) continue;
+    const [, type, id] = entry.slice(0, tab).split(" ");
+    if (type === "blob" && id) ids.set(entry.slice(tab + 1), id);
+  }
+  return ids;
+}
 async function headCommit(git, cwd) {
   const r = await git.run(["rev-parse", "--verify", "--quiet", "HEAD^{commit}"], { cwd });
   const sha = r.stdout.toString("utf8").trim();
@@ -38659,6 +38887,10 @@ Options for run:
   --markdown FILE      write the markdown report to FILE
   --html FILE          write the self-contained HTML report to FILE
   --template FILE      render the markdown report with this handlebars template instead of the built-in one
+  --base REF           judge what changed since REF (a commit or branch), as the Action does for a
+                       pull request: only the rows added to metric files since REF, and only their
+                       series gate the run
+  --comment FILE       write the brief markdown report a pull-request comment shows to FILE
   --fail-on LIST       what fails the run: alarm, limit, alarm,limit (or both), never (default both:
                        any alarm or limit at risk); errors fail it under every value, never included
   --print MODE         what to print on stdout: summary (default), markdown, json, none
@@ -38709,6 +38941,8 @@ function parseCli(argv, env, cwd, isTTY) {
     html: v.html ?? null,
     template: v.template ?? null,
     failOn: parseFailOn(v["fail-on"] ?? FAIL_ON_DEFAULT.command, "command"),
+    base: v.base ?? null,
+    comment: v.comment ?? null,
     print: parsePrint(v.print ?? "summary"),
     color: v["no-color"] ? false : v.color ? true : isTTY && !env.NO_COLOR,
     progress: !v.quiet,
@@ -38769,6 +39003,8 @@ var OPTIONS = {
   html: { type: "string" },
   template: { type: "string" },
   "fail-on": { type: "string" },
+  base: { type: "string" },
+  comment: { type: "string" },
   print: { type: "string" },
   color: { type: "boolean" },
   "no-color": { type: "boolean" },
@@ -38796,7 +39032,7 @@ var COLOUR = {
   ok: "green",
   alarm: "red",
   "at-risk": "yellow",
-  "insufficient-data": "dim",
+  "too-short": "dim",
   error: "red"
 };
 var WORD_WIDTH = Math.max(...Object.values(VERDICT_LABEL).map((w) => w.length));
@@ -38859,7 +39095,8 @@ async function main(argv, given) {
     const outputs = [
       [settings.json, "--json"],
       [settings.markdown, "--markdown"],
-      [settings.html, "--html"]
+      [settings.html, "--html"],
+      [settings.comment, "--comment"]
     ].flatMap(([p, label]) => p ? [{ path: path7.resolve(io.cwd, p), label }] : []);
     out = settings.command === "merge" ? await merge2(settings, io, outputs) : await run(settings, io, outputs);
     const results = out.lean;
@@ -38875,6 +39112,13 @@ async function main(argv, given) {
       await writeOutput(path7.resolve(io.cwd, settings.markdown), await markdown(), out.inputs, "--markdown");
     if (settings.html)
       await writeOutput(path7.resolve(io.cwd, settings.html), renderHtml(await whole()), out.inputs, "--html");
+    if (settings.comment)
+      await writeOutput(
+        path7.resolve(io.cwd, settings.comment),
+        renderMarkdown(await whole(), { detail: "brief", fullReportNote: fullNote(settings) }),
+        out.inputs,
+        "--comment"
+      );
     if (settings.shard && results.origin.shard) {
       const sh = results.origin.shard;
       io.stderr.write(
@@ -38883,8 +39127,17 @@ async function main(argv, given) {
       );
       if (settings.print === "summary") return 0;
     }
-    if (settings.print === "summary") io.stdout.write(renderSummary(results, settings.color));
-    else if (settings.print === "markdown") io.stdout.write(await markdown());
+    if (settings.print === "summary") {
+      io.stdout.write(renderSummary(results, settings.color));
+      for (const [p, what] of [
+        [settings.comment, "Comment (brief markdown)"],
+        [settings.markdown, "Full markdown report"],
+        [settings.html, "HTML report"],
+        [settings.json, "Results JSON"]
+      ])
+        if (p) io.stdout.write(`${what}: ${p}
+`);
+    } else if (settings.print === "markdown") io.stdout.write(await markdown());
     else if (settings.print === "json") for await (const piece of out.json()) io.stdout.write(piece);
   } catch (e) {
     return fail(e, io);
@@ -38893,16 +39146,35 @@ async function main(argv, given) {
   if (out.lean.problems.length > 0) return 2;
   return out.lean.gate.passed ? 0 : 1;
 }
+async function changedSince(cwd, ref) {
+  if (ref.startsWith("-"))
+    throw new LeadlineError("usage", `--base: "${ref}" is not a commit or branch name.`);
+  const rev = await systemGit.run(
+    ["rev-parse", "--verify", "--quiet", "--end-of-options", `${ref}^{commit}`],
+    { cwd }
+  );
+  const sha = rev.code === 0 ? rev.stdout.toString("utf8").trim() : "";
+  if (!/^[0-9a-f]{40,64}$/.test(sha))
+    throw new LeadlineError(
+      "usage",
+      rev.code === -1 ? `--base: git is not available (${rev.stderr.trim()}).` : `--base: "${ref}" is not a commit or branch of the repository at ${cwd}.`
+    );
+  const cmp = await compareWithBase(systemGit, cwd, sha);
+  if (!cmp.ok) throw new LeadlineError("usage", `--base: ${cmp.note}`);
+  return { newRows: cmp.newRows, added: cmp.added };
+}
 async function run(settings, io, outputs) {
   const cwd = path7.resolve(io.cwd, settings.cwd);
   const before = await inputGuard(cwd, settings.config);
   checkOutputs(outputs, before);
   let lastShown = 0;
   const started = Date.now();
+  const since = settings.base ? await changedSince(cwd, settings.base) : null;
   const results = await runJob({
     cwd,
     configPath: settings.config,
     failOn: settings.failOn,
+    ...since ? { newRows: since.newRows, addedFiles: since.added } : {},
     shard: settings.shard,
     jobs: settings.jobs,
     fullHistory: settings.fullHistory,

@@ -48253,7 +48253,7 @@ function numberToMs(v, unit2) {
 }
 
 // src/terms.ts
-var VERDICTS = ["ok", "alarm", "at-risk", "insufficient-data", "error"];
+var VERDICTS = ["ok", "alarm", "at-risk", "too-short", "error"];
 var DIRECTIONS = ["above", "below", "both"];
 var FALSE_ALARM_CONTROLS = ["none", "bonferroni", "fdr"];
 var SPACINGS = ["minute", "hour", "day", "week", "month", "quarter", "year", "row"];
@@ -48377,6 +48377,10 @@ var configSchema = strictObject({
     default: 1
   }),
   defaults: defaultsSchema.optional(),
+  pullRequestGate: _enum(["changed", "all"]).optional().meta({
+    description: 'In a pull request, which series are judged and can fail the gate: "changed" (the series of the files the pull request changes; the others are one line of context) or "all". Push, schedule and manual runs judge every series.',
+    default: "changed"
+  }),
   metrics: array(metricSchema).min(1).meta({ description: "The metrics to watch." })
 }).meta({
   title: "Leadline configuration",
@@ -48563,7 +48567,13 @@ function parsePlan(text2, configPath) {
     if (plan) metrics.push(plan);
   });
   if (problems.length > 0) report2(doc, lc, problems, file);
-  return { configPath, version: 1, metrics, falseAlarms: falseAlarms2 };
+  return {
+    configPath,
+    version: 1,
+    metrics,
+    falseAlarms: falseAlarms2,
+    pullRequestGate: config2.pullRequestGate ?? "changed"
+  };
 }
 function buildMetric(m, d, base, line2, falseAlarms2, problems) {
   const pick2 = (k2) => m[k2] !== void 0 ? m[k2] : d[k2];
@@ -49727,7 +49737,9 @@ function runResidualTests(fit, lags) {
   } else {
     const bf = brownForsythe(d.subarray(0, third), d.subarray(n - third));
     const df2 = 2 * third - 2;
-    if (!(bf.ssw > 0)) {
+    if (!Number.isFinite(bf.first) || !Number.isFinite(bf.last) || !Number.isFinite(bf.ssw)) {
+      spread = notComputed(spreadName, NOT_FINITE, df2);
+    } else if (!(bf.ssw > 0)) {
       const grown = bf.last > bf.first;
       spread = {
         ...notComputed(spreadName, "the first and last thirds of the residuals do not vary in spread.", df2),
@@ -49747,7 +49759,8 @@ function runResidualTests(fit, lags) {
       });
     }
   }
-  const flagged = holm(family);
+  const computed = finiteOnly(family);
+  const flagged = holm(computed);
   return {
     acf,
     acfBound: n > 0 ? 1.96 / Math.sqrt(n) : NaN,
@@ -49755,9 +49768,17 @@ function runResidualTests(fit, lags) {
     bias,
     normality,
     spread,
-    family: family.length,
+    family: computed.length,
     caveat: flagged || [ljungBox, bias, normality, spread].some((t) => !t.ok)
   };
+}
+var NOT_FINITE = "the residuals are too large for double-precision arithmetic (the statistic is not finite).";
+function finiteOnly(family) {
+  return family.filter(({ test }) => {
+    if (Number.isFinite(test.statistic) && Number.isFinite(test.pValue)) return true;
+    Object.assign(test, notComputed(test.name, NOT_FINITE, test.df));
+    return false;
+  });
 }
 function holm(family) {
   const m = family.length;
@@ -51345,7 +51366,7 @@ function timeAfterLast(s2, step) {
 }
 
 // src/verdict.ts
-var SEVERITY = ["error", "alarm", "at-risk", "ok", "insufficient-data"];
+var SEVERITY = ["error", "alarm", "at-risk", "ok", "too-short"];
 function severityRank(v) {
   return SEVERITY.indexOf(v);
 }
@@ -51372,11 +51393,18 @@ function seriesVerdict(r) {
   }
   const verdict = alarms.length > 0 ? "alarm" : r.limit?.atRisk ? "at-risk" : "ok";
   if (parts.length > 0) return { verdict, reason: parts.join("; ") };
-  if (r.checked.length > 0)
-    return {
-      verdict,
-      reason: `${plural(r.checked.length, "checked observation")} within the ${r.alarmLevel}% interval`
-    };
+  if (r.checked.length > 0) {
+    const outside = r.checked.filter((c) => c.outside).length;
+    const inside2 = r.checked.length - outside;
+    const said = [];
+    if (inside2 > 0)
+      said.push(`${plural(inside2, "checked observation")} within the ${r.alarmLevel}% interval`);
+    if (outside > 0)
+      said.push(
+        `${outside} outside it on ${r.direction === "both" ? "a side, but not an alarm after the false-alarm adjustment" : `the side that is not watched (watching ${r.direction})`}`
+      );
+    return { verdict, reason: said.join("; ") };
+  }
   return { verdict, reason: "No observation was checked." };
 }
 var CHECK_KEYS = ["ljungBox", "bias", "normality", "spread"];
@@ -51386,7 +51414,10 @@ function failedCheckKeys(s2) {
   return CHECK_KEYS.filter((k2) => c[k2] && c[k2].ok === false);
 }
 function needsAttention(s2) {
-  return verdictNeedsAttention(s2.verdict);
+  return isJudged(s2) && verdictNeedsAttention(s2.verdict);
+}
+function isJudged(s2) {
+  return s2.judged !== false;
 }
 function verdictNeedsAttention(v) {
   return v === "alarm" || v === "at-risk" || v === "error";
@@ -51442,7 +51473,7 @@ function decideGate(failOn, s2) {
 var HISTORY_CAP = 60;
 function draftOf(r) {
   const { verdict, reason, position, ...findings } = r;
-  const decided = verdict === "error" || verdict === "insufficient-data" ? { verdict, reason } : null;
+  const decided = verdict === "error" || verdict === "too-short" ? { verdict, reason } : null;
   return { findings, decided, ...position !== void 0 ? { position } : {} };
 }
 function seriesName(m, column, key) {
@@ -51555,18 +51586,50 @@ function concludeRun(drafts, o) {
       ...d.position !== void 0 ? { position: d.position } : {}
     };
   });
+  const judged = series.filter(isJudged);
   const summary2 = {
     metrics: o.metrics,
     series: series.length,
     alarms: alarms.alarms,
-    atRisk: series.filter((r) => r.limit?.atRisk).length,
-    insufficient: series.filter((r) => r.verdict === "insufficient-data").length,
-    errors: series.filter((r) => r.verdict === "error").length,
+    atRisk: judged.filter((r) => r.limit?.atRisk).length,
+    insufficient: judged.filter((r) => r.verdict === "too-short").length,
+    errors: judged.filter((r) => r.verdict === "error").length,
     checkedObservations: alarms.checkedObservations,
     expectedFalseAlarms: alarms.expectedFalseAlarms,
     falseAlarms: o.falseAlarms
   };
-  return { verdict: runVerdict(series), gate: decideGate(o.failOn, summary2), summary: summary2, series };
+  return { verdict: runVerdict(judged), gate: decideGate(o.failOn, summary2), summary: summary2, series };
+}
+function pullRequestScope(drafts, gate, newRows, addedFiles = []) {
+  if (!newRows) return { kind: "latest", files: [], gate: "all" };
+  const lastRow = /* @__PURE__ */ new Map();
+  for (const { findings: r } of drafts) {
+    const changed = Object.hasOwn(newRows, r.file);
+    if (gate === "changed") r.judged = changed;
+    const row = r.history.at(-1)?.row ?? null;
+    if (row !== null && changed) lastRow.set(r.file, Math.max(row, lastRow.get(r.file) ?? 0));
+  }
+  const added = new Set(addedFiles);
+  const files = [...lastRow.entries()].map(([file, row]) => ({
+    file,
+    rows: Math.max(0, row - newRows[file]),
+    added: added.has(file)
+  }));
+  return { kind: "pull-request", files: byFile(files), gate };
+}
+function mergedScope(scopes) {
+  const known = scopes.filter((x2) => x2 !== void 0);
+  if (known.length === 0) return void 0;
+  const files = /* @__PURE__ */ new Map();
+  for (const sc of known)
+    for (const f2 of sc.files) {
+      const had = files.get(f2.file);
+      files.set(f2.file, had ? { ...had, rows: Math.max(had.rows, f2.rows), added: had.added || f2.added } : f2);
+    }
+  return { kind: known[0].kind, files: byFile([...files.values()]), gate: known[0].gate };
+}
+function byFile(files) {
+  return files.sort((a2, b) => a2.file < b.file ? -1 : a2.file > b.file ? 1 : 0);
 }
 function chartData(s2, a2, firstChecked, notes2, cap) {
   const start2 = Math.max(0, Math.min(s2.values.length - cap, firstChecked ?? Infinity));
@@ -51865,7 +51928,13 @@ var seriesResultSchema = strictObject({
   reason: text(),
   notes,
   /** Only in a shard's file: the series' place (0-based) in the whole run's order, which merge restores. */
-  position: count.optional()
+  position: count.optional(),
+  /**
+   * Whether this series is judged (its verdict counts for the run and the gate). False only in a
+   * pull request for a series whose file the pull request leaves alone (with `pullRequestGate:
+   * changed`); absent in files written before this field, meaning judged.
+   */
+  judged: boolean2().optional()
 });
 var problemSchema = strictObject({
   kind: _enum(["config", "data", "internal"]),
@@ -51918,7 +51987,17 @@ var resultsHeadSchema = strictObject({
   summary: summarySchema,
   problems: array(problemSchema).max(MAX_POINTS),
   /** Run-wide notes, e.g. that a pull request's base commit was not in the clone. */
-  notes: notes.optional()
+  notes: notes.optional(),
+  /**
+   * What the run checked. `pull-request`: the rows each changed metric file gained over the base
+   * commit (`added` lists files new in the pull request, of which only the last row is checked) and
+   * which series the gate judged; `latest`: the newest observations of every series.
+   */
+  scope: strictObject({
+    kind: _enum(["pull-request", "latest"]),
+    files: array(strictObject({ file: text(), rows: count, added: boolean2() })).max(MAX_POINTS),
+    gate: _enum(["changed", "all"])
+  }).optional()
 });
 var resultsSchema = resultsHeadSchema.extend({ series: array(seriesResultSchema).max(1e7) }).meta({
   $id: RESULTS_SCHEMA_ID,
@@ -52286,6 +52365,7 @@ async function mergeResults(files, o) {
     ...concluded,
     problems,
     ...first.notes ? { notes: first.notes } : {},
+    ...first.scope ? { scope: mergedScope(heads.map((h) => h.scope)) } : {},
     series: settledSeries
   };
   async function* fullSeries() {
@@ -54864,7 +54944,7 @@ function tooFew(message, file) {
   return e;
 }
 function verdictOf(e) {
-  return insufficient.has(e) ? "insufficient-data" : "error";
+  return insufficient.has(e) ? "too-short" : "error";
 }
 function columnList(header) {
   return header.length === 0 ? "(none)" : header.map((h) => visible(JSON.stringify(shorten(h)))).join(", ");
@@ -55034,7 +55114,7 @@ function buildMetric2(m, t, multi, series, failures, configPath) {
   if (t.header === null) {
     fail(
       new LeadlineError("data", "The file is empty: no header row and no data.", { file: t.file, line: 1 }),
-      "insufficient-data"
+      "too-short"
     );
     return;
   }
@@ -55079,7 +55159,7 @@ function buildMetric2(m, t, multi, series, failures, configPath) {
         file: t.file,
         line: t.headerLine
       }),
-      "insufficient-data"
+      "too-short"
     );
     return;
   }
@@ -55370,6 +55450,7 @@ function finishResults(plan, outcome, analysed, o) {
     const p = problemOf(f2);
     return p && shard ? { ...p, position: i } : p;
   }).filter((p) => p !== null);
+  const scope = pullRequestScope(drafts, plan.pullRequestGate, o.newRows, o.addedFiles);
   const { series, verdict, gate, summary: summary2 } = concludeRun(drafts, {
     metrics: plan.metrics.length,
     falseAlarms: plan.falseAlarms,
@@ -55394,6 +55475,7 @@ function finishResults(plan, outcome, analysed, o) {
     problems
   };
   if (o.baseNote) out.notes = [o.baseNote];
+  out.scope = scope;
   return out;
 }
 function analyseSeries(s2, m, o) {
@@ -55426,7 +55508,7 @@ function analyseSeries(s2, m, o) {
   if (!a2.ok)
     return {
       findings: { ...base, notes: [...notes2, ...a2.notes] },
-      decided: { verdict: "insufficient-data", reason: a2.reason }
+      decided: { verdict: "too-short", reason: a2.reason }
     };
   notes2.push(...a2.notes.filter((n) => !notes2.includes(n)));
   const scope = checkScope(s2, m.check.last, o.newRows);
@@ -55481,14 +55563,14 @@ var VERDICT_LABEL = {
   ok: "steady",
   alarm: "out of line",
   "at-risk": "limit at risk",
-  "insufficient-data": "too short",
+  "too-short": "too short",
   error: "error"
 };
 var VERDICT_ICON = {
   ok: "\u{1F7E2}",
   alarm: "\u{1F534}",
   "at-risk": "\u{1F7E0}",
-  "insufficient-data": "\u26AA",
+  "too-short": "\u26AA",
   error: "\u26D4"
 };
 var METHOD_LABEL = {
@@ -55517,15 +55599,19 @@ var SPACING_WORD = {
   year: "yearly",
   row: "row order"
 };
+var REPORT_NAME_MAX = 200;
+function reportName(text2) {
+  return shorten(text2, REPORT_NAME_MAX);
+}
 
 // src/report/markdown.ts
 var import_handlebars = __toESM(require_lib(), 1);
 
 // src/report/templates/brief.hbs
-var brief_default = "## {{verdict.icon}} Leadline: {{verdict.label}}\n\n**{{headline}}** {{gate}}\n{{#if scope}}\n\n{{scope}}\n{{/if}}\n{{#each runNotes}}\n\n> {{this}}\n{{/each}}\n{{#if problems.length}}\n\n### Problems\n\n| Where | What went wrong |\n|---|---|\n{{#each problems}}\n| {{where}} | {{message}} |\n{{/each}}\n{{/if}}\n{{#if attention.length}}\n\n### Needs attention\n\n| | Metric | Why | Recent | Latest | Judged against |\n|---|---|---|---|---|---|\n{{#each attention}}\n| {{verdict.icon}} | {{name}} | {{why}} | {{spark}} | {{latest}} | {{expected}} |\n{{/each}}\n{{#if attentionNote}}\n\n{{attentionNote}}\n{{/if}}\n{{#each charts}}\n\n**{{name}}**. {{legend}}\n\n```mermaid\n{{source}}\n```\n{{/each}}\n{{else}}\n\nNothing needs attention.\n{{/if}}\n{{#if others}}\n\n{{others}}\n{{/if}}\n{{#if caveats}}\n\n{{caveats}}\n{{/if}}\n\n{{falseAlarms}} {{caution}}\n{{#if omitted}}\n\n> \u2702\uFE0F {{omitted}}\n{{else}}\n\n{{fullReport}}\n{{/if}}\n\n<sub>{{generated}}</sub>\n";
+var brief_default = "## {{verdict.icon}} Leadline: {{verdict.label}}\n\n**{{headline}}** {{gate}}\n{{#if scope}}\n\n{{scope}}\n{{/if}}\n{{#each runNotes}}\n\n> {{this}}\n{{/each}}\n{{#if problems.length}}\n\n### Problems\n\n| Where | What went wrong |\n|---|---|\n{{#each problems}}\n| {{where}} | {{message}} |\n{{/each}}\n{{/if}}\n{{#if attention.length}}\n\n### Needs attention\n\n| | Metric | Why | Recent | Latest | Judged against |\n|---|---|---|---|---|---|\n{{#each attention}}\n| {{verdict.icon}} | {{name}} | {{why}} | {{spark}} | {{latest}} | {{expected}} |\n{{/each}}\n{{#if attentionNote}}\n\n{{attentionNote}}\n{{/if}}\n{{#each charts}}\n\n**{{name}}**. {{legend}}\n\n```mermaid\n{{source}}\n```\n{{/each}}\n{{else}}\n\nNothing needs attention.\n{{/if}}\n{{#if others}}\n\n{{others}}\n{{/if}}\n{{#if elsewhere}}\n\n{{elsewhere}}\n{{/if}}\n{{#if caveats}}\n\n{{caveats}}\n{{/if}}\n\n{{falseAlarms}} {{caution}}\n{{#if omitted}}\n\n> \u2702\uFE0F {{omitted}}\n{{else}}\n\n{{fullReport}}\n{{/if}}\n\n<sub>{{generated}}</sub>\n";
 
 // src/report/templates/report.hbs
-var report_default = "## {{verdict.icon}} Leadline: {{verdict.label}}\n\n**{{headline}}** {{gate}}\n{{#if scope}}\n\n{{scope}}\n{{/if}}\n\n{{counts}}\n\n{{falseAlarms}} {{caution}}\n{{#each runNotes}}\n\n> {{this}}\n{{/each}}\n{{#if problems.length}}\n\n### Problems\n\n| Where | What went wrong |\n|---|---|\n{{#each problems}}\n| {{where}} | {{message}} |\n{{/each}}\n{{/if}}\n\n### Needs attention\n\n{{#if attention.length}}\n| | Metric | Why | Recent | Latest | Judged against | Source |\n|---|---|---|---|---|---|---|\n{{#each attention}}\n| {{verdict.icon}} | {{name}} | {{why}} | {{spark}} | {{latest}} | {{expected}} | {{where}} |\n{{/each}}\n{{#if attentionNote}}\n\n{{attentionNote}}\n{{/if}}\n{{else}}\nNothing needs attention.\n{{/if}}\n{{#if caveats}}\n\n{{caveats}}\n{{/if}}\n{{#if charts.length}}\n\n### Charts\n{{#each charts}}\n\n**{{name}}**. {{legend}}\n\n```mermaid\n{{source}}\n```\n{{/each}}\n{{/if}}\n{{#if limits.length}}\n\n### Limits\n\n| | Metric | Limit | Window | Chance of crossing | Allowed | Forecast crosses | Bound crosses |\n|---|---|---|---|---|---|---|---|\n{{#each limits}}\n| {{verdict.icon}} | {{name}} | {{limit}} | {{within}} | {{chance}} | {{allowed}} | {{pointCrossing}} | {{boundCrossing}} |\n{{/each}}\n{{#if limitsNote}}\n\n{{limitsNote}}\n{{/if}}\n{{/if}}\n{{#if series.length}}\n\n### Every metric\n{{#each series}}\n{{> series}}\n{{/each}}\n{{/if}}\n{{#if omitted}}\n\n> \u2702\uFE0F {{omitted}}\n{{/if}}\n\n<sub>{{generated}}</sub>\n";
+var report_default = "## {{verdict.icon}} Leadline: {{verdict.label}}\n\n**{{headline}}** {{gate}}\n{{#if scope}}\n\n{{scope}}\n{{/if}}\n\n{{counts}}\n\n{{falseAlarms}} {{caution}}\n{{#each runNotes}}\n\n> {{this}}\n{{/each}}\n{{#if problems.length}}\n\n### Problems\n\n| Where | What went wrong |\n|---|---|\n{{#each problems}}\n| {{where}} | {{message}} |\n{{/each}}\n{{/if}}\n\n### Needs attention\n\n{{#if attention.length}}\n| | Metric | Why | Recent | Latest | Judged against | Source |\n|---|---|---|---|---|---|---|\n{{#each attention}}\n| {{verdict.icon}} | {{name}} | {{why}} | {{spark}} | {{latest}} | {{expected}} | {{where}} |\n{{/each}}\n{{#if attentionNote}}\n\n{{attentionNote}}\n{{/if}}\n{{else}}\nNothing needs attention.\n{{/if}}\n{{#if elsewhere}}\n\n{{elsewhere}}\n{{/if}}\n{{#if caveats}}\n\n{{caveats}}\n{{/if}}\n{{#if charts.length}}\n\n### Charts\n{{#each charts}}\n\n**{{name}}**. {{legend}}\n\n```mermaid\n{{source}}\n```\n{{/each}}\n{{/if}}\n{{#if limits.length}}\n\n### Limits\n\n| | Metric | Limit | Window | Chance of crossing | Allowed | Forecast crosses | Bound crosses |\n|---|---|---|---|---|---|---|---|\n{{#each limits}}\n| {{verdict.icon}} | {{name}} | {{limit}} | {{within}} | {{chance}} | {{allowed}} | {{pointCrossing}} | {{boundCrossing}} |\n{{/each}}\n{{#if limitsNote}}\n\n{{limitsNote}}\n{{/if}}\n{{/if}}\n{{#if series.length}}\n\n### Every metric\n{{#each series}}\n{{> series}}\n{{/each}}\n{{/if}}\n{{#if omitted}}\n\n> \u2702\uFE0F {{omitted}}\n{{/if}}\n\n<sub>{{generated}}</sub>\n";
 
 // src/report/templates/series.hbs
 var series_default = "\n<details>\n<summary>{{verdict.icon}} <b>{{name}}</b>: {{verdict.label}}{{#if reason}}. {{reason}}{{/if}}</summary>\n\n{{facts}}\n{{#if limit}}\n\n{{limit}}\n{{/if}}\n{{#if checked.length}}\n\n**Checked observations**\n\n| When | Value | Forecast | Interval | Result | p | z |\n|---|---|---|---|---|---|---|\n{{#each checked}}\n| {{where}} | {{value}} | {{expected}} | {{interval}} | {{#if alarm}}\u{1F534} {{/if}}{{result}} | {{p}} | {{z}} |\n{{/each}}\n{{/if}}\n{{#if forecast.length}}\n\n**Forecast**\n\n| Step | When | Forecast |{{#each forecastLevels}} {{this}} interval |{{/each}}\n|---|---|---|{{#each forecastLevels}}---|{{/each}}\n{{#each forecast}}\n| {{step}} | {{time}} | {{mean}} |{{#each bands}} {{this}} |{{/each}}\n{{/each}}\n{{#if forecastNote}}\n\n{{forecastNote}}\n{{/if}}\n{{/if}}\n{{#if backtest.length}}\n\n**Backtest of the candidates**\n\n| Method | | Score ({{backtestScore}}) | RMSE | MAE | MASE | MAPE | ME | Origins |\n|---|---|---|---|---|---|---|---|---|\n{{#each backtest}}\n| {{method}} | {{#if chosen}}\u2705 chosen{{/if}} | {{score}} | {{rmse}} | {{mae}} | {{mase}} | {{mape}} | {{me}} | {{origins}} |\n{{/each}}\n\nWhy this method: {{backtestReason}} {{backtestNote}}\n{{/if}}\n{{#if checks.length}}\n\n**Residual checks**\n\n| Check | Result | Statistic | p | What it means |\n|---|---|---|---|---|\n{{#each checks}}\n| {{name}} | {{mark}}{{result}} | {{statistic}} | {{p}} | {{finding}} |\n{{/each}}\n\n{{checksNote}}\n{{/if}}\n{{#if calibration.length}}\n\n**Calibration**\n\n| Interval kind | Level | Backtest coverage | Judgement |\n|---|---|---|---|\n{{#each calibration}}\n| {{kind}}{{#if used}} (used){{/if}} | {{level}} | {{coverage}} | {{judgement}} |\n{{/each}}\n\n{{calibrationNote}}\n{{/if}}\n{{#if chart}}\n\n{{chart.legend}}\n\n```mermaid\n{{chart.source}}\n```\n{{/if}}\n{{#if notes.length}}\n\n**Notes**\n\n{{#each notes}}\n- {{this}}\n{{/each}}\n{{/if}}\n\n</details>\n";
@@ -55657,6 +55743,9 @@ function sparkline(values, width = 20) {
 }
 
 // src/report/view.ts
+function shownName(text2) {
+  return escapeMarkdown(reportName(text2));
+}
 var FORECAST_ROWS = 24;
 var CHECKED_ROWS = 20;
 function verdictView(v) {
@@ -55719,7 +55808,7 @@ function attentionRow(s2, section) {
   const lastIsChecked = last !== void 0 && lastValue !== void 0 && last.index === lastValue.index;
   return {
     section,
-    name: escapeMarkdown(s2.name),
+    name: shownName(s2.name),
     verdict: verdictView(s2.verdict),
     why: escapeMarkdown(s2.reason) || escapeMarkdown(VERDICT_LABEL[s2.verdict]),
     spark: sparkline(s2.history.map((h) => h.value)),
@@ -55739,7 +55828,7 @@ function limitRow(s2) {
   if (!l) return null;
   const status = l.alreadyCrossed ? `already ${l.side} the limit` : l.atRisk ? "at risk" : "within the allowed risk";
   return {
-    name: escapeMarkdown(s2.name),
+    name: shownName(s2.name),
     verdict: verdictView(s2.verdict),
     limit: `${l.side} ${num(l.value, 6)}`,
     within: plural(l.within, STEP_UNIT[s2.spacing]),
@@ -55865,7 +55954,7 @@ function calibrationRows(s2) {
 }
 function facts(s2) {
   const parts = [`File ${escapeMarkdown(s2.file)}`, `column ${escapeMarkdown(s2.column)}`];
-  if (s2.key !== null) parts.push(`key ${escapeMarkdown(s2.key)}`);
+  if (s2.key !== null) parts.push(`key ${shownName(s2.key)}`);
   parts.push(plural(s2.observations, "observation"));
   if (s2.missing > 0) parts.push(`${s2.missing} missing`);
   parts.push(SPACING_WORD[s2.spacing]);
@@ -55896,7 +55985,7 @@ function seriesView(s2, section, chart) {
   const bt = s2.backtest;
   return {
     section,
-    name: escapeMarkdown(s2.name),
+    name: shownName(s2.name),
     verdict: verdictView(s2.verdict),
     reason: escapeMarkdown(s2.reason),
     attention: needsAttention(s2),
@@ -55934,10 +56023,40 @@ function chanceSentence(results) {
 }
 var NAMED = 5;
 function names(list2) {
-  const shown2 = list2.slice(0, NAMED).map((s2) => escapeMarkdown(s2.name));
+  const shown2 = list2.slice(0, NAMED).map((s2) => shownName(s2.name));
   return list2.length > NAMED ? `${shown2.join(", ")} and ${list2.length - NAMED} more` : shown2.join(", ");
 }
-function othersLine(rest, afterAttention) {
+function scopeLine(results) {
+  const sc = results.scope;
+  const n = results.summary.checkedObservations;
+  if (!sc) return null;
+  if (sc.kind === "latest")
+    return n === 0 ? "No observation was checked." : `This run checks the newest ${plural(n, "observation")} of ${plural(results.series.length, "series", "series")}.`;
+  const grown = sc.files.filter((f2) => !f2.added && f2.rows > 0);
+  const added = sc.files.filter((f2) => f2.added);
+  const parts = grown.map((f2, i) => `${i === 0 ? plural(f2.rows, "row") : f2.rows} to ${escapeMarkdown(f2.file)}`);
+  const list2 = (xs) => xs.length <= 1 ? xs.join("") : `${xs.slice(0, -1).join(", ")} and ${xs.at(-1)}`;
+  const sentences = [];
+  if (parts.length > 0) sentences.push(`This pull request adds ${list2(parts)}.`);
+  if (added.length > 0)
+    sentences.push(
+      `It adds the new metric ${added.length === 1 ? "file" : "files"} ${list2(added.map((f2) => escapeMarkdown(f2.file)))}; only ${added.length === 1 ? "its" : "their"} last row is checked.`
+    );
+  if (sentences.length === 0) return "This pull request adds no row to any metric file: nothing was checked.";
+  if (sc.gate === "all") sentences.push("Every series is judged (pullRequestGate: all).");
+  return sentences.join(" ");
+}
+function elsewhereLine(unchanged) {
+  if (unchanged.length === 0) return null;
+  const atRisk = unchanged.filter((s2) => s2.limit?.atRisk);
+  const errors = unchanged.filter((s2) => s2.verdict === "error");
+  const parts = [`${plural(unchanged.length, "other series", "other series")} unchanged`];
+  if (atRisk.length > 0) parts.push(`${plural(atRisk.length, "limit")} at risk elsewhere: ${names(atRisk)}`);
+  if (errors.length > 0) parts.push(`${plural(errors.length, "error")} elsewhere: ${names(errors)}`);
+  return `${parts.join("; ")} (not judged in this pull request).`;
+}
+function othersLine(all, afterAttention) {
+  const rest = all.filter(isJudged);
   if (rest.length === 0) return null;
   const groups2 = /* @__PURE__ */ new Map();
   for (const s2 of rest) groups2.set(s2.verdict, [...groups2.get(s2.verdict) ?? [], s2]);
@@ -55965,7 +56084,7 @@ function buildView(results, opts = {}) {
   for (const s2 of [...attention, ...ordered.filter((s3) => !needsAttention(s3))]) {
     if (chartFor.size >= maxCharts) break;
     const c = mermaidChart(s2);
-    if (c) chartFor.set(s2, { section: section.get(s2), name: escapeMarkdown(s2.name), ...c });
+    if (c) chartFor.set(s2, { section: section.get(s2), name: shownName(s2.name), ...c });
   }
   const charts = attention.map((s2) => chartFor.get(s2)).filter((c) => c !== void 0);
   const sum = results.summary;
@@ -55974,7 +56093,7 @@ function buildView(results, opts = {}) {
     ok: sum.checkedObservations > 0 ? "Every checked observation is within its interval and no limit is at risk." : "No observation was checked and no limit is at risk.",
     alarm: `${plural(sum.alarms, "observation")} outside what history predicts.`,
     "at-risk": `${plural(sum.atRisk, "limit")} at risk of being crossed.`,
-    "insufficient-data": `Every series is ${VERDICT_LABEL["insufficient-data"]} to judge yet.`,
+    "too-short": `Every series is ${VERDICT_LABEL["too-short"]} to judge yet.`,
     error: `${plural(sum.errors, "series", "series")} could not be analysed.`
   }[results.verdict];
   const countParts = [
@@ -55984,7 +56103,7 @@ function buildView(results, opts = {}) {
     plural(sum.alarms, "alarm"),
     `${sum.atRisk} at risk`
   ];
-  if (sum.insufficient > 0) countParts.push(`${sum.insufficient} ${VERDICT_LABEL["insufficient-data"]}`);
+  if (sum.insufficient > 0) countParts.push(`${sum.insufficient} ${VERDICT_LABEL["too-short"]}`);
   if (sum.errors > 0) countParts.push(`${plural(sum.errors, "error")}`);
   const falseAlarms2 = chanceSentence(results);
   const limits = ordered.map(limitRow).filter((r) => r !== null);
@@ -56016,8 +56135,9 @@ function buildView(results, opts = {}) {
       ordered.filter((s2) => !needsAttention(s2)),
       attention.length > 0
     ),
+    elsewhere: elsewhereLine(ordered.filter((s2) => !isJudged(s2))),
     caveats: caveatsLine(ordered),
-    scope: null,
+    scope: scopeLine(results),
     fullReport: opts.fullReportNote ?? "The results JSON has every series in full."
   };
 }
@@ -59877,7 +59997,7 @@ function fanChart(s2, id) {
   }
   const xe = extent(xs);
   const ye = extent(ys);
-  const title = `${s2.name}: history and forecast`;
+  const title = `${reportName(s2.name)}: history and forecast`;
   if (!xe || !ye) {
     return `${svgOpen(id, 60, title, "No values to draw.", "fan")}<text class="empty" x="${W / 2}" y="34" text-anchor="middle">No values to draw.</text></svg>`;
   }
@@ -59961,7 +60081,7 @@ function sampleSd(xs) {
   return { mean, sd };
 }
 function spreadChart(s2, id) {
-  const title = `${s2.name}: spread of the residuals over time`;
+  const title = `${reportName(s2.name)}: spread of the residuals over time`;
   const pts = residualPoints(s2);
   if (pts.length < 6) return emptyHalf(id, title, "Too few residuals to compare thirds.", "spread");
   const height = 200;
@@ -59996,7 +60116,7 @@ function spreadChart(s2, id) {
   ).join("") + `<text class="tick" x="${HALF - m.right}" y="${height - 8}" text-anchor="end">time \u2192</text></g></svg>`;
 }
 function qqChart(s2, id) {
-  const title = `${s2.name}: residuals against normal quantiles`;
+  const title = `${reportName(s2.name)}: residuals against normal quantiles`;
   const r = s2.residuals.filter(isNum);
   if (r.length < 3) return emptyHalf(id, title, "Too few residuals for a Q\u2013Q plot.", "qq");
   const { mean, sd } = sampleSd(r);
@@ -60022,7 +60142,7 @@ function qqChart(s2, id) {
   ).join("") + `<text class="tick" x="${HALF - m.right}" y="${height - 4}" text-anchor="end">normal quantile</text><text class="tick" x="${m.left + 4}" y="${m.top + 4}">residual (sd units)</text></g></svg>`;
 }
 function ljungBoxChart(s2, id) {
-  const title = `${s2.name}: Ljung\u2013Box p-value by number of lags`;
+  const title = `${reportName(s2.name)}: Ljung\u2013Box p-value by number of lags`;
   const c = s2.residualChecks;
   const lb = c?.ljungBox;
   const acf = c?.acf ?? [];
@@ -60076,7 +60196,7 @@ function residualCount(q, acf) {
 function backtestChart(s2, id) {
   const bt = s2.backtest;
   const rows = bt ? Object.entries(bt.methods).filter(([, b]) => b && isNum(b.score)).map(([m, b]) => ({ m, score: Math.abs(b.score), chosen: m === s2.method })).sort((a2, b) => a2.score - b.score) : [];
-  const title = `${s2.name}: backtest comparison`;
+  const title = `${reportName(s2.name)}: backtest comparison`;
   if (!bt || rows.length === 0)
     return `${svgOpen(id, 60, title, "No backtest to draw.", "bt")}<text class="empty" x="${W / 2}" y="34" text-anchor="middle">No backtest scores.</text></svg>`;
   const rowH = 24;
@@ -60118,7 +60238,7 @@ h1{font-size:1.6rem;margin:0 0 4px}h2{font-size:1.25rem;margin:0 0 6px}h3{font-s
 a{color:inherit}
 .muted,.facts,.note{color:var(--muted)}.facts{font-size:.9rem}
 .badge{display:inline-block;padding:1px 8px;border-radius:10px;font-size:.8rem;font-weight:600;border:1px solid currentColor;white-space:nowrap}
-.v-ok{color:var(--ok)}.v-alarm{color:var(--alarm)}.v-at-risk{color:var(--risk)}.v-insufficient-data{color:var(--na)}.v-error{color:var(--alarm)}
+.v-ok{color:var(--ok)}.v-alarm{color:var(--alarm)}.v-at-risk{color:var(--risk)}.v-too-short{color:var(--na)}.v-error{color:var(--alarm)}
 .caution{border-left:4px solid var(--risk);padding:6px 12px;background:var(--card);margin:12px 0}
 table{border-collapse:collapse;width:100%;margin:6px 0 10px;font-size:.88rem;background:var(--card)}
 th,td{border:1px solid var(--line);padding:4px 8px;text-align:left;vertical-align:top}
@@ -60176,7 +60296,7 @@ function metricSection(s2, v, id) {
   const out = [];
   out.push(`<details class="metric" id="${id}"${v.attention ? " open" : ""}>`);
   out.push(
-    `<summary><h2>${escapeHtml(s2.name)} ${badge(s2.verdict)}</h2>${s2.reason ? ` <span class="why">${escapeHtml(s2.reason)}</span>` : ""}</summary>`
+    `<summary><h2>${escapeHtml(reportName(s2.name))} ${badge(s2.verdict)}</h2>${s2.reason ? ` <span class="why">${escapeHtml(s2.reason)}</span>` : ""}</summary>`
   );
   out.push(`<p class="facts">${v.facts}</p>`);
   out.push(
@@ -60270,7 +60390,7 @@ function renderHtml(results) {
   const overview = table(
     ["Metric", "Verdict", "Why", "Method", "Checked", "Limit risk"],
     ordered.map((s2, i) => [
-      i < shown2 ? `<a href="#${id(i)}">${escapeHtml(s2.name)}</a>` : escapeHtml(s2.name),
+      i < shown2 ? `<a href="#${id(i)}">${escapeHtml(reportName(s2.name))}</a>` : escapeHtml(reportName(s2.name)),
       badge(s2.verdict),
       escapeHtml(s2.reason),
       escapeHtml(s2.method ? METHOD_LABEL[s2.method] ?? s2.method : "n/a"),
@@ -65739,12 +65859,14 @@ async function runAction(d) {
   let dest = destination(s2.comment, s2.run.eventName, event.facts);
   if (s2.shard && s2.comment.kind === "auto") dest = { kind: "none", why: null };
   let newRows;
+  let addedFiles = [];
   let baseNote;
   const pr = event.facts.pullRequest;
   if (pr && s2.merge.length === 0 && isPullRequestEvent(s2.run.eventName, event.facts)) {
     const cmp = await compareWithBase(d.git, s2.workingDirectory, pr.baseSha);
     if (cmp.ok) {
       newRows = cmp.newRows;
+      addedFiles = cmp.added;
       const files = Object.keys(cmp.newRows);
       info2(
         files.length === 0 ? `Pull request #${pr.number} changes no file under ${s2.workingDirectory}: no row is checked.` : `Pull request #${pr.number}: checking the rows it adds to ${plural(files.length, "changed file")}.`
@@ -65797,7 +65919,7 @@ async function runAction(d) {
           base: pr?.baseSha ?? null,
           head: pr?.headSha ?? null
         } : null,
-        ...newRows ? { newRows } : {},
+        ...newRows ? { newRows, addedFiles } : {},
         ...baseNote ? { baseNote } : {}
       });
   } catch (e) {
