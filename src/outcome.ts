@@ -10,6 +10,7 @@ import {
   type Fit,
   type MethodBacktest,
   type ResidualChecks,
+  type StepMeasures,
   type TestResult,
 } from './engine/index.js';
 import type { IngestFailure } from './ingest/index.js';
@@ -368,15 +369,7 @@ function summariseChecks(
   };
 }
 
-function measures(x: {
-  origins: number;
-  me: number;
-  rmse: number;
-  mae: number;
-  mpe: number;
-  mape: number;
-  mase: number;
-}): MeasureSet {
+function measures(x: Omit<StepMeasures, 'step'>): MeasureSet {
   return {
     origins: x.origins,
     me: finiteOrNull(significant(x.me)),

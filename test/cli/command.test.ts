@@ -6,7 +6,7 @@ import os from 'node:os';
 import path from 'node:path';
 import { promisify } from 'node:util';
 import { describe, expect, it } from 'vitest';
-import { main } from '../../src/cli/main.js';
+import { cli as runCli } from './helpers.js';
 import type { Results } from '../../src/results.js';
 
 const repo = path.resolve(import.meta.dirname, '..', '..');
@@ -15,17 +15,8 @@ const run = promisify(execFile);
 /** The command's arguments for a run on the demo scenario. */
 const DEMO = ['run', '--cwd', demo, '--config', 'leadline.yml'];
 
-async function cli(argv: string[], cwd = repo) {
-  let out = '';
-  let err = '';
-  const code = await main(argv, {
-    stdout: { write: (s: string) => (out += s), isTTY: false },
-    stderr: { write: (s: string) => (err += s) },
-    env: {},
-    cwd,
-  });
-  return { code, out, err };
-}
+/** The command in-process (test/cli/helpers.ts), from the repository root unless told otherwise. */
+const cli = (argv: string[], cwd = repo) => runCli(argv, cwd);
 
 function tmp(): string {
   return mkdtempSync(path.join(os.tmpdir(), 'leadline-cli-'));
