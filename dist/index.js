@@ -65226,6 +65226,9 @@ function apiFault(e, call, timeoutMs) {
     );
   if (status !== null)
     return new ApiFault(`no connection to the GitHub API (${text2})`, call, null, "network", true);
+  return badReply(call);
+}
+function badReply(call) {
   return new ApiFault(
     `GitHub's reply could not be read (it is not the JSON expected)`,
     call,
@@ -65235,14 +65238,7 @@ function apiFault(e, call, timeoutMs) {
   );
 }
 function need(ok, value2, call) {
-  if (!ok)
-    throw new ApiFault(
-      `GitHub's reply could not be read (it is not the JSON expected)`,
-      call,
-      null,
-      "reply",
-      false
-    );
+  if (!ok) throw badReply(call);
   return value2;
 }
 var isObject2 = (x2) => typeof x2 === "object" && x2 !== null;

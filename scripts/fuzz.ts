@@ -139,6 +139,10 @@ export async function fuzz(count: number, seed = 1, hangMs = 20_000): Promise<Fu
       writeFileSync(path.join(dir, 'data.csv'), csv);
       writeFileSync(path.join(dir, 'leadline.yml'), yaml);
       counts.inputs++;
+      /** The first ten hangs and crashes are kept whole, to replay. */
+      const keep = (kind: 'hang' | 'crash', error: string) => {
+        if (counts.examples.length < 10) counts.examples.push({ kind, csv, config: yaml, error });
+      };
       let timer: NodeJS.Timeout | undefined;
       const late = new Promise<'hang'>((resolve) => (timer = setTimeout(() => resolve('hang'), hangMs)));
       try {
@@ -148,31 +152,18 @@ export async function fuzz(count: number, seed = 1, hangMs = 20_000): Promise<Fu
         ]);
         if (out === 'hang') {
           counts.hangs++;
-          if (counts.examples.length < 10)
-            counts.examples.push({ kind: 'hang', csv, config: yaml, error: '' });
+          keep('hang', '');
         } else if (out.problems.length === 0) counts.clean++;
         else if (out.problems.every(located)) counts.located++;
         else {
           counts.crashes++;
-          if (counts.examples.length < 10)
-            counts.examples.push({
-              kind: 'crash',
-              csv,
-              config: yaml,
-              error: `unlocated: ${out.problems[0]!.message}`,
-            });
+          keep('crash', `unlocated: ${out.problems[0]!.message}`);
         }
       } catch (e) {
         if (isLeadlineError(e) && (e.file !== null || e.keyPath !== null)) counts.located++;
         else {
           counts.crashes++;
-          if (counts.examples.length < 10)
-            counts.examples.push({
-              kind: 'crash',
-              csv,
-              config: yaml,
-              error: (e as Error)?.stack ?? String(e),
-            });
+          keep('crash', (e as Error)?.stack ?? String(e));
         }
       } finally {
         clearTimeout(timer);

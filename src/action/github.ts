@@ -110,6 +110,11 @@ export function apiFault(e: unknown, call: string, timeoutMs: number): ApiFault 
     );
   if (status !== null)
     return new ApiFault(`no connection to the GitHub API (${text})`, call, null, 'network', true);
+  return badReply(call);
+}
+
+/** A reply that is not the JSON the call expects: said as such, and not retried. */
+function badReply(call: string): ApiFault {
   return new ApiFault(
     `GitHub's reply could not be read (it is not the JSON expected)`,
     call,
@@ -120,14 +125,7 @@ export function apiFault(e: unknown, call: string, timeoutMs: number): ApiFault 
 }
 
 function need<T>(ok: boolean, value: T, call: string): T {
-  if (!ok)
-    throw new ApiFault(
-      `GitHub's reply could not be read (it is not the JSON expected)`,
-      call,
-      null,
-      'reply',
-      false,
-    );
+  if (!ok) throw badReply(call);
   return value;
 }
 
