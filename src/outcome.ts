@@ -4,6 +4,7 @@
 import type { MetricPlan } from './config/types.js';
 import { settleRunAlarms } from './alarms/scope.js';
 import {
+  levelKey,
   significant,
   toScale,
   type Analysis,
@@ -329,8 +330,8 @@ function forecastPoints(a: Analysis, s: Series, horizon: number): ForecastPoint[
     const lower: LevelMap = {};
     const upper: LevelMap = {};
     for (const b of fc.bands) {
-      lower[String(b.level)] = toScale(b.lower[h - 1]!, se);
-      upper[String(b.level)] = toScale(b.upper[h - 1]!, se);
+      lower[levelKey(b.level)] = toScale(b.lower[h - 1]!, se);
+      upper[levelKey(b.level)] = toScale(b.upper[h - 1]!, se);
     }
     out.push({ step: h, time: timeAfterLast(s, h), mean: toScale(fc.mean[h - 1]!, se), lower, upper });
   }

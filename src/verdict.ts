@@ -5,7 +5,7 @@
 import { LeadlineError } from './errors.js';
 import type { Results, SeriesResult } from './results.js';
 import { FAIL_ON_VALUES, type FailOn, type Verdict } from './terms.js';
-import { didYouMean, numsApart, num, pct, plural } from './text/index.js';
+import { didYouMean, levelLabel, numsApart, num, pct, plural } from './text/index.js';
 
 /**
  * Verdicts from most to least severe. `too-short` comes last: too little data is a verdict
@@ -51,7 +51,7 @@ export function seriesVerdict(r: SeriesFindings): Pick<SeriesResult, 'verdict' |
     const bound = first.side === 'below' ? first.lower : first.upper;
     const [value, shownBound] = numsApart([first.value, bound], 6, PLAIN);
     parts.push(
-      `${alarms.length} of ${plural(r.checked.length, 'checked observation')} outside the ${first.level}% interval` +
+      `${alarms.length} of ${plural(r.checked.length, 'checked observation')} outside the ${levelLabel(first.level)} interval` +
         ` (${value} ${first.side} ${shownBound}${first.row ? `, line ${first.row}` : ''})`,
     );
   }
@@ -70,7 +70,7 @@ export function seriesVerdict(r: SeriesFindings): Pick<SeriesResult, 'verdict' |
     const inside = r.checked.length - outside;
     const said: string[] = [];
     if (inside > 0)
-      said.push(`${plural(inside, 'checked observation')} within the ${r.alarmLevel}% interval`);
+      said.push(`${plural(inside, 'checked observation')} within the ${levelLabel(r.alarmLevel)} interval`);
     if (outside > 0)
       said.push(
         `${outside} outside it on ${r.direction === 'both' ? 'a side, but not an alarm after the false-alarm adjustment' : `the side that is not watched (watching ${r.direction})`}`,

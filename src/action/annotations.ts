@@ -4,7 +4,7 @@
 // remainder in one notice.
 import path from 'node:path';
 import type { Results } from '../results.js';
-import { num, numsApart, oneLine, pIs, plural } from '../text/index.js';
+import { levelLabel, num, numsApart, oneLine, pIs, plural } from '../text/index.js';
 import { gateFailsOn } from '../verdict.js';
 
 export { oneLine };
@@ -71,7 +71,7 @@ export function planAnnotations(
         level: fails.alarms ? 'error' : 'warning',
         title: oneLine(`Leadline alarm: ${s.name}`, 120),
         message: oneLine(
-          `${value} is ${c.side ?? 'outside'} the ${c.level}% prediction interval ` +
+          `${value} is ${c.side ?? 'outside'} the ${levelLabel(c.level)} prediction interval ` +
             `[${lower}, ${upper}] (forecast ${mean}, ${num(Math.abs(c.z), 3, PLAIN)} standard errors ` +
             `${c.side === 'below' ? 'under' : 'over'}, ${pIs(c.adjustedP)}). Bound crossed: ${c.side === 'below' ? lower : upper}.`,
           1000,

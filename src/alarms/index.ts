@@ -1,6 +1,9 @@
 // Which observations are checked, which of them raise alarms, and which limits are at risk.
 // Pure: takes a series' values and the engine's analysis, returns plain data.
 import {
+  bandAt,
+  levelOutside,
+  levelTail,
   runBacktest,
   runResidualTests,
   chooseIntervalKind,
@@ -45,8 +48,7 @@ export function checkedIndices(
 
 /** The chance alarm rate per checked observation: the interval's tail mass on the side(s) watched. */
 export function sideAlpha(level: number, direction: Direction): number {
-  const alpha = 1 - level / 100;
-  return direction === 'both' ? alpha : alpha / 2;
+  return direction === 'both' ? levelOutside(level) : levelTail(level);
 }
 
 export interface CheckContext {
@@ -130,7 +132,7 @@ export function checkObservations(c: CheckContext): CheckOutcome {
     checks,
   });
   for (const n of fc.notes) if (!notes.includes(n)) notes.push(n);
-  const band = fc.bands.find((b) => b.level === c.options.alarmLevel) ?? fc.bands[0]!;
+  const band = bandAt(fc.bands, c.options.alarmLevel);
   const checked = c.indices.map((index): CheckedObservation => {
     const step = index - origin + 1;
     const value = c.values[index]!;

@@ -3,7 +3,7 @@
 import { VERDICT_LABEL } from '../report/format.js';
 import { chanceSentence, needsAttention, placement, reportOrder } from '../report/view.js';
 import type { Results, SeriesResult, Verdict } from '../results.js';
-import { numsApart, plural } from '../text/index.js';
+import { levelLabel, numsApart, plural } from '../text/index.js';
 import { shorten, visible } from '../untrusted.js';
 
 const CODES = { red: 31, green: 32, yellow: 33, blue: 34, dim: 2, bold: 1 } as const;
@@ -30,7 +30,7 @@ function line(s: SeriesResult, paint: Paint): string {
   const last = s.checked.at(-1);
   const shown = last ? numsApart([last.value, last.lower, last.upper], 5, { grouping: false }) : [];
   const judged = last
-    ? ` ${shown[0]} vs ${last.level}% interval ${shown[1]} … ${shown[2]}: ${placement(s, last)}`
+    ? ` ${shown[0]} vs ${levelLabel(last.level)} interval ${shown[1]} … ${shown[2]}: ${placement(s, last)}`
     : '';
   const method = s.method ? paint('dim', ` [${s.method}, ${s.intervalKind}]`) : '';
   const why = s.reason && (s.verdict !== 'ok' || !last) ? paint('dim', ` — ${clean(s.reason)}`) : '';

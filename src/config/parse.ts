@@ -3,6 +3,7 @@
 // reading order) is the error's location and the others are listed in its message.
 import { isCollection, isSeq, LineCounter, parseDocument, visit, type Document } from 'yaml';
 import type { z } from 'zod';
+import { normaliseLevels } from '../engine/levels.js';
 import { LeadlineError } from '../errors.js';
 import { nearest } from '../text/index.js';
 
@@ -199,7 +200,7 @@ function buildMetric(
 
   const season = pick('season') ?? DEFAULTS.season;
   const horizon = pick('horizon') ?? DEFAULTS.horizon;
-  const levels = [...new Set(pick('levels') ?? DEFAULTS.levels)].sort((a, b) => a - b);
+  const levels = normaliseLevels(pick('levels') ?? DEFAULTS.levels);
   const methods = [...new Set(pick('methods') ?? DEFAULTS.methods)] as MetricOptions['methods'];
 
   const alarmLevel = pick('alarmLevel') ?? levels[levels.length - 1]!;

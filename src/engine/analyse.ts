@@ -8,6 +8,7 @@ import {
 } from './backtest.js';
 import { runResidualTests } from './checks.js';
 import { DEFAULT_MIN_ERRORS } from './forecast.js';
+import { checkLevels } from './levels.js';
 import { makeForecast } from './forecast.js';
 import { fitMethod, isFit, methodLabel } from './methods.js';
 import { selectMethod } from './select.js';
@@ -24,9 +25,7 @@ function validate(o: EngineOptions): void {
   whole(o.backtest.horizon, 1, 'backtest.horizon');
   whole(o.paths, 1, 'paths');
   if (o.methods.length === 0) throw new RangeError('methods must list at least one method');
-  if (o.levels.length === 0) throw new RangeError('levels must list at least one level');
-  for (const l of o.levels)
-    if (!(l > 0 && l < 100)) throw new RangeError(`each level must be between 0 and 100; got ${l}`);
+  checkLevels(o.levels);
 }
 
 /**

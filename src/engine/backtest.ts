@@ -24,6 +24,7 @@
 // way; empiricalCoverage and bootstrapCoverage measure the other two kinds.
 import { tQuantileFrom, tQuantileTable } from './dist.js';
 import { DEFAULT_MIN_ERRORS, sortedCopy } from './forecast.js';
+import { levelKey, levelTail } from './levels.js';
 import { methodLabel } from './methods.js';
 import { extremeUnit, Fenwick, inUnits, lowerBound, present, sortedQuantile, upperBound } from './numeric.js';
 import { createRandom } from './random.js';
@@ -616,7 +617,7 @@ function methodBacktest(
 
 function shares(levels: number[], inside: ArrayLike<number>, total: number): Record<string, number> {
   const r: Record<string, number> = {};
-  levels.forEach((l, k) => (r[String(l)] = total > 0 ? inside[k]! / total : NaN));
+  levels.forEach((l, k) => (r[levelKey(l)] = total > 0 ? inside[k]! / total : NaN));
   return r;
 }
 
@@ -639,7 +640,7 @@ class AnalyticCount {
     private readonly levels: number[],
     private readonly T: number,
   ) {
-    this.probs = levels.map((l) => 1 - (1 - l / 100) / 2);
+    this.probs = levels.map((l) => 1 - levelTail(l));
     this.tables = this.probs.map((p) => tQuantileTable(p));
     this.halfWidth2 = scratch.f64('backtest.halfWidth2', levels.length * T);
     this.inside = new Float64Array(levels.length);
@@ -688,7 +689,7 @@ interface EmpiricalCoverageOptions {
 function empiricalCoverage(o: EmpiricalCoverageOptions): Record<string, number> {
   const { errors, levels, minErrors } = o;
   const L = levels.length;
-  const alphas = levels.map((l) => (1 - l / 100) / 2);
+  const alphas = levels.map(levelTail);
   const inside = new Int32Array(L);
   let total = 0;
   const tree = new Fenwick(0);
@@ -753,7 +754,7 @@ function bootstrapCoverage(
   const { ys } = s;
   const T = ys.length;
   const H = o.horizon;
-  const alphas = o.levels.map((l) => (1 - l / 100) / 2);
+  const alphas = o.levels.map(levelTail);
   const marks = bootstrapPlan(T, o.minTrain);
   const fit = runningFit(method, s, new Float64Array(T));
   const rnd = createRandom(o.seed);

@@ -31,6 +31,7 @@
 // (1 + count) / (1 + b), reported as an upper bound.
 import { runResidualTests } from './checks.js';
 import { tCdf, tQuantile } from './dist.js';
+import { checkLevels, levelTail } from './levels.js';
 import { fmtP, meanAndSquares, selectQuantiles, sortedQuantile } from './numeric.js';
 import { simulatePaths } from './simulate.js';
 import type {
@@ -143,8 +144,7 @@ export interface ForecastOptions {
 function validate(o: ForecastOptions): void {
   if (!Number.isInteger(o.horizon) || o.horizon < 1)
     throw new RangeError(`horizon must be a whole number of at least 1; got ${o.horizon}`);
-  for (const l of o.levels)
-    if (!(l > 0 && l < 100)) throw new RangeError(`each level must be between 0 and 100 (percent); got ${l}`);
+  checkLevels(o.levels);
   if (!Number.isInteger(o.paths) || o.paths < 1)
     throw new RangeError(`paths must be a whole number of at least 1; got ${o.paths}`);
 }
@@ -219,7 +219,7 @@ export function makeForecast(fit: Fit, o: ForecastOptions): Forecast {
       q = splicedQuantiles(work, 0, base[h]!, df, o.levels);
     } else if (errs && errs.length > 0) q = splicedQuantiles(errs, mean[h]!, base[h]!, df, o.levels, true);
     o.levels.forEach((level, k) => {
-      const a = (1 - level / 100) / 2;
+      const a = levelTail(level);
       const band = bands[k]!;
       if (q) {
         band.lower[h] = q(a);
@@ -339,7 +339,7 @@ function splicedQuantiles(
   const u = tailStart(base, n);
   const probs = [1 - u, u];
   for (const l of levels) {
-    const a = (1 - l / 100) / 2;
+    const a = levelTail(l);
     if (a >= 1 - u) probs.push(a, 1 - a);
   }
   const at = new Map<number, number>();

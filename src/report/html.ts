@@ -91,11 +91,8 @@ function metricSection(s: SeriesResult, v: SeriesView, id: string): string {
   );
   out.push(`<p class="facts">${v.facts}</p>`);
   out.push(
-    `<figure>${fanChart(s, `${id}-fan`)}<figcaption class="key"><span class="k-hist">observed</span><span class="k-fc">point forecast</span>` +
-      `<span class="k-band">prediction intervals (${[...s.levels]
-        .sort((a, b) => a - b)
-        .map((l) => `${l}%`)
-        .join(', ')}; darker is narrower)</span><span>○ checked observation with its interval</span>` +
+    `<figure>${fanChart(s, `${id}-fan`, v.levels)}<figcaption class="key"><span class="k-hist">observed</span><span class="k-fc">point forecast</span>` +
+      `<span class="k-band">prediction intervals (${v.levels.map((l) => l.label).join(', ')}; darker is narrower)</span><span>○ checked observation with its interval</span>` +
       `<span class="k-alarm">alarm</span>${s.limit ? '<span class="k-limit">limit and forecast crossing</span>' : ''}</figcaption></figure>`,
   );
   if (v.limit) out.push(`<p>${v.limit}</p>`);
@@ -113,7 +110,7 @@ function metricSection(s: SeriesResult, v: SeriesView, id: string): string {
     out.push(`<details><summary>Forecast table (${s.forecast.length} steps)</summary>`);
     out.push(
       table(
-        ['Step', 'When', 'Forecast', ...v.forecastLevels.map((l) => `${l} interval`)],
+        ['Step', 'When', 'Forecast', ...v.levels.map((l) => `${l.label} interval`)],
         v.forecast.map((r) => [String(r.step), r.time, r.mean, ...r.bands]),
         [0, 2],
       ),

@@ -3,7 +3,8 @@
 // labels Leadline makes itself or passes through mermaidLabel; a chart that cannot be built from
 // valid numbers is left out rather than drawn wrong.
 import type { SeriesResult } from '../results.js';
-import { mermaidLabel, num, plural } from '../text/index.js';
+import { levelKey } from '../engine/levels.js';
+import { levelLabel, mermaidLabel, num, plural } from '../text/index.js';
 import { when } from './format.js';
 
 /** Points of history before the forecast. */
@@ -59,7 +60,8 @@ const AXIS_UNIT: Record<SeriesResult['spacing'], string> = {
  */
 export function mermaidChart(s: SeriesResult): MermaidChart | null {
   if (s.forecast.length === 0 || s.history.length === 0) return null;
-  const level = String(s.alarmLevel);
+  const key = levelKey(s.alarmLevel);
+  const level = levelLabel(s.alarmLevel);
   const firstChecked = s.checked.length > 0 ? Math.min(...s.checked.map((c) => c.index)) : Infinity;
   // Enough history to show every checked observation and a little before it.
   let from = Math.max(0, s.history.length - CHART_HISTORY);
@@ -83,11 +85,11 @@ export function mermaidChart(s: SeriesResult): MermaidChart | null {
   const main = [...observed, ...fc.map((f) => f.mean)];
   const upper = [
     ...hist.map((h, i) => checked.get(h.index)?.upper ?? observed[i]!),
-    ...fc.map((f) => f.upper[level]!),
+    ...fc.map((f) => f.upper[key]!),
   ];
   const lower = [
     ...hist.map((h, i) => checked.get(h.index)?.lower ?? observed[i]!),
-    ...fc.map((f) => f.lower[level]!),
+    ...fc.map((f) => f.lower[key]!),
   ];
   const hasLimit = s.limit !== null && Number.isFinite(s.limit.value);
   const lines = hasLimit ? [main.map(() => s.limit!.value), upper, lower, main] : [upper, lower, main];
@@ -117,7 +119,7 @@ export function mermaidChart(s: SeriesResult): MermaidChart | null {
 
   const title = mermaidLabel(s.name, 60, 'metric');
   const axis = mermaidLabel(s.column, 30, 'value');
-  const names = [`upper ${level}% bound`, `lower ${level}% bound`, 'observed then forecast'];
+  const names = [`upper ${level} bound`, `lower ${level} bound`, 'observed then forecast'];
   if (hasLimit) names.unshift('limit');
   const colours = hasLimit ? [LIMIT, BOUND, BOUND, MAIN] : [BOUND, BOUND, MAIN];
   const source = [
@@ -140,8 +142,8 @@ export function mermaidChart(s: SeriesResult): MermaidChart | null {
   const parts = [
     `Blue: the observed values up to ${zero} (0 on the x axis), then the point forecast for ${plural(fc.length, unit.replace(/s$/, ''))}`,
     checkedX.length > 0
-      ? `orange: the ${level}% interval the ${one ? 'checked observation was' : `${checkedX.length} checked observations were`} judged against (${span(checkedX)}), then the forecast's; before ${one ? 'it' : 'them'} the orange lines mean nothing and lie hidden under the blue one`
-      : `orange: the forecast's ${level}% interval, opening from the last observation`,
+      ? `orange: the ${level} interval the ${one ? 'checked observation was' : `${checkedX.length} checked observations were`} judged against (${span(checkedX)}), then the forecast's; before ${one ? 'it' : 'them'} the orange lines mean nothing and lie hidden under the blue one`
+      : `orange: the forecast's ${level} interval, opening from the last observation`,
   ];
   if (hasLimit) parts.push(`grey: the limit, ${num(s.limit!.value, 6)}`);
   let legend = parts.join('; ') + '.';

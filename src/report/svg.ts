@@ -16,7 +16,8 @@ import {
 import { chiSquareCdf, normalQuantile } from '../engine/dist.js';
 import { area, line } from 'd3-shape';
 import type { SeriesResult } from '../results.js';
-import { escapeHtml as h, num, pval } from '../text/index.js';
+import { escapeHtml as h, levelLabel, num, pval } from '../text/index.js';
+import type { LevelView } from './view.js';
 import { METHOD_LABEL, reportName, when } from './format.js';
 
 const W = 760;
@@ -148,7 +149,7 @@ export const FAN_HISTORY = 120;
  * checked observations with the interval each was judged against (alarms as red diamonds, others as
  * circles), and the limit as a line with the forecast crossing date.
  */
-export function fanChart(s: SeriesResult, id: string): string {
+export function fanChart(s: SeriesResult, id: string, ascending: readonly LevelView[]): string {
   const height = 300;
   const tl = timeline(s);
   let from = Math.max(0, s.history.length - FAN_HISTORY);
@@ -156,7 +157,7 @@ export function fanChart(s: SeriesResult, id: string): string {
   const pos = s.history.findIndex((p) => p.index === firstChecked);
   if (pos >= 0) from = Math.min(from, Math.max(0, pos - 10));
   const hist = s.history.slice(from);
-  const levels = [...s.levels].sort((a, b) => b - a);
+  const levels = [...ascending].reverse(); // widest first
   const lastObs = [...hist].reverse().find((p) => isNum(p.value));
 
   const xs: number[] = [];
@@ -170,7 +171,7 @@ export function fanChart(s: SeriesResult, id: string): string {
   for (const q of fc) {
     xs.push(q.x);
     ys.push(q.p.mean);
-    for (const l of levels) ys.push(q.p.lower[String(l)]!, q.p.upper[String(l)]!);
+    for (const l of levels) ys.push(q.p.lower[l.key]!, q.p.upper[l.key]!);
   }
   const checked = s.checked
     .map((c) => ({ c, x: tl.ofIndex(c.index, c.time) }))
@@ -195,7 +196,7 @@ export function fanChart(s: SeriesResult, id: string): string {
   const out: string[] = [];
   const desc =
     `Observed values${hist.length ? ` (${hist.length} most recent)` : ''}, the ${s.method ? (METHOD_LABEL[s.method] ?? s.method) : ''} forecast ` +
-    `over ${s.forecast.length} steps with ${levels.map((l) => `${l}%`).join(' and ')} prediction intervals` +
+    `over ${s.forecast.length} steps with ${ascending.map((l) => l.label).join(' and ')} prediction intervals` +
     (checked.length
       ? `, ${checked.length} checked observations (${checked.filter((q) => q.c.alarm).length} alarms)`
       : '') +
@@ -208,8 +209,7 @@ export function fanChart(s: SeriesResult, id: string): string {
 
   // Bands, widest first so narrower ones sit on top. Anchored at the last observation.
   const origin = lastObs ? { x: tl.ofIndex(lastObs.index, lastObs.time), v: lastObs.value! } : null;
-  levels.forEach((l, k) => {
-    const key = String(l);
+  levels.forEach(({ key, label, value }, k) => {
     const pts = fc
       .filter((q) => isNum(q.p.lower[key]) && isNum(q.p.upper[key]))
       .map((q) => ({ x: q.x, lo: q.p.lower[key]!, hi: q.p.upper[key]! }));
@@ -220,7 +220,7 @@ export function fanChart(s: SeriesResult, id: string): string {
       .y1((p) => y(p.hi))(pts);
     if (d)
       out.push(
-        `<path class="band band-${Math.min(k, 3)}" data-level="${l}" d="${d}"><title>${l}% interval</title></path>`,
+        `<path class="band band-${Math.min(k, 3)}" data-level="${value}" d="${d}"><title>${label} interval</title></path>`,
       );
   });
 
@@ -260,7 +260,7 @@ export function fanChart(s: SeriesResult, id: string): string {
   for (const { c, x: cxv } of checked) {
     const cx = f(X(cxv));
     const cy = f(y(c.value));
-    const tip = `${when(c.time, s.spacing) ?? `point ${c.index + 1}`}: ${num(c.value, 6)}, interval ${num(c.lower)} to ${num(c.upper)} (${c.level}%)${c.alarm ? ', alarm' : c.outside ? ', outside' : ''}`;
+    const tip = `${when(c.time, s.spacing) ?? `point ${c.index + 1}`}: ${num(c.value, 6)}, interval ${num(c.lower)} to ${num(c.upper)} (${levelLabel(c.level)})${c.alarm ? ', alarm' : c.outside ? ', outside' : ''}`;
     out.push(
       `<line class="check-range" x1="${cx}" x2="${cx}" y1="${f(y(c.lower))}" y2="${f(y(c.upper))}"/>` +
         `<line class="check-range" x1="${f(X(cxv) - 4)}" x2="${f(X(cxv) + 4)}" y1="${f(y(c.lower))}" y2="${f(y(c.lower))}"/>` +

@@ -11,7 +11,8 @@ import type {
   Verdict,
 } from '../results.js';
 import { sideAlpha } from '../alarms/index.js';
-import { escapeMarkdown as md, num, numsApart, pct, plural, pval } from '../text/index.js';
+import { levelKey, levelOutside, normaliseLevels } from '../engine/levels.js';
+import { escapeMarkdown as md, levelLabel, num, numsApart, pct, plural, pval } from '../text/index.js';
 import { failedCheckKeys, isJudged, needsAttention, severityRank } from '../verdict.js';
 import {
   METHOD_LABEL,
@@ -118,6 +119,18 @@ export interface CalibrationRow {
   judgement: string;
 }
 
+/** An interval level as the report shows it: its number, its key in per-level records, its label. */
+export interface LevelView {
+  value: number;
+  key: string;
+  label: string;
+}
+
+/** The levels in the one order every table, chart and key uses (ascending, each once). */
+export function levelViews(levels: readonly number[]): LevelView[] {
+  return normaliseLevels(levels).map((value) => ({ value, key: levelKey(value), label: levelLabel(value) }));
+}
+
 export interface SeriesView {
   section: number;
   name: string;
@@ -127,7 +140,8 @@ export interface SeriesView {
   facts: string;
   checked: CheckedRow[];
   forecast: ForecastRow[];
-  forecastLevels: string[];
+  /** The series' interval levels, ascending: what the forecast columns, charts and keys show. */
+  levels: LevelView[];
   forecastNote: string | null;
   backtest: BacktestRow[];
   backtestScore: string;
@@ -252,7 +266,7 @@ function checkedRow(s: SeriesResult, c: CheckedObservation): CheckedRow {
     where: checkedWhere(s, c),
     value,
     expected: num(c.mean),
-    interval: `${lower} to ${upper} (${c.level}%)`,
+    interval: `${lower} to ${upper} (${levelLabel(c.level)})`,
     result,
     p: c.adjustedP !== c.pValue ? `${pval(c.pValue)} (adjusted ${pval(c.adjustedP)})` : pval(c.pValue),
     z: Number.isFinite(c.z) ? `${c.z >= 0 ? '+' : '−'}${Math.abs(c.z).toFixed(2)}` : 'n/a',
@@ -278,7 +292,9 @@ function attentionRow(s: SeriesResult, section: number): AttentionRow {
     why: md(s.reason) || md(VERDICT_LABEL[s.verdict]),
     spark: sparkline(s.history.map((h) => h.value)),
     latest: lastIsChecked ? valueAndBounds(last)[0] : lastValue ? num(lastValue.value, 6) : 'n/a',
-    expected: lastIsChecked ? `${valueAndBounds(last).slice(1).join(' to ')} (${last.level}%)` : '',
+    expected: lastIsChecked
+      ? `${valueAndBounds(last).slice(1).join(' to ')} (${levelLabel(last.level)})`
+      : '',
     where: lastValue ? locate(s.file, lastValue.row) : md(s.file),
   };
 }
@@ -440,14 +456,14 @@ function calibrationRows(s: SeriesResult): CalibrationRow[] {
   const rows: CalibrationRow[] = [];
   for (const [kind, levels] of Object.entries(chosen.coverage)) {
     if (!levels) continue;
-    const entries = Object.entries(levels).sort((a, b) => Number(a[0]) - Number(b[0]));
-    for (const [level, cov] of entries) {
+    for (const level of levelViews(Object.keys(levels).map(Number))) {
+      const cov = levels[level.key]!;
       rows.push({
         kind: md(kind),
         used: kind === s.intervalKind,
-        level: `${md(level)}%`,
+        level: level.label,
         coverage: pct(cov),
-        judgement: calibrationWords(cov, Number(level), chosen.origins),
+        judgement: calibrationWords(cov, level.value, chosen.origins),
       });
     }
   }
@@ -476,17 +492,19 @@ function facts(s: SeriesResult): string {
   }
   if (s.sigma !== null && s.sigma !== undefined)
     parts.push(`residual sd ${num(s.sigma)}${s.sigmaDf ? ` (df ${s.sigmaDf})` : ''}`);
-  parts.push(`watching ${s.direction === 'both' ? 'both sides' : s.direction} at ${s.alarmLevel}%`);
+  parts.push(
+    `watching ${s.direction === 'both' ? 'both sides' : s.direction} at ${levelLabel(s.alarmLevel)}`,
+  );
   return parts.join(' · ');
 }
 
 function seriesView(s: SeriesResult, section: number, chart: ChartView | null): SeriesView {
-  const levels = [...s.levels].sort((a, b) => a - b);
+  const levels = levelViews(s.levels);
   const forecast = s.forecast.slice(0, FORECAST_ROWS).map((f) => ({
     step: f.step,
     time: when(f.time, s.spacing) ?? `+${f.step}`,
     mean: num(f.mean),
-    bands: levels.map((l) => `${num(f.lower[String(l)])} to ${num(f.upper[String(l)])}`),
+    bands: levels.map((l) => `${num(f.lower[l.key])} to ${num(f.upper[l.key])}`),
   }));
   const bt = s.backtest;
   return {
@@ -498,7 +516,7 @@ function seriesView(s: SeriesResult, section: number, chart: ChartView | null): 
     facts: facts(s),
     checked: s.checked.slice(-CHECKED_ROWS).map((c) => checkedRow(s, c)),
     forecast,
-    forecastLevels: levels.map((l) => `${l}%`),
+    levels,
     forecastNote:
       s.forecast.length > FORECAST_ROWS
         ? `The first ${FORECAST_ROWS} of ${s.forecast.length} steps; the results JSON has all of them.`
@@ -529,6 +547,32 @@ function seriesView(s: SeriesResult, section: number, chart: ChartView | null): 
  * observations would raise at least one alarm if nothing had changed, 1 − Π(1 − αᵢ) over the checked
  * observations (independent checks, each at its per-observation rate αᵢ).
  */
+/**
+ * How often an interval is expected to miss, at the alarm level(s) the run's series use: 95 -> "about
+ * one time in 20", 80 -> "one time in 5"; a level whose miss rate is no whole fraction (85) -> "about
+ * 15 times in 100".
+ */
+export function missWords(level: number): string {
+  const miss = levelOutside(level);
+  const oneIn = 1 / miss;
+  const whole = Math.round(oneIn);
+  return Math.abs(oneIn - whole) <= 0.01 * oneIn
+    ? `one time in ${num(whole)}`
+    : `${num(miss * 100, 3)} times in 100`;
+}
+
+/** The report's standing caution, with the miss rate of the alarm level(s) actually configured. */
+export function cautionLine(results: Results): string {
+  const first = 'Forecasts are estimates with stated uncertainty, not guarantees';
+  const levels = levelViews(results.series.map((s) => s.alarmLevel));
+  if (levels.length === 0) return `${first}.`;
+  const said = levels.map(
+    (l, k) =>
+      `${k === 0 ? 'an interval' : 'one'} at ${l.label} ${k === 0 ? 'is expected to miss ' : ''}about ${missWords(l.value)}`,
+  );
+  return `${first}: ${said.join(', ')}.`;
+}
+
 export function chanceSentence(results: Results): string {
   const sum = results.summary;
   const adjust =
@@ -677,8 +721,7 @@ export function buildView(results: Results, opts: ViewOptions = {}): ReportView 
     gatePassed: results.gate.passed,
     counts: countParts.join(' · '),
     falseAlarms,
-    caution:
-      'Forecasts are estimates with stated uncertainty, not guarantees: an interval at 95% is expected to miss about one time in twenty.',
+    caution: cautionLine(results),
     generated: `Leadline ${md(results.generator.version)}${results.config ? ` · config ${md(results.config)}` : ''} · ${md(when(results.generatedAt, 'minute') ?? results.generatedAt)}`,
     runNotes: (results.notes ?? []).map(md),
     problems: results.problems.map((p) => ({

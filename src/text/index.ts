@@ -1,5 +1,5 @@
 // Words and numbers: the one place for number and p-value formatting, counted nouns, "did you mean"
 // suggestions and escaping untrusted text for markdown, HTML, Mermaid, annotations and the terminal.
-export { agree, num, numsApart, P_FLOOR, pct, pIs, plural, pval } from './numbers.js';
+export { agree, levelLabel, num, numsApart, P_FLOOR, pct, pIs, plural, pval } from './numbers.js';
 export { didYouMean, nearest } from './suggest.js';
 export { escapeHtml, escapeMarkdown, escapeMessage, mermaidLabel, oneLine, terminalSafe } from './escape.js';

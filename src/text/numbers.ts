@@ -80,6 +80,11 @@ export function pIs(p: number | null | undefined, opts: { atMost?: boolean } = {
   return /^[<≤]/.test(v) ? `p ${v}` : `p = ${v}`;
 }
 
+/** An interval level as people read it: 95 -> "95%", 97.5 -> "97.5%". */
+export function levelLabel(level: number): string {
+  return `${level}%`;
+}
+
 /** A share as a percentage, e.g. 0.934 -> "93.4%". */
 export function pct(x: number | null | undefined, decimals = 1): string {
   if (x === null || x === undefined || !Number.isFinite(x)) return 'n/a';
