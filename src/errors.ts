@@ -1,5 +1,5 @@
 // Leadline's own error type: everything a user can act on. Never shown with a stack trace.
-import { visible } from './untrusted.js';
+import { visible } from './text/index.js';
 
 export interface Where {
   file?: string | null;

@@ -8,7 +8,7 @@ import picomatch from 'picomatch';
 import { isDynamicPattern } from 'tinyglobby';
 import { loadPlan } from './config/index.js';
 import { LeadlineError } from './errors.js';
-import { visible } from './untrusted.js';
+import { visible } from './text/index.js';
 import type { Results, SeriesResult } from './results.js';
 
 /** Resolves a path and follows symlinks as far as they exist (the file itself may not exist yet). */

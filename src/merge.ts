@@ -25,6 +25,7 @@ import {
 import { MAX_SHARDS, shardLabel } from './shard.js';
 import { VERSION } from './version.js';
 import type { z } from 'zod';
+import { agree, plural } from './text/index.js';
 
 /** Largest results file read (50,000 series at 8 KB each are 400 MB across all shards). */
 export const MAX_RESULTS_FILE_BYTES = 1024 ** 3;
@@ -344,8 +345,8 @@ function checkHeads(files: string[], heads: Head[], expect: ExpectedEvent | unde
   if (missing.length > 0)
     throw new LeadlineError(
       'data',
-      `shard${missing.length === 1 ? '' : 's'} ${missing.slice(0, 10).join(', ')}${missing.length > 10 ? ', …' : ''} ${missing.length === 1 ? 'is' : 'are'} missing: ` +
-        `${files.length} file${files.length === 1 ? '' : 's'} given for a run split into ${count}. Give every shard's results file.`,
+      `${agree(missing.length, 'shard')} ${missing.slice(0, 10).join(', ')}${missing.length > 10 ? ', …' : ''} ${agree(missing.length, 'is', 'are')} missing: ` +
+        `${plural(files.length, 'file')} given for a run split into ${count}. Give every shard's results file.`,
     );
 }
 

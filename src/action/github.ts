@@ -4,7 +4,7 @@ import * as core from '@actions/core';
 import { getOctokit } from '@actions/github';
 import { retry } from '@octokit/plugin-retry';
 import { throttling } from '@octokit/plugin-throttling';
-import { logSafe } from '../untrusted.js';
+import { logSafe } from '../text/index.js';
 
 export interface IssueComment {
   id: number;

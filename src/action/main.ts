@@ -8,12 +8,11 @@ import { isLeadlineError, LeadlineError } from '../errors.js';
 import { mergeResults, type ExpectedEvent } from '../merge.js';
 import { shardLabel } from '../shard.js';
 import { filesRead, outputProblems, inputGuard, InputGuard, resultsJson, writeOutput } from '../files.js';
-import { escapeMessage as escapeText, plural } from '../text/index.js';
+import { escapeMessage as escapeText, logSafe, plural, visible } from '../text/index.js';
 import { runJob, type JobOptions } from '../job.js';
 import { VERDICT_LABEL } from '../report/format.js';
 import { renderHtml, renderMarkdown } from '../report/index.js';
 import { RESULTS_SCHEMA_ID, type Results } from '../results.js';
-import { logSafe, visible } from '../untrusted.js';
 import { VERSION } from '../version.js';
 import { planAnnotations, type Annotation } from './annotations.js';
 import {
@@ -215,7 +214,7 @@ async function runAction(d: ActionDeps): Promise<void> {
       mergeFiles.push(...(await resultsFiles(s)));
       const trusted = await trustedPullRequest(d, s, event.facts, token);
       if (trusted?.dest) dest = trusted.dest;
-      info(`Merging ${mergeFiles.length} results file${mergeFiles.length === 1 ? '' : 's'}.`);
+      info(`Merging ${plural(mergeFiles.length, 'results file')}.`);
       const merged = await mergeResults(mergeFiles, {
         failOn: s.failOn,
         ...(trusted?.expect ? { expect: trusted.expect } : {}),

@@ -5,7 +5,7 @@ import { LeadlineError } from '../errors.js';
 import type { EventFacts } from './event.js';
 import type { Issue, IssueApi, IssueComment } from './github.js';
 import { ApiFault, httpStatus } from './github.js';
-import { visible } from '../untrusted.js';
+import { plural, visible } from '../text/index.js';
 
 /**
  * The hidden marker for a config's report, e.g. `<!-- leadline:report:.github/leadline.yml -->`.
@@ -59,7 +59,7 @@ function ignoredNote<T extends { author: string | null; url: string }>(
   if (foreign.length === 0) return [];
   const by = [...new Set(foreign.map((f) => visible(f.author ?? 'an unknown author')))].join(', ');
   return [
-    `Ignored ${foreign.length} ${what}${foreign.length === 1 ? '' : 's'} carrying Leadline's marker but written by ${by}, not by ${visible(me)} (this token): Leadline edits, deletes and closes only its own (${foreign
+    `Ignored ${plural(foreign.length, what)} carrying Leadline's marker but written by ${by}, not by ${visible(me)} (this token): Leadline edits, deletes and closes only its own (${foreign
       .slice(0, 3)
       .map((f) => f.url)
       .join(', ')}).`,

@@ -16,7 +16,7 @@ import {
 } from '../files.js';
 import { mergeResults } from '../merge.js';
 import { VERSION } from '../version.js';
-import { safeStream } from '../untrusted.js';
+import { safeStream } from '../text/index.js';
 import { compareWithBase, headCommit, systemGit } from '../action/git.js';
 import { shardLabel } from '../shard.js';
 import { HELP, parseCli, type CliSettings } from './args.js';

@@ -3,8 +3,7 @@
 import { VERDICT_LABEL } from '../report/format.js';
 import { chanceSentence, needsAttention, placement, reportOrder } from '../report/view.js';
 import type { Results, SeriesResult, Verdict } from '../results.js';
-import { levelLabel, numsApart, plural } from '../text/index.js';
-import { shorten, visible } from '../untrusted.js';
+import { levelLabel, numsApart, plural, shorten, visible } from '../text/index.js';
 
 const CODES = { red: 31, green: 32, yellow: 33, blue: 34, dim: 2, bold: 1 } as const;
 type Paint = (c: keyof typeof CODES, s: string) => string;

@@ -5,7 +5,7 @@ import { isCollection, isSeq, LineCounter, parseDocument, visit, type Document }
 import type { z } from 'zod';
 import { normaliseLevels } from '../engine/levels.js';
 import { LeadlineError } from '../errors.js';
-import { nearest } from '../text/index.js';
+import { nearest, plural } from '../text/index.js';
 
 import type { DurationUnit, LimitOptions, MetricOptions, MetricPlan, Plan } from './types.js';
 import { DEFAULT_RISK, DEFAULTS, defaultMinTrain } from './defaults.js';
@@ -86,10 +86,7 @@ export function parsePlan(text: string, configPath: string): Plan {
   if (doc.errors.length > 0) {
     const e = doc.errors[0]!;
     const pos = e.linePos?.[0] ?? lc.linePos(e.pos[0]);
-    const more =
-      doc.errors.length > 1
-        ? ` (and ${doc.errors.length - 1} more YAML problem${doc.errors.length > 2 ? 's' : ''})`
-        : '';
+    const more = doc.errors.length > 1 ? ` (and ${plural(doc.errors.length - 1, 'more YAML problem')})` : '';
     fail(`YAML syntax error: ${firstLine(e.message)}${more}.`, { line: pos.line, column: pos.col });
   }
   // A key that is a list or mapping (`? [a, b]`) has no place in the config; YAML would turn it into
@@ -459,7 +456,7 @@ function fromIssue(issue: Issue, root: unknown): Problem[] {
           {
             path,
             message: small
-              ? `Expected at least ${bound} entr${bound === 1 ? 'y' : 'ies'}, found ${found}.`
+              ? `Expected at least ${plural(Number(bound), 'entry', 'entries')}, found ${found}.`
               : `Expected at most ${bound} entries, found ${found}.`,
           },
         ];

@@ -43,6 +43,7 @@ import type {
   MethodBacktest,
   ResidualChecks,
 } from './types.js';
+import { agree } from '../text/index.js';
 
 /** Default minimum number of backtest errors per step for empirical intervals. */
 export const DEFAULT_MIN_ERRORS = 20;
@@ -189,7 +190,7 @@ export function makeForecast(fit: Fit, o: ForecastOptions): Forecast {
       }
       if (thin.length > 0)
         notes.push(
-          `Empirical intervals: step${thin.length === 1 ? '' : 's'} ${ranges(thin)} ${thin.length === 1 ? 'has' : 'have'} fewer than ${minErrors} backtest errors (or ${thin.length === 1 ? 'lies' : 'lie'} beyond the backtest horizon of ${bt.errors.length}) and ${thin.length === 1 ? 'uses' : 'use'} analytic bands.`,
+          `Empirical intervals: ${agree(thin.length, 'step')} ${ranges(thin)} ${agree(thin.length, 'has', 'have')} fewer than ${minErrors} backtest errors (or ${agree(thin.length, 'lies', 'lie')} beyond the backtest horizon of ${bt.errors.length}) and ${agree(thin.length, 'uses', 'use')} analytic bands.`,
         );
     }
   }

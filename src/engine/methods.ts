@@ -18,6 +18,7 @@
 // differences (m + 2 values). Shorter series give a FitFailure with the reason.
 import type { Fit, FitFailure, MethodName } from './types.js';
 import { fmt, meanAndSquares, present } from './numeric.js';
+import { agree, plural } from '../text/index.js';
 
 const LABEL: Record<MethodName, string> = {
   mean: 'mean',
@@ -141,7 +142,7 @@ function fitDifference(
         : 'at least 2 pairs of consecutive observed values, i.e. 3 values without gaps';
     return {
       method,
-      reason: `The ${LABEL[method]} method needs ${need} to estimate sigma; the series has ${nres} such pair${nres === 1 ? '' : 's'} (${count} observed of ${T}).`,
+      reason: `The ${LABEL[method]} method needs ${need} to estimate sigma; the series has ${plural(nres, 'such pair', 'such pairs')} (${count} observed of ${T}).`,
     };
   }
   const df = nres - 1;
@@ -211,7 +212,7 @@ function fitDifference(
       if (empty.length > 0)
         return {
           method,
-          reason: `The seasonal naive method needs an observed value in every season position; position${empty.length === 1 ? '' : 's'} ${empty.slice(0, 5).join(', ')} ${empty.length === 1 ? 'has' : 'have'} none.`,
+          reason: `The seasonal naive method needs an observed value in every season position; ${agree(empty.length, 'position')} ${empty.slice(0, 5).join(', ')} ${agree(empty.length, 'has', 'have')} none.`,
         };
       const source = (h: number): { index: number; k: number } => {
         const t = T - 1 + h;

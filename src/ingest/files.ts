@@ -6,7 +6,7 @@ import { readdir, realpath, stat } from 'node:fs/promises';
 import path from 'node:path';
 import { glob, isDynamicPattern } from 'tinyglobby';
 import { LeadlineError } from '../errors.js';
-import { nearest, visible } from '../untrusted.js';
+import { nearest, visible } from '../text/index.js';
 
 const toPosix = (p: string): string => p.split(path.sep).join('/');
 

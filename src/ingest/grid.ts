@@ -11,6 +11,7 @@
 // the grid (a job that ran a few minutes late, a daylight-saving shift in the offsets) are moved to
 // it and a note says how far the largest move was. Grid points without a row are gaps (NaN).
 import type { Spacing } from '../terms.js';
+import { plural } from '../text/index.js';
 
 const SECOND = 1000;
 const MINUTE = 60 * SECOND;
@@ -131,7 +132,7 @@ export function describeMs(ms: number): string {
   for (const [u, name] of pick) {
     if (a >= u) {
       const v = Math.round((a / u) * 10) / 10;
-      return `${v} ${name}${v === 1 ? '' : 's'}`;
+      return plural(v, name);
     }
   }
   return `${a} ms`;

@@ -27,7 +27,7 @@ import {
   type NumberTimeUnit,
   type TimeFormat,
 } from './times.js';
-import { displayName, nearest, shorten, visible } from '../untrusted.js';
+import { agree, displayName, nearest, plural, shorten, visible } from '../text/index.js';
 
 export { autoSeason, chooseSeason, type SeasonChoice } from './season.js';
 export { resolveFiles } from './files.js';
@@ -468,7 +468,7 @@ function layoutTimed(
   if (outOfOrder > 0) {
     order.sort((a, b) => ms[a]! - ms[b]! || a - b);
     notes.push(
-      `${outOfOrder} row${outOfOrder === 1 ? ' was' : 's were'} out of time order in the file; the series is sorted by time.`,
+      `${plural(outOfOrder, 'row was', 'rows were')} out of time order in the file; the series is sorted by time.`,
     );
   }
   const distinct: number[] = [];
@@ -476,7 +476,7 @@ function layoutTimed(
     if (distinct.length === 0 || ms[r]! !== distinct[distinct.length - 1]) distinct.push(ms[r]!);
   if (order.length < MIN_OBSERVATIONS) {
     return tooFew(
-      `Only ${order.length} row${order.length === 1 ? '' : 's'}${key !== null ? ` for key "${displayName(key)}"` : ''}; at least ${MIN_OBSERVATIONS} observations are needed.`,
+      `Only ${plural(order.length, 'row')}${key !== null ? ` for key "${displayName(key)}"` : ''}; at least ${MIN_OBSERVATIONS} observations are needed.`,
       t.file,
     );
   }
@@ -524,18 +524,18 @@ function layoutTimed(
   if (merged > 0) {
     const how = m.duplicates === 'mean' ? 'their values averaged' : `the ${m.duplicates} row kept`;
     notes.push(
-      `${merged} row${merged === 1 ? '' : 's'} fell on a time already taken; ${how} (duplicates: ${m.duplicates}).`,
+      `${plural(merged, 'row')} fell on a time already taken; ${how} (duplicates: ${m.duplicates}).`,
     );
   }
   if (moved > 0) {
     notes.push(
-      `${moved} time${moved === 1 ? ' was' : 's were'} off the ${describeStep(spec)} grid and moved to the nearest grid point (at most ${describeMs(maxOffset)}).`,
+      `${plural(moved, 'time was', 'times were')} off the ${describeStep(spec)} grid and moved to the nearest grid point (at most ${describeMs(maxOffset)}).`,
     );
   }
   if (n > slots.length) {
     const gaps = n - slots.length;
     notes.push(
-      `${gaps} missing ${describeStep(spec)}${gaps === 1 ? '' : 's'} in the time grid ${gaps === 1 ? 'is' : 'are'} treated as missing values.`,
+      `${plural(gaps, `missing ${describeStep(spec)}`)} in the time grid ${agree(gaps, 'is', 'are')} treated as missing values.`,
     );
   }
   const grid = new Float64Array(n);
@@ -637,13 +637,13 @@ function buildSeries(
   for (let i = 0; i < values.length; i++) if (!Number.isNaN(values[i]!)) observed++;
   if (observed < MIN_OBSERVATIONS) {
     return tooFew(
-      `Only ${observed} observation${observed === 1 ? '' : 's'} in column "${visible(column)}"${key !== null ? ` for key "${displayName(key)}"` : ''}; at least ${MIN_OBSERVATIONS} are needed.`,
+      `Only ${plural(observed, 'observation')} in column "${visible(column)}"${key !== null ? ` for key "${displayName(key)}"` : ''}; at least ${MIN_OBSERVATIONS} are needed.`,
       t.file,
     );
   }
   const notes = [...layout.notes];
   if (blanks > 0)
-    notes.push(`${blanks} blank cell${blanks === 1 ? ' was' : 's were'} read as missing (blanks: missing).`);
+    notes.push(`${plural(blanks, 'blank cell was', 'blank cells were')} read as missing (blanks: missing).`);
   return {
     name: seriesName(m, column, key, t.file, multi),
     metric: m.name,

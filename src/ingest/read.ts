@@ -7,6 +7,7 @@ import { Readable } from 'node:stream';
 import { CsvError, parse } from 'csv-parse';
 import { LeadlineError } from '../errors.js';
 import { parseTimeCell, TimeKind } from './times.js';
+import { plural } from '../text/index.js';
 
 /** What a metric wants from a column. */
 export interface ColumnRoles {
@@ -281,7 +282,7 @@ export async function readTable(abs: string, file: string, wanted: Map<string, C
         'data',
         comma
           ? `This row has ${record.length} fields but the header has ${width}: "${comma}" looks like a number with a decimal comma. Write it with a point (${comma.replace(',', '.')}), or quote it ("${comma}"), or use ";" as the delimiter.`
-          : `This row has ${record.length} field${record.length === 1 ? '' : 's'} but the header has ${width}; a value containing the delimiter ${JSON.stringify(table.delimiter)} must be quoted.`,
+          : `This row has ${plural(record.length, 'field')} but the header has ${width}; a value containing the delimiter ${JSON.stringify(table.delimiter)} must be quoted.`,
         { file, line: startLine },
       );
     }

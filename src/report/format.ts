@@ -1,7 +1,7 @@
 // Time and verdict wording shared by the markdown and HTML reports. Numbers, p-values and counted
 // nouns are formatted by src/text.
 import type { Spacing, Verdict } from '../results.js';
-import { shorten } from '../untrusted.js';
+import { shorten } from '../text/index.js';
 
 /** A time for tables: the date alone for whole days, otherwise date and time in UTC. */
 export function when(iso: string | null, spacing?: Spacing): string | null {

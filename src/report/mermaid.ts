@@ -148,7 +148,7 @@ export function mermaidChart(s: SeriesResult): MermaidChart | null {
   if (hasLimit) parts.push(`grey: the limit, ${num(s.limit!.value, 6)}`);
   let legend = parts.join('; ') + '.';
   if (filled > 0)
-    legend += ` ${filled} missing value${filled === 1 ? ' is' : 's are'} drawn at the previous value.`;
+    legend += ` ${plural(filled, 'missing value is', 'missing values are')} drawn at the previous value.`;
   return { source, legend };
 }
 

@@ -12,7 +12,7 @@ import type {
 } from '../results.js';
 import { sideAlpha } from '../alarms/index.js';
 import { levelKey, levelOutside, normaliseLevels } from '../engine/levels.js';
-import { escapeMarkdown as md, levelLabel, num, numsApart, pct, plural, pval } from '../text/index.js';
+import { agree, escapeMarkdown as md, levelLabel, num, numsApart, pct, plural, pval } from '../text/index.js';
 import { failedCheckKeys, isJudged, needsAttention, severityRank } from '../verdict.js';
 import {
   METHOD_LABEL,
@@ -487,7 +487,7 @@ function facts(s: SeriesResult): string {
       parts.push(`${md(s.intervalKind)} intervals`);
     else
       parts.push(
-        `${md(s.intervalKind)} intervals for the forecast, ${judged.map(md).join(' and ')} for the checked ${s.checked.length === 1 ? 'row' : 'rows'}`,
+        `${md(s.intervalKind)} intervals for the forecast, ${judged.map(md).join(' and ')} for the checked ${agree(s.checked.length, 'row')}`,
       );
   }
   if (s.sigma !== null && s.sigma !== undefined)
@@ -625,7 +625,7 @@ export function scopeLine(results: Results): string | null {
   if (parts.length > 0) sentences.push(`This pull request adds ${list(parts)}.`);
   if (added.length > 0)
     sentences.push(
-      `It adds the new metric ${added.length === 1 ? 'file' : 'files'} ${list(added.map((f) => md(f.file)))}; only ${added.length === 1 ? 'its' : 'their'} last row is checked.`,
+      `It adds the new metric ${agree(added.length, 'file')} ${list(added.map((f) => md(f.file)))}; only ${agree(added.length, 'its', 'their')} last row is checked.`,
     );
   if (sentences.length === 0) return 'This pull request adds no row to any metric file: nothing was checked.';
   if (sc.gate === 'all') sentences.push('Every series is judged (pullRequestGate: all).');

@@ -7,7 +7,7 @@
 // result is safe both in markdown text and inside the HTML blocks of a comment (<summary>, <td>).
 // Backslash escapes would not be: inside an HTML block GitHub shows the backslash.
 // Invisible and direction-changing characters are shown as escapes (\u202E), never applied.
-import { visible } from '../untrusted.js';
+import { visible } from './untrusted.js';
 
 // eslint-disable-next-line no-control-regex -- matching control characters is the point
 const CONTROL = /[\u0000-\u0008\u000b\u000c\u000e-\u001f\u007f\u2028\u2029]/g;
@@ -79,10 +79,4 @@ const SPACE_OR_CONTROL = /[\u0000-\u001f\u007f-\u009f\s]+/g;
 export function oneLine(s: string, max = 300): string {
   const t = String(s).replace(SPACE_OR_CONTROL, ' ').trim();
   return t.length > max ? `${t.slice(0, max - 1)}…` : t;
-}
-
-/** Text for the terminal: control characters (which could be escape sequences) become spaces. */
-export function terminalSafe(s: string): string {
-  // eslint-disable-next-line no-control-regex -- matching control characters is the point
-  return String(s).replace(/[\u0000-\u001f\u007f-\u009f]/g, ' ');
 }

@@ -2,4 +2,5 @@
 // suggestions and escaping untrusted text for markdown, HTML, Mermaid, annotations and the terminal.
 export { agree, levelLabel, num, numsApart, P_FLOOR, pct, pIs, plural, pval } from './numbers.js';
 export { didYouMean, nearest } from './suggest.js';
-export { escapeHtml, escapeMarkdown, escapeMessage, mermaidLabel, oneLine, terminalSafe } from './escape.js';
+export { escapeHtml, escapeMarkdown, escapeMessage, mermaidLabel, oneLine } from './escape.js';
+export { DISPLAY_MAX, displayName, logSafe, safeStream, shorten, visible } from './untrusted.js';

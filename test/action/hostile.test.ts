@@ -7,7 +7,7 @@ import path from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { compareWithBase, systemGit } from '../../src/action/git.js';
 import { marker, syncTrackingIssue, upsertComment } from '../../src/action/publish.js';
-import { logSafe, safeStream, visible } from '../../src/untrusted.js';
+import { logSafe, safeStream, visible } from '../../src/text/index.js';
 import { FakeGitHub, git } from './helpers.js';
 
 const dirs: string[] = [];

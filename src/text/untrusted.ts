@@ -51,9 +51,6 @@ export function displayName(text: string, max = DISPLAY_MAX): string {
   return shorten(visible(text), max);
 }
 
-/** "Did you mean": the one rule lives in src/text/suggest.ts. */
-export { nearest } from './text/index.js';
-
 /**
  * Text for the job log (stdout or stderr). The runner reads any line whose first non-blank characters
  * are `::` as a workflow command (`::stop-commands::`, `::add-mask::`, `::error::` …); such a line gets a
