@@ -438,7 +438,7 @@ function checkRows(s: SeriesResult): CheckRow[] {
  * steps is correlated, so this is a rough yardstick, and the wording says so).
  */
 export function calibrationWords(coverage: number, level: number, origins: number): string {
-  const p = level / 100;
+  const p = 1 - levelOutside(level);
   if (!Number.isFinite(coverage) || origins <= 0) return 'not measured';
   const tol = 2 * Math.sqrt((p * (1 - p)) / origins);
   const gap = coverage - p;
