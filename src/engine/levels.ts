@@ -17,9 +17,14 @@ export function normaliseLevels(levels: readonly number[]): number[] {
   return [...new Set(levels)].sort((a, b) => a - b);
 }
 
+/** The probability inside an interval at `level`: level/100. */
+export function levelShare(level: number): number {
+  return level / 100;
+}
+
 /** The probability outside a two-sided interval at `level`: 1 − level/100. */
 export function levelOutside(level: number): number {
-  return 1 - level / 100;
+  return 1 - levelShare(level);
 }
 
 /** The probability beyond each bound of a two-sided interval at `level`: (1 − level/100)/2. */

@@ -11,7 +11,7 @@ import type {
   Verdict,
 } from '../results.js';
 import { sideAlpha } from '../alarms/index.js';
-import { levelKey, levelOutside, normaliseLevels } from '../engine/levels.js';
+import { levelKey, levelOutside, levelShare, normaliseLevels } from '../engine/levels.js';
 import { agree, escapeMarkdown as md, levelLabel, num, numsApart, pct, plural, pval } from '../text/index.js';
 import { failedCheckKeys, isJudged, needsAttention, severityRank } from '../verdict.js';
 import {
@@ -438,7 +438,7 @@ function checkRows(s: SeriesResult): CheckRow[] {
  * steps is correlated, so this is a rough yardstick, and the wording says so).
  */
 export function calibrationWords(coverage: number, level: number, origins: number): string {
-  const p = 1 - levelOutside(level);
+  const p = levelShare(level);
   if (!Number.isFinite(coverage) || origins <= 0) return 'not measured';
   const tol = 2 * Math.sqrt((p * (1 - p)) / origins);
   const gap = coverage - p;
