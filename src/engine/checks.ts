@@ -28,9 +28,10 @@
 // (m - j + 1) p_(j)); a test is flagged (ok false) when its adjusted p is below 0.05. A flag is a
 // caveat about the model (its intervals may be off), not a finding about the newest data.
 import { chiSquareCdf, fCdf, tCdf } from './dist.js';
-import { fmt, fmtP, meanAndSquares, powerOfTwoBelow, sortedQuantile } from './numeric.js';
+import { fmt, meanAndSquares, powerOfTwoBelow, sortedQuantile } from './numeric.js';
 import { methodLabel } from './methods.js';
 import type { Fit, ResidualChecks, TestResult } from './types.js';
+import { pIs } from '../text/index.js';
 
 /** Default Ljung–Box lags (docs/design.md): min(10, floor(T/5)) without a season, min(2m, floor(T/5)) with one; at least 1. */
 export function defaultLags(n: number, season: number): number {
@@ -111,8 +112,8 @@ export function runResidualTests(fit: Fit, lags?: number): ResidualChecks {
     };
     family.push({
       test: ljungBox,
-      good: `No autocorrelation detected in the residuals (Ljung–Box Q = ${fmt(q)} over ${L} lags, df ${df}, ${fmtP(p)})`,
-      bad: `The residuals are autocorrelated (Ljung–Box Q = ${fmt(q)} over ${L} lags, df ${df}, ${fmtP(p)}): the ${label} method leaves a pattern unexplained, so the intervals are likely too narrow and neighbouring alarms are not independent`,
+      good: `No autocorrelation detected in the residuals (Ljung–Box Q = ${fmt(q)} over ${L} lags, df ${df}, ${pIs(p)})`,
+      bad: `The residuals are autocorrelated (Ljung–Box Q = ${fmt(q)} over ${L} lags, df ${df}, ${pIs(p)}): the ${label} method leaves a pattern unexplained, so the intervals are likely too narrow and neighbouring alarms are not independent`,
     });
   }
 
@@ -162,8 +163,8 @@ export function runResidualTests(fit: Fit, lags?: number): ResidualChecks {
     };
     family.push({
       test: bias,
-      good: `No bias detected: the mean residual ${fmt(mean)} is consistent with zero (t = ${fmt(t)}, df ${n - 1}, ${fmtP(p)})`,
-      bad: `The residuals average ${fmt(mean)}, not zero (t = ${fmt(t)}, df ${n - 1}, ${fmtP(p)}): the one-step forecasts run ${mean > 0 ? 'low' : 'high'} by about that much${fit.method === 'naive' || fit.method === 'seasonal-naive' ? ', which a trend would explain (the drift method allows for one)' : ''}, and intervals centred on them are off-centre`,
+      good: `No bias detected: the mean residual ${fmt(mean)} is consistent with zero (t = ${fmt(t)}, df ${n - 1}, ${pIs(p)})`,
+      bad: `The residuals average ${fmt(mean)}, not zero (t = ${fmt(t)}, df ${n - 1}, ${pIs(p)}): the one-step forecasts run ${mean > 0 ? 'low' : 'high'} by about that much${fit.method === 'naive' || fit.method === 'seasonal-naive' ? ', which a trend would explain (the drift method allows for one)' : ''}, and intervals centred on them are off-centre`,
     });
   }
 
@@ -210,8 +211,8 @@ export function runResidualTests(fit: Fit, lags?: number): ResidualChecks {
     };
     family.push({
       test: normality,
-      good: `The residuals are consistent with a normal distribution (Jarque–Bera = ${fmt(jb)}, ${fmtP(p)}; skewness ${fmt(S, 2)}, kurtosis ${fmt(Ku, 3)})`,
-      bad: `The residuals are not normal (Jarque–Bera = ${fmt(jb)}, ${fmtP(p)}; skewness ${fmt(S, 2)}, kurtosis ${fmt(Ku, 3)} against 3 for a normal): Student-t intervals may misstate the tails${Ku > 3 ? ' (heavy tails make extreme values commoner than they allow)' : ''}; bootstrap and empirical intervals do not assume normality`,
+      good: `The residuals are consistent with a normal distribution (Jarque–Bera = ${fmt(jb)}, ${pIs(p)}; skewness ${fmt(S, 2)}, kurtosis ${fmt(Ku, 3)})`,
+      bad: `The residuals are not normal (Jarque–Bera = ${fmt(jb)}, ${pIs(p)}; skewness ${fmt(S, 2)}, kurtosis ${fmt(Ku, 3)} against 3 for a normal): Student-t intervals may misstate the tails${Ku > 3 ? ' (heavy tails make extreme values commoner than they allow)' : ''}; bootstrap and empirical intervals do not assume normality`,
     });
   }
 
@@ -246,7 +247,7 @@ export function runResidualTests(fit: Fit, lags?: number): ResidualChecks {
       const F = bf.statistic;
       const p = 1 - fCdf(F, 1, df2);
       const grows = bf.last > bf.first;
-      const words = `Brown–Forsythe F = ${fmt(F)}, absolute deviations from the median in the last third against the first, df 1 and ${df2}, ${fmtP(p)}`;
+      const words = `Brown–Forsythe F = ${fmt(F)}, absolute deviations from the median in the last third against the first, df 1 and ${df2}, ${pIs(p)}`;
       spread = { name: spreadName, statistic: F, df: df2, pValue: p, adjustedP: p, ok: true, finding: '' };
       family.push({
         test: spread,
@@ -303,7 +304,7 @@ function holm(family: Pending[]): boolean {
     t.test.adjustedP = running;
     t.test.ok = !(running < ALPHA);
     any ||= !t.test.ok;
-    const adj = m > 1 ? `; Holm-adjusted over the ${m} checks, ${fmtP(running)}` : '';
+    const adj = m > 1 ? `; Holm-adjusted over the ${m} checks, ${pIs(running)}` : '';
     if (t.test.ok)
       t.test.finding =
         t.test.pValue < ALPHA

@@ -32,7 +32,7 @@
 import { runResidualTests } from './checks.js';
 import { tCdf, tQuantile } from './dist.js';
 import { checkLevels, levelTail } from './levels.js';
-import { fmtP, meanAndSquares, selectQuantiles, sortedQuantile } from './numeric.js';
+import { meanAndSquares, selectQuantiles, sortedQuantile } from './numeric.js';
 import { simulatePaths } from './simulate.js';
 import type {
   Fit,
@@ -43,7 +43,7 @@ import type {
   MethodBacktest,
   ResidualChecks,
 } from './types.js';
-import { agree } from '../text/index.js';
+import { agree, pIs } from '../text/index.js';
 
 /** Default minimum number of backtest errors per step for empirical intervals. */
 export const DEFAULT_MIN_ERRORS = 20;
@@ -107,7 +107,7 @@ export function chooseIntervalKind(
 ): { kind: IntervalKind; reason: string } {
   const problems: string[] = [];
   const p = (t: ResidualChecks['spread']): string =>
-    Number.isFinite(t.adjustedP) ? `, Holm-adjusted ${fmtP(t.adjustedP)}` : '';
+    Number.isFinite(t.adjustedP) ? `, Holm-adjusted ${pIs(t.adjustedP)}` : '';
   if (!checks.ljungBox.ok) problems.push(`autocorrelated (Ljung–Box${p(checks.ljungBox)})`);
   if (!checks.bias.ok) problems.push(`biased (t-test${p(checks.bias)})`);
   if (!checks.spread.ok) problems.push(`of changing spread (${checks.spread.name}${p(checks.spread)})`);

@@ -11,5 +11,13 @@ export { selectMethod } from './select.js';
 export { simulatePaths } from './simulate.js';
 export { chooseIntervalKind, makeForecast, tailProbability, quantileAt } from './forecast.js';
 export { analyse } from './analyse.js';
-export { bandAt, checkLevels, levelKey, normaliseLevels, levelOutside, levelShare, levelTail } from './levels.js';
+export {
+  bandAt,
+  checkLevels,
+  levelKey,
+  normaliseLevels,
+  levelOutside,
+  levelShare,
+  levelTail,
+} from './levels.js';
 export { significant, toScale } from './numeric.js';

@@ -206,13 +206,6 @@ export function fmt(x: number, digits = 4): string {
   return String(Number(x.toPrecision(digits)));
 }
 
-/** A p-value for text: "p < 0.0001" style below 1e-4, else 2 significant digits. */
-export function fmtP(p: number): string {
-  if (!Number.isFinite(p)) return 'p not computed';
-  if (p < 1e-4) return 'p < 0.0001';
-  return `p = ${Number(p.toPrecision(2))}`;
-}
-
 /**
  * Definition-7 quantiles (see sortedQuantile) of an unsorted sample at several probabilities, by
  * selection instead of a full sort: the needed order statistics are placed with Hoare's
