@@ -367,6 +367,7 @@ function summariseChecks(
     caveat: c.caveat,
     basis,
     observations,
+    residuals: c.residuals,
   };
 }
 

@@ -85,6 +85,8 @@ const residualChecks = z.strictObject({
   basis: z.enum(['before-checked', 'all']).optional(),
   /** Length of the history (rows, missing ones included) that model was fitted to. */
   observations: count.optional(),
+  /** Residuals the checks were computed on; below the engine's minimum (10) no check is computed. */
+  residuals: count.optional(),
 });
 
 const measures = {

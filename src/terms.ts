@@ -18,6 +18,18 @@ export type FalseAlarmControl = (typeof FALSE_ALARM_CONTROLS)[number];
 export const SPACINGS = ['minute', 'hour', 'day', 'week', 'month', 'quarter', 'year', 'row'] as const;
 export type Spacing = (typeof SPACINGS)[number];
 
+/** One step of each spacing in a sentence, e.g. "day" for daily series, "step" for row order. */
+export const STEP_UNIT: Record<Spacing, string> = {
+  minute: 'minute',
+  hour: 'hour',
+  day: 'day',
+  week: 'week',
+  month: 'month',
+  quarter: 'quarter',
+  year: 'year',
+  row: 'step',
+};
+
 /** What makes the run's gate fail (the `fail-on` setting; parsed and decided in src/verdict.ts). */
 export const FAIL_ON_VALUES = ['alarm', 'limit', 'both', 'never'] as const;
 export type FailOn = (typeof FAIL_ON_VALUES)[number];

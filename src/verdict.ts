@@ -2,10 +2,11 @@
 // saying why, the run's verdict, the "needs attention" rule, the `fail-on` setting (parser and each
 // entry's default) and the gate decision. Everything else (the job, the reports, the terminal summary,
 // annotations, the tracking issue) asks here.
+import { MIN_CHECK_RESIDUALS } from './engine/checks.js';
 import { LeadlineError } from './errors.js';
 import type { Results, SeriesResult } from './results.js';
-import { FAIL_ON_VALUES, type FailOn, type Verdict } from './terms.js';
-import { didYouMean, levelLabel, numsApart, num, pct, plural } from './text/index.js';
+import { FAIL_ON_VALUES, STEP_UNIT, type FailOn, type Verdict } from './terms.js';
+import { didYouMean, levelLabel, numsApart, num, pct, plural, windowWords } from './text/index.js';
 
 /**
  * Verdicts from most to least severe. `too-short` comes last: too little data is a verdict
@@ -39,8 +40,18 @@ const PLAIN = { grouping: false } as const;
 export type SeriesFindings = Omit<SeriesResult, 'verdict' | 'reason'>;
 
 /**
+ * Whether the residual checks of a series could not be computed for want of history (fewer residuals
+ * than the engine's MIN_CHECK_RESIDUALS): such a series is never called steady.
+ */
+export function tooShortForChecks(r: Pick<SeriesResult, 'residualChecks'>): boolean {
+  const n = r.residualChecks?.residuals;
+  return n !== undefined && n < MIN_CHECK_RESIDUALS;
+}
+
+/**
  * The verdict of an analysed series and one line saying why: alarm when a checked observation raised
- * one, else at-risk when its limit is, else ok. (Errors and too short are decided where they
+ * one, else at-risk when its limit is, else too short when the history is too short for the residual
+ * checks (tooShortForChecks), else ok. (Errors and too short for any fit are decided where they
  * happen, in ingestion or the engine, and carry their own reason.)
  */
 export function seriesVerdict(r: SeriesFindings): Pick<SeriesResult, 'verdict' | 'reason'> {
@@ -59,11 +70,19 @@ export function seriesVerdict(r: SeriesFindings): Pick<SeriesResult, 'verdict' |
     parts.push(
       r.limit.alreadyCrossed
         ? `already ${r.limit.side} the limit ${num(r.limit.value, 6, PLAIN)}`
-        : `${pct(r.limit.probability)} chance of crossing ${num(r.limit.value, 6, PLAIN)} within ${r.limit.withinLabel} (risk allowed ${pct(r.limit.risk)})`,
+        : `${pct(r.limit.probability)} chance of crossing ${num(r.limit.value, 6, PLAIN)} within ${windowWords(r.limit.withinLabel, r.limit.within, STEP_UNIT[r.spacing])} (risk allowed ${pct(r.limit.risk)})`,
     );
   }
   const verdict: Verdict = alarms.length > 0 ? 'alarm' : r.limit?.atRisk ? 'at-risk' : 'ok';
   if (parts.length > 0) return { verdict, reason: parts.join('; ') };
+  if (tooShortForChecks(r)) {
+    const c = r.residualChecks!;
+    const history = c.basis === 'before-checked' ? 'the history before the checked rows' : 'the history';
+    return {
+      verdict: 'too-short',
+      reason: `Too short to judge: the residual checks need at least ${plural(MIN_CHECK_RESIDUALS, 'residual')} and ${history} gives ${c.residuals}.`,
+    };
+  }
   if (r.checked.length > 0) {
     // Outside on a side that is not watched (or not an alarm after adjustment) is said as such.
     const outside = r.checked.filter((c) => c.outside).length;

@@ -4,7 +4,8 @@
 // remainder in one notice.
 import path from 'node:path';
 import type { Results } from '../results.js';
-import { levelLabel, num, numsApart, oneLine, pIs, plural } from '../text/index.js';
+import { STEP_UNIT } from '../terms.js';
+import { levelLabel, num, numsApart, oneLine, pIs, plural, windowWords } from '../text/index.js';
 import { gateFailsOn } from '../verdict.js';
 
 export { oneLine };
@@ -93,7 +94,7 @@ export function planAnnotations(
         message: oneLine(
           lim.alreadyCrossed
             ? `Already ${lim.side} the limit ${num(lim.value, 6, PLAIN)} at the last observation.`
-            : `${num(lim.probability * 100, 3, PLAIN)}% chance of going ${lim.side} ${num(lim.value, 6, PLAIN)} within ${lim.withinLabel} ` +
+            : `${num(lim.probability * 100, 3, PLAIN)}% chance of going ${lim.side} ${num(lim.value, 6, PLAIN)} within ${windowWords(lim.withinLabel, lim.within, STEP_UNIT[s.spacing])} ` +
                 `(risk accepted: ${num(lim.risk * 100, 3, PLAIN)}%).${when} Forecasts are estimates, not guarantees.`,
           1000,
         ),

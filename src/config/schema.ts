@@ -7,9 +7,10 @@ import * as z from 'zod';
 import { METHOD_NAMES } from '../engine/types.js';
 import { TIME_FORMATS } from '../ingest/times.js';
 import { DIRECTIONS, FALSE_ALARM_CONTROLS } from '../terms.js';
+import { DURATION_PATTERN } from '../text/numbers.js';
 
 /** A duration such as `30d`: a positive number and one of m (minutes), h, d, w, mo (months), q, y. */
-export const DURATION_PATTERN = /^\s*(\d+(?:\.\d+)?)\s*(mo|m|h|d|w|q|y)\s*$/;
+export { DURATION_PATTERN };
 
 const wholeNumber = (min: number, max: number) => z.number().int().min(min).max(max);
 

@@ -18,7 +18,10 @@
 //   left out): z = |e - median of its third|, F = (N - 2) n1 n3 (zbar_3 - zbar_1)^2 / (N SSW) with
 //   SSW the within-third sum of squares of z (one-way ANOVA of z over the two thirds), df (1, N - 2),
 //   N = n1 + n3, p = 1 - F_F(F; 1, N - 2). The direction is the sign of zbar_3 - zbar_1.
-// Tests with zero residual variance (a constant series) or too few residuals are not computed:
+// Tests with zero residual variance (a constant series) or too few residuals are not computed (fewer
+// than MIN_CHECK_RESIDUALS residuals: no check is computed; common practice, a rule of thumb, not a
+// published cut-off: below about ten residuals the tests have almost no power and the Ljung–Box and
+// Jarque–Bera p-values, being asymptotic, are not trustworthy):
 // statistic and p are NaN, ok is true, and the finding says why. So is a test whose statistic or
 // p-value comes out not finite (residuals beyond double-precision range): it is never reported as passed.
 //
@@ -41,6 +44,12 @@ export function defaultLags(n: number, season: number): number {
 }
 
 const ALPHA = 0.05;
+
+/**
+ * Fewest residuals the checks are computed on; with fewer, every check is "not computed" and a series
+ * judged on them is too short to call steady (src/verdict.ts).
+ */
+export const MIN_CHECK_RESIDUALS = 10;
 
 function notComputed(name: string, why: string, df: number | null = null): TestResult {
   return {
@@ -257,7 +266,7 @@ export function runResidualTests(fit: Fit, lags?: number): ResidualChecks {
     }
   }
 
-  const computed = finiteOnly(family);
+  const computed = n < MIN_CHECK_RESIDUALS ? tooFew(family, n) : finiteOnly(family);
   const flagged = holm(computed);
   return {
     acf,
@@ -268,11 +277,19 @@ export function runResidualTests(fit: Fit, lags?: number): ResidualChecks {
     spread,
     family: computed.length,
     caveat: flagged || [ljungBox, bias, normality, spread].some((t) => !t.ok),
+    residuals: n,
   };
 }
 
 const NOT_FINITE =
   'the residuals are too large for double-precision arithmetic (the statistic is not finite).';
+
+/** Fewer than MIN_CHECK_RESIDUALS residuals: every test of the family "not computed" (the ACF stays, as a description). */
+function tooFew(family: Pending[], n: number): Pending[] {
+  const why = `${n} residual${n === 1 ? '' : 's'}; at least ${MIN_CHECK_RESIDUALS} are needed.`;
+  for (const { test } of family) Object.assign(test, notComputed(test.name, why, test.df));
+  return [];
+}
 
 /** Turns each test whose statistic or p-value is not finite into "not computed"; returns the rest. */
 function finiteOnly(family: Pending[]): Pending[] {

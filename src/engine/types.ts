@@ -149,6 +149,8 @@ export interface ResidualChecks {
   family: number;
   /** True when any check is flagged: a caveat about the model's intervals, not a reason for attention. */
   caveat: boolean;
+  /** Residuals the checks were computed on (the non-missing ones). */
+  residuals: number;
 }
 
 export interface EngineOptions {

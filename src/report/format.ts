@@ -66,17 +66,8 @@ export const METHOD_LABEL: Record<string, string> = {
   drift: 'drift',
 };
 
-/** Step units for sentences, e.g. "day" for daily series, "row" for row order. */
-export const STEP_UNIT: Record<Spacing, string> = {
-  minute: 'minute',
-  hour: 'hour',
-  day: 'day',
-  week: 'week',
-  month: 'month',
-  quarter: 'quarter',
-  year: 'year',
-  row: 'step',
-};
+/** Step units for sentences (src/terms.ts). */
+export { STEP_UNIT } from '../terms.js';
 
 export const SPACING_WORD: Record<Spacing, string> = {
   minute: 'every minute',

@@ -12,7 +12,17 @@ import type {
 } from '../results.js';
 import { sideAlpha } from '../alarms/index.js';
 import { levelKey, levelOutside, levelShare, normaliseLevels } from '../engine/levels.js';
-import { agree, escapeMarkdown as md, levelLabel, num, numsApart, pct, plural, pval } from '../text/index.js';
+import {
+  agree,
+  escapeMarkdown as md,
+  levelLabel,
+  num,
+  numsApart,
+  pct,
+  plural,
+  pval,
+  windowWords,
+} from '../text/index.js';
 import { failedCheckKeys, isJudged, needsAttention, severityRank } from '../verdict.js';
 import {
   METHOD_LABEL,
@@ -318,7 +328,7 @@ function limitRow(s: SeriesResult): LimitRow | null {
     name: shownName(s.name),
     verdict: verdictView(s.verdict),
     limit: `${l.side} ${num(l.value, 6)}`,
-    within: plural(l.within, STEP_UNIT[s.spacing]),
+    within: windowWords(l.withinLabel, l.within, STEP_UNIT[s.spacing]),
     chance: pct(l.probability),
     allowed: pct(l.risk),
     pointCrossing: crossing(s, l.pointCrossing),
@@ -331,7 +341,7 @@ function limitSentence(s: SeriesResult): string | null {
   const l = s.limit;
   if (!l) return null;
   const unit = STEP_UNIT[s.spacing];
-  const head = `Limit: ${l.side} ${num(l.value, 6)} within the next ${plural(l.within, unit)}.`;
+  const head = `Limit: ${l.side} ${num(l.value, 6)} within the next ${windowWords(l.withinLabel, l.within, unit)}.`;
   if (l.alreadyCrossed) return `${head} The last observation is already ${l.side} it.`;
   return (
     `${head} Chance of crossing at any point in the window: ${pct(l.probability)} from ${num(l.paths)} simulated paths ` +

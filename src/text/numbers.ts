@@ -100,3 +100,26 @@ export function plural(n: number, one: string, many = `${one}s`): string {
 export function agree(n: number, one: string, many = `${one}s`): string {
   return n === 1 ? one : many;
 }
+
+/** A duration as the config writes it (`30d`, `12h`, `6mo`): a positive number and m, h, d, w, mo, q or y. */
+export const DURATION_PATTERN = /^\s*(\d+(?:\.\d+)?)\s*(mo|m|h|d|w|q|y)\s*$/;
+
+const DURATION_WORD: Record<string, string> = {
+  m: 'minute',
+  h: 'hour',
+  d: 'day',
+  w: 'week',
+  mo: 'month',
+  q: 'quarter',
+  y: 'year',
+};
+
+/**
+ * A limit window read plainly: "30 days" for `30d`, "6 months" for `6mo`; a window given in steps
+ * (`14`) as that many steps of the series, e.g. "14 days" with `stepWord` "day".
+ */
+export function windowWords(label: string, steps: number, stepWord: string): string {
+  const m = DURATION_PATTERN.exec(label);
+  if (m) return plural(Number(m[1]), DURATION_WORD[m[2]!]!);
+  return plural(steps, stepWord);
+}
