@@ -9,7 +9,7 @@ import { analyse } from './engine/index.js';
 import { chooseSeason, ingest, type IngestOutcome } from './ingest/index.js';
 import type { Series } from './ingest/types.js';
 import { assessLimit, checkObservations } from './alarms/index.js';
-import { checkScope, limitWindow } from './alarms/scope.js';
+import { checkScope, limitWindow, withoutIncidents } from './alarms/scope.js';
 import {
   analysedFindings,
   baseFindings,
@@ -257,7 +257,9 @@ function analyseSeries(
 
   const window = limitWindow(m.limit, s);
   if (window.note) notes.push(window.note);
-  const a = analyse(s.values, {
+  // Known incidents are missing values to the statistics (and drawn, listed, never judged).
+  const y = withoutIncidents(s);
+  const a = analyse(y, {
     season: season.season,
     methods,
     horizon: Math.max(m.horizon, window.within ?? 0),
@@ -278,7 +280,7 @@ function analyseSeries(
   const scope = checkScope(s, m.check.last, o.newRows);
   notes.push(...scope.notes);
   const check = checkObservations({
-    values: s.values,
+    values: y,
     rows: s.rows,
     timeAt: (i) => timeAtIndex(s, i),
     analysis: a,
@@ -292,7 +294,7 @@ function analyseSeries(
       ? assessLimit({
           fit: a.chosen,
           forecast: a.forecast,
-          lastValue: lastObserved(s.values),
+          lastValue: lastObserved(y),
           limit: m.limit,
           within: window.within,
           paths: m.paths,

@@ -23,6 +23,7 @@ import type {
   FalseAlarmControl,
   ForecastPoint,
   HistoryPoint,
+  IncidentRow,
   LevelMap,
   LimitResult,
   MeasureSet,
@@ -73,19 +74,44 @@ export function baseFindings(
   cap: number,
 ): SeriesFindings {
   const observations = countObserved(s.values);
+  const incidents = incidentRows(s);
+  if (incidents.length > 0)
+    notes.push(
+      `${incidents.length === 1 ? '1 row is a known incident: it is' : `${incidents.length} rows are known incidents: they are`} left out of fitting, backtests and residual checks (as missing values), drawn and listed, and never an alarm.`,
+    );
   return blankFindings(m, {
     name: s.name,
     file: s.file,
     column: s.column,
     key: s.key,
+    ...(m.unit !== null ? { unit: m.unit } : {}),
     observations,
     missing: s.values.length - observations,
     spacing: s.spacing,
     season: season.season,
     seasonSource: season.source,
     history: historyFrom(s, Math.max(0, s.values.length - cap)),
+    ...(incidents.length > 0 ? { incidents } : {}),
     notes,
   });
+}
+
+/** The series' known incidents for the results: where, what value, and why. */
+function incidentRows(s: Series): IncidentRow[] {
+  return (s.incidents ?? []).map(({ index, reason }) => ({
+    index,
+    row: s.rows[index]! > 0 ? s.rows[index]! : null,
+    time: timeAtIndex(s, index),
+    value: s.values[index]!,
+    ...labelAt(s, index),
+    reason,
+  }));
+}
+
+/** `{ label }` for a point that has one (the metric's label column), else nothing. */
+function labelAt(s: Pick<Series, 'labels'>, index: number): { label?: string } {
+  const label = s.labels?.[index];
+  return label ? { label } : {};
 }
 
 /** A series that ingestion could not deliver: the metric's settings and the failure as its verdict. */
@@ -97,6 +123,7 @@ export function failedDraft(f: IngestFailure): SeriesDraft {
       file: m.file,
       column: f.column ?? m.values.join(', '),
       key: f.key,
+      ...(m.unit !== null ? { unit: m.unit } : {}),
       season: m.season === 'auto' ? 1 : m.season,
       seasonSource: m.season === 'auto' ? 'auto' : 'config',
     }),
@@ -126,13 +153,14 @@ function blankFindings(
     Partial<SeriesFindings>,
 ): SeriesFindings {
   // Field order as in docs/design.md's results format; `rest` fills in the others.
-  const { name, file, column, key, season, seasonSource, ...rest } = fields;
+  const { name, file, column, key, unit, season, seasonSource, incidents, ...rest } = fields;
   return {
     name,
     metric: m.name,
     file,
     column,
     key,
+    ...(unit !== undefined ? { unit } : {}),
     observations: 0,
     missing: 0,
     spacing: 'row',
@@ -149,6 +177,7 @@ function blankFindings(
     residualChecks: null,
     backtest: null,
     checked: [],
+    ...(incidents !== undefined ? { incidents } : {}),
     limit: null,
     history: [],
     residuals: [],
@@ -187,7 +216,7 @@ export function analysedFindings(
     forecast: forecastPoints(a, s, found.horizon),
     residualChecks: summariseChecks(judge?.checks ?? a.checks, judge ? 'before-checked' : 'all', fit.n),
     backtest: summariseBacktest(a, found.full),
-    checked: found.checked,
+    checked: found.checked.map((c) => ({ ...c, ...labelAt(s, c.index) })),
     limit: found.limit,
     ...chartData(s, a, found.checked[0]?.index, notes, found.cap),
     notes,
@@ -309,6 +338,7 @@ function chartData(
 
 function historyFrom(s: Series, start: number): HistoryPoint[] {
   const history: HistoryPoint[] = [];
+  const known = new Set((s.incidents ?? []).map((x) => x.index));
   for (let i = start; i < s.values.length; i++) {
     const v = s.values[i]!;
     history.push({
@@ -316,6 +346,8 @@ function historyFrom(s: Series, start: number): HistoryPoint[] {
       row: s.rows[i]! > 0 ? s.rows[i]! : null,
       time: timeAtIndex(s, i),
       value: Number.isNaN(v) ? null : v,
+      ...labelAt(s, i),
+      ...(known.has(i) ? { incident: true as const } : {}),
     });
   }
   return history;

@@ -152,6 +152,8 @@ const checkedObservation = z.strictObject({
   z: real,
   /** Outside on the side that matters, after adjustment. */
   alarm: z.boolean(),
+  /** The row's label (the metric's `label` column, e.g. a commit SHA), when it has one. */
+  label: text(200).optional(),
 });
 
 const crossing = z.strictObject({ step: int, time }).nullable();
@@ -180,6 +182,20 @@ const historyPoint = z.strictObject({
   row: count.nullable(),
   time,
   value: z.number().nullable(),
+  /** The row's label (the metric's `label` column), when it has one. */
+  label: text(200).optional(),
+  /** A known incident: drawn, but left out of fitting, backtests and residual checks, never an alarm. */
+  incident: z.literal(true).optional(),
+});
+
+/** A row marked as a known incident (config `incidents` or the metric's `incidentColumn`). */
+const incidentRow = z.strictObject({
+  index: count,
+  row: count.nullable(),
+  time,
+  value: real,
+  label: text(200).optional(),
+  reason: text(),
 });
 
 export const seriesResultSchema = z.strictObject({
@@ -189,6 +205,8 @@ export const seriesResultSchema = z.strictObject({
   file: text(),
   column: text(),
   key: text().nullable(),
+  /** Unit of the values (the metric's `unit`), when configured. */
+  unit: text(24).optional(),
   observations: count,
   missing: count,
   spacing: spacingSchema,
@@ -210,6 +228,11 @@ export const seriesResultSchema = z.strictObject({
   residualChecks: residualChecks.nullable(),
   backtest: backtestSummary.nullable(),
   checked: z.array(checkedObservation).max(MAX_POINTS),
+  /**
+   * Known incidents: rows left out of fitting, backtests and residual checks (passed to the engine as
+   * missing values) and never judged, listed with their reason.
+   */
+  incidents: z.array(incidentRow).max(MAX_POINTS).optional(),
   limit: limitResult.nullable(),
   /** The last observations (capped; see notes) for charts. */
   history: z.array(historyPoint).max(MAX_POINTS),
@@ -330,6 +353,7 @@ export type BacktestSummary = z.output<typeof backtestSummary>;
 export type CheckedObservation = z.output<typeof checkedObservation>;
 export type LimitResult = z.output<typeof limitResult>;
 export type HistoryPoint = z.output<typeof historyPoint>;
+export type IncidentRow = z.output<typeof incidentRow>;
 export type SeriesResult = z.output<typeof seriesResultSchema>;
 export type Problem = z.output<typeof problemSchema>;
 export type Origin = z.output<typeof originSchema>;

@@ -18,6 +18,37 @@ export interface CheckScope {
  * `last` non-missing points.
  */
 export function checkScope(
+  s: Pick<Series, 'file' | 'values' | 'rows' | 'incidents'>,
+  last: number,
+  newRows: Record<string, number> | undefined,
+): CheckScope {
+  const scope = rowsToCheck(s, last, newRows);
+  // Known incidents are never judged: they are listed with their reason instead.
+  const known = new Set((s.incidents ?? []).map((x) => x.index));
+  const kept = scope.indices.filter((i) => !known.has(i));
+  const left = scope.indices.length - kept.length;
+  if (left === 0) return scope;
+  return {
+    indices: kept,
+    notes: [
+      ...scope.notes,
+      `${left === 1 ? '1 row that would be checked is a known incident: it is' : `${left} rows that would be checked are known incidents: they are`} not judged, never an alarm.`,
+    ],
+  };
+}
+
+/**
+ * The values the statistics see: known incidents as missing (NaN), so fitting, backtests, residual
+ * checks and the limit leave them out as they leave out gaps; the series itself keeps them to draw.
+ */
+export function withoutIncidents(s: Pick<Series, 'values' | 'incidents'>): Float64Array {
+  if (!s.incidents || s.incidents.length === 0) return s.values;
+  const y = Float64Array.from(s.values);
+  for (const x of s.incidents) y[x.index] = NaN;
+  return y;
+}
+
+function rowsToCheck(
   s: Pick<Series, 'file' | 'values' | 'rows'>,
   last: number,
   newRows: Record<string, number> | undefined,

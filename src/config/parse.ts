@@ -9,6 +9,7 @@ import { nearest, plural } from '../text/index.js';
 
 import type { DurationUnit, LimitOptions, MetricOptions, MetricPlan, Plan } from './types.js';
 import { DEFAULT_RISK, DEFAULTS, defaultMinTrain } from './defaults.js';
+import { buildIncidents } from './incidents.js';
 import { parseDuration } from './duration.js';
 import { formatKeyPath, locate, type KeyPath, type Position } from './locate.js';
 import { configSchema, KEYS, type RawMetric, type RawOptions } from './schema.js';
@@ -194,6 +195,19 @@ function buildMetric(
       message: `The key column "${key}" must differ from the time and value columns.`,
     });
   }
+  const label = m.label ?? null;
+  const incidentColumn = m.incidentColumn ?? null;
+  for (const [name, col] of [
+    ['label', label],
+    ['incidentColumn', incidentColumn],
+  ] as const) {
+    if (col !== null && (col === time || col === key || values.includes(col)))
+      problems.push({
+        path: [...base, name],
+        message: `The ${name} column "${col}" must differ from the time, key and value columns.`,
+      });
+  }
+  const incidents = buildIncidents(m, base, time, problems);
 
   const season = pick('season') ?? DEFAULTS.season;
   const horizon = pick('horizon') ?? DEFAULTS.horizon;
@@ -232,6 +246,10 @@ function buildMetric(
     time,
     values,
     key,
+    label,
+    unit: m.unit?.trim() || null,
+    incidents,
+    incidentColumn,
     keyPath: formatKeyPath(base),
     line,
     season,
@@ -371,6 +389,7 @@ function keysFor(path: KeyPath): readonly string[] {
   if (last === 'backtest') return KEYS.backtest;
   if (last === 'check') return KEYS.check;
   if (last === 'limit') return KEYS.limit;
+  if (typeof last === 'number' && path[path.length - 2] === 'incidents') return KEYS.incident;
   return [];
 }
 

@@ -145,6 +145,22 @@ const timeFormat = z.enum(TIME_FORMATS).meta({
   default: 'auto',
 });
 
+const incident = z
+  .strictObject({
+    from: z.string().min(1).meta({
+      description:
+        'First time of the incident: an ISO 8601 date or datetime (a date alone starts at its midnight, UTC unless an offset is given).',
+    }),
+    to: z.string().min(1).optional().meta({
+      description:
+        'Last time of the incident, inclusive (a date alone covers that whole day; a year-month the whole month). Default: the same as from.',
+    }),
+    reason: z.string().min(1).max(500).optional().meta({
+      description: 'Why these rows are not normal, shown where they are listed.',
+    }),
+  })
+  .meta({ description: 'One known incident: a time range of the metric to leave out of the statistics.' });
+
 /** Options a metric may set and `defaults:` may set for every metric. */
 export const optionShape = {
   season: season.optional(),
@@ -187,6 +203,21 @@ export const metricSchema = z
     key: columnName.optional().meta({
       description: 'Key column of a long-format file: one series per distinct key value.',
     }),
+    label: columnName.optional().meta({
+      description:
+        'Column whose text names each row in reports (for example a commit SHA of a per-commit series), shown instead of its line number.',
+    }),
+    unit: z.string().min(1).max(24).optional().meta({
+      description: 'Unit of the values (for example ms, GB, s), shown with every value and on chart axes.',
+    }),
+    incidents: z.array(incident).max(1000).optional().meta({
+      description:
+        'Known incidents: time ranges whose rows are left out of fitting, backtests and residual checks (as missing values), never raise alarms, and are still drawn and listed. Needs a time column.',
+    }),
+    incidentColumn: columnName.optional().meta({
+      description:
+        'Column marking known incidents row by row: a non-empty cell marks the row (its text is the reason); such rows are treated like the incidents list.',
+    }),
     ...optionShape,
   })
   .meta({ description: 'One metric: a CSV file and the columns to watch.' });
@@ -226,6 +257,7 @@ export const KEYS = {
   backtest: Object.keys(backtest.shape),
   check: Object.keys(check.shape),
   limit: Object.keys(limit.shape),
+  incident: Object.keys(incident.shape),
 } as const;
 
 /** The JSON Schema committed as leadline.schema.json. */

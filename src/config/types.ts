@@ -16,6 +16,17 @@ export interface LimitOptions {
   risk: number;
 }
 
+/** One known incident from the config: a time range (inclusive, epoch ms) and why. */
+export interface IncidentRange {
+  from: number;
+  to: number;
+  /** As written, e.g. "2026-03-01 to 2026-03-02", for notes. */
+  written: string;
+  reason: string;
+  /** Where it is in the config, e.g. "metrics[2].incidents[0]". */
+  keyPath: string;
+}
+
 export interface MetricOptions {
   /** Integer season length, or `auto` (from the time spacing). 1 = none. */
   season: number | 'auto';
@@ -52,6 +63,14 @@ export interface MetricPlan extends MetricOptions {
   values: string[];
   /** Long-format key column, or null. */
   key: string | null;
+  /** Column naming each row in reports (e.g. a commit SHA), or null. */
+  label: string | null;
+  /** Unit of the values, shown with them (e.g. "ms"), or null. */
+  unit: string | null;
+  /** Known incidents as time ranges (config `incidents`). */
+  incidents: IncidentRange[];
+  /** Column whose non-empty cells mark known incidents (the cell is the reason), or null. */
+  incidentColumn: string | null;
   /** Where this metric sits in the config, e.g. "metrics[2]", and its line (1-based). */
   keyPath: string;
   line: number | null;

@@ -78,12 +78,14 @@ export async function ingest(plan: Plan, cwd: string): Promise<IngestOutcome> {
       const roles = wanted.get(f) ?? new Map<string, ColumnRoles>();
       wanted.set(f, roles);
       const add = (name: string, role: keyof ColumnRoles) => {
-        const r = roles.get(name) ?? { value: false, time: false, key: false };
+        const r = roles.get(name) ?? { value: false, time: false, key: false, text: false };
         r[role] = true;
         roles.set(name, r);
       };
       if (metric.time !== null) add(metric.time, 'time');
       if (metric.key !== null) add(metric.key, 'key');
+      if (metric.label !== null) add(metric.label, 'text');
+      if (metric.incidentColumn !== null) add(metric.incidentColumn, 'text');
       for (const v of metric.values) add(v, 'value');
     }
   }
@@ -355,15 +357,19 @@ function buildMetric(
     return header.indexOf(name);
   };
   let timeIndex = -1;
+  const textIndex = { label: -1, incident: -1 };
   for (const [role, name] of [
     ['time', m.time],
     ['key', m.key],
+    ['label', m.label],
+    ['incident', m.incidentColumn],
   ] as const) {
     if (name === null) continue;
     const i = indexOf(name);
     if (i instanceof LeadlineError) return void fail(i, 'error');
     if (i < 0) return void fail(missingColumn(t, role, name), 'error');
     if (role === 'time') timeIndex = i;
+    if (role === 'label' || role === 'incident') textIndex[role] = i;
   }
   const valueIndex = new Map<string, number>();
   for (const v of m.values) {
@@ -408,7 +414,7 @@ function buildMetric(
       const s = buildSeries(t, m, layout, column, ci, g.key, multi);
       if (s instanceof LeadlineError) {
         fail(s, verdictOf(s), column, g.key);
-      } else series.push(s);
+      } else series.push(markRows(t, m, layout, s, textIndex));
     }
   }
 }
@@ -657,4 +663,55 @@ function buildSeries(
     stepMs: layout.spec?.stepMs ?? null,
     notes,
   };
+}
+
+/**
+ * A series with its row labels (the `label` column) and known incidents (the incident column's
+ * non-empty cells and the config's ranges), with a note for each range that matches no row.
+ */
+function markRows(
+  t: Table,
+  m: MetricPlan,
+  layout: Layout,
+  s: Series,
+  textIndex: { label: number; incident: number },
+): Series {
+  const text = (col: number, r: number): string => {
+    const c = t.keys.get(col)!;
+    return c.names[c.ids[r]!]!;
+  };
+  let labels: string[] | null = null;
+  if (textIndex.label >= 0) {
+    labels = new Array<string>(layout.n).fill('');
+    for (const slot of layout.slots) {
+      const row = slot.rows.find((r) => t.lines[r] === s.rows[slot.index]) ?? slot.rows.at(-1)!;
+      labels[slot.index] = text(textIndex.label, row);
+    }
+  }
+  const reasons = new Map<number, string>();
+  if (textIndex.incident >= 0)
+    for (const slot of layout.slots) {
+      const marked = slot.rows.find((r) => text(textIndex.incident, r) !== '');
+      if (marked !== undefined && !Number.isNaN(s.values[slot.index]!))
+        reasons.set(slot.index, text(textIndex.incident, marked));
+    }
+  const notes = [...s.notes];
+  if (layout.times)
+    for (const range of m.incidents) {
+      let matched = 0;
+      for (let i = 0; i < layout.n; i++) {
+        const ms = layout.times[i]!;
+        if (ms < range.from || ms > range.to || Number.isNaN(s.values[i]!)) continue;
+        matched++;
+        if (!reasons.has(i)) reasons.set(i, range.reason);
+      }
+      if (matched === 0)
+        notes.push(
+          `The known incident ${range.written} (${range.keyPath}) matches no row of this series; check its times.`,
+        );
+    }
+  const incidents = [...reasons.entries()]
+    .sort((a, b) => a[0] - b[0])
+    .map(([index, reason]) => ({ index, reason }));
+  return { ...s, notes, labels, incidents };
 }

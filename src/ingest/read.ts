@@ -14,6 +14,8 @@ export interface ColumnRoles {
   value: boolean;
   time: boolean;
   key: boolean;
+  /** Kept as text (a row label or an incident mark): read like a key column. */
+  text?: boolean;
 }
 
 export const CellStatus = { Ok: 0, Blank: 1, Invalid: 2, TooLarge: 3 } as const;
@@ -330,7 +332,7 @@ export async function readTable(abs: string, file: string, wanted: Map<string, C
           });
           table.times.set(i, col);
         }
-        if (roles.key) {
+        if (roles.key || roles.text) {
           const col: KeyColumn = { ids: new Int32Array(0), names: [] };
           keyCols.push({ index: i, ids: new Grow((n) => new Int32Array(n)), lookup: new Map(), col });
           table.keys.set(i, col);

@@ -19,4 +19,8 @@ export interface Series {
   /** Step between grid points in ms for fixed spacings (minute..week), null for calendar ones. */
   stepMs: number | null;
   notes: string[];
+  /** Each point's label from the metric's `label` column ('' for gap-filled points), or null. */
+  labels?: string[] | null;
+  /** Points that are known incidents (config ranges or the incident column), by index, with why. */
+  incidents?: { index: number; reason: string }[];
 }
