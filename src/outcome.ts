@@ -32,6 +32,7 @@ import type {
   Results,
   SeriesResult,
 } from './results.js';
+import { plural } from './text/index.js';
 import { timeAfterLast, timeAtIndex } from './time.js';
 import { decideGate, isJudged, runVerdict, seriesVerdict, type SeriesFindings } from './verdict.js';
 
@@ -77,7 +78,7 @@ export function baseFindings(
   const incidents = incidentRows(s);
   if (incidents.length > 0)
     notes.push(
-      `${incidents.length === 1 ? '1 row is a known incident: it is' : `${incidents.length} rows are known incidents: they are`} left out of fitting, backtests and residual checks (as missing values), drawn and listed, and never an alarm.`,
+      `${plural(incidents.length, 'row is a known incident: it is', 'rows are known incidents: they are')} left out of fitting, backtests and residual checks (as missing values), drawn and listed, and never an alarm.`,
     );
   return blankFindings(m, {
     name: s.name,

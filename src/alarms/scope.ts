@@ -6,6 +6,7 @@ import type { Series } from '../ingest/types.js';
 import type { CheckedObservation } from '../results.js';
 import type { Direction, FalseAlarmControl } from '../terms.js';
 import { adjustAlarms, checkedIndices, sideAlpha } from './index.js';
+import { plural } from '../text/index.js';
 
 export interface CheckScope {
   indices: number[];
@@ -32,7 +33,7 @@ export function checkScope(
     indices: kept,
     notes: [
       ...scope.notes,
-      `${left === 1 ? '1 row that would be checked is a known incident: it is' : `${left} rows that would be checked are known incidents: they are`} not judged, never an alarm.`,
+      `${plural(left, 'row that would be checked is a known incident: it is', 'rows that would be checked are known incidents: they are')} not judged, never an alarm.`,
     ],
   };
 }

@@ -34,7 +34,7 @@ import { chiSquareCdf, fCdf, tCdf } from './dist.js';
 import { fmt, meanAndSquares, powerOfTwoBelow, sortedQuantile } from './numeric.js';
 import { methodLabel } from './methods.js';
 import type { Fit, ResidualChecks, TestResult } from './types.js';
-import { pIs } from '../text/index.js';
+import { pIs, plural } from '../text/index.js';
 
 /** Default Ljung–Box lags (docs/design.md): min(10, floor(T/5)) without a season, min(2m, floor(T/5)) with one; at least 1. */
 export function defaultLags(n: number, season: number): number {
@@ -286,7 +286,7 @@ const NOT_FINITE =
 
 /** Fewer than MIN_CHECK_RESIDUALS residuals: every test of the family "not computed" (the ACF stays, as a description). */
 function tooFew(family: Pending[], n: number): Pending[] {
-  const why = `${n} residual${n === 1 ? '' : 's'}; at least ${MIN_CHECK_RESIDUALS} are needed.`;
+  const why = `${plural(n, 'residual')}; at least ${MIN_CHECK_RESIDUALS} are needed.`;
   for (const { test } of family) Object.assign(test, notComputed(test.name, why, test.df));
   return [];
 }
