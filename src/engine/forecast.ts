@@ -13,12 +13,17 @@
 // - the body, between probabilities 1 - u and u, is the sample's own: quantiles by Hyndman & Fan
 //   (1996) definition 6, position p (n + 1), whose expected coverage of a new exchangeable draw is
 //   exactly p; tail probabilities are the sample share at or beyond the value;
-// - beyond u (and below 1 - u) the Student-t(nu) fitted to the sample's mean m and sd (scale
-//   s = sd sqrt((nu - 2) / nu)), scaled to the mass the sample leaves beyond its quantile at u:
+// - beyond u (and below 1 - u) a Student-t(nu) centred on the sample's mean m with scale s, scaled
+//   to the mass the sample leaves beyond its quantile at u:
 //   P(Y >= x) = (1 - u) S_nu((x - m) / s) / S_nu((Q(u) - m) / s), S_nu = 1 - F_nu (and the mirror
-//   image below), nu the sigma-hat df, or b - 1 when fewer independent observations stand behind
-//   the sample. The tail's shape comes from the sample's mean and sd (far steadier than its extreme
-//   quantiles), its mass from the sample; it joins the body continuously at u.
+//   image below). Bootstrap paths are draws from the predictive distribution itself: the t has
+//   their sd (s = sd sqrt((nu - 2) / nu)), nu the sigma-hat df, or b - 1 when fewer independent
+//   observations stand behind the sample. Empirical errors are observations, and the next error is
+//   a new one: the t is its predictive distribution, s^2 = R SS with R = E[(e* - m)^2] / E[SS] under
+//   the method's own model and nu the Satterthwaite df of SS (errorspread.ts); for n independent
+//   errors that is the Student-t prediction interval mean ± t_{n-1} sd sqrt(1 + 1/n). The tail's
+//   shape comes from the sample's mean and spread (far steadier than its extreme quantiles), its
+//   mass from the sample; it joins the body continuously at u.
 //   u = max(0.8, 1 - 5 / min(b, n)), n the sample size and b the independent observations behind it:
 //   the residuals a bootstrap resamples; for empirical h-step errors n / k, k the shocks neighbouring
 //   errors share (h for naive and drift, whose windows overlap; ceil(h / m) for seasonal naive; 1 for
@@ -31,8 +36,9 @@
 // (1 + count) / (1 + b), reported as an upper bound.
 import { runResidualTests } from './checks.js';
 import { tCdf, tQuantile } from './dist.js';
+import { nextErrorSpread, sharedShocks, type NextErrorSpread } from './errorspread.js';
 import { checkLevels, levelTail } from './levels.js';
-import { meanAndSquares, selectQuantiles, sortedQuantile } from './numeric.js';
+import { meanAndSquares, selectQuantiles, sortedQuantile, type Squares } from './numeric.js';
 import { simulatePaths } from './simulate.js';
 import type {
   Fit,
@@ -202,8 +208,12 @@ export function makeForecast(fit: Fit, o: ForecastOptions): Forecast {
     paths = simulatePaths(fit, H, nPaths, o.seed, 'bootstrap');
   }
   const base: number[] = [];
-  for (let h = 1; h <= H; h++)
-    base.push(paths ? fit.residualCount : (empiricalErrors?.[h - 1]?.length ?? 0) / sharedShocks(fit, h));
+  const spread: (NextErrorSpread | null)[] = [];
+  for (let h = 1; h <= H; h++) {
+    const n = empiricalErrors?.[h - 1]?.length ?? 0;
+    base.push(paths ? fit.residualCount : n / sharedShocks(fit.method, fit.season, h));
+    spread.push(paths ? null : nextErrorSpread(fit.method, fit.season, h, n, fit.n));
+  }
   // Bootstrap: each step's median, body edges and band quantiles by selection (a full sort of a step
   // is left until a tail probability asks for it).
   const work = paths ? new Float64Array(nPaths) : null;
@@ -217,8 +227,9 @@ export function makeForecast(fit: Fit, o: ForecastOptions): Forecast {
     let q: ((prob: number) => number) | null = null;
     if (paths && work) {
       for (let p = 0; p < nPaths; p++) work[p] = paths[p * H + h]!;
-      q = splicedQuantiles(work, 0, base[h]!, df, o.levels);
-    } else if (errs && errs.length > 0) q = splicedQuantiles(errs, mean[h]!, base[h]!, df, o.levels, true);
+      q = splicedQuantiles(work, 0, base[h]!, df, o.levels, null);
+    } else if (errs && errs.length > 0)
+      q = splicedQuantiles(errs, mean[h]!, base[h]!, df, o.levels, spread[h] ?? { ratio: NaN, df: NaN });
     o.levels.forEach((level, k) => {
       const a = levelTail(level);
       const band = bands[k]!;
@@ -246,15 +257,9 @@ export function makeForecast(fit: Fit, o: ForecastOptions): Forecast {
     nPaths,
     empiricalErrors,
     sampleBase: paths || empiricalErrors ? base : null,
+    sampleSpread: empiricalErrors && !paths ? spread : null,
     notes,
   };
-}
-
-/** Shocks that neighbouring h-step errors of a method share (see the file comment). */
-function sharedShocks(fit: Fit, h: number): number {
-  if (fit.method === 'mean') return 1;
-  if (fit.method === 'seasonal-naive') return Math.ceil(h / Math.max(1, fit.season));
-  return h;
 }
 
 /** Where the sample's body ends (see the file comment): u for `base` independent observations, n draws. */
@@ -282,6 +287,36 @@ interface Tail {
   belowLo: number;
 }
 
+/**
+ * Scale and df of the tail's Student-t (file comment). `observed` null: the sample is draws from the
+ * predictive distribution (bootstrap paths), and the t has the sample's sd, s = sd sqrt((nu - 2) / nu),
+ * nu = min(sigma-hat df, b - 1). Otherwise the sample is observed errors, and the t is the predictive
+ * distribution of the next error: s = sqrt(R SS), nu the Satterthwaite df of SS (errorspread.ts; for
+ * n independent errors R = (1 + 1/n) / (n - 1) and nu = n - 1, the Student-t prediction interval of
+ * a new draw; where R is undefined, that). Scaling observed errors' t to their sd as for draws made
+ * it too narrow by sqrt((nu - 2) / (nu (1 + 1/n))), 0.92 at n = 20 (6.2% alarms at 5%), and more for
+ * overlapping h-step errors, whose sd is biased low.
+ */
+export function tailScale(
+  sq: Squares,
+  base: number,
+  df: number,
+  observed: NextErrorSpread | null,
+): { s: number; nu: number } {
+  const n = sq.n;
+  if (!(n >= 2)) return { s: NaN, nu: NaN };
+  if (observed) {
+    const known = observed.ratio > 0 && observed.df > 0;
+    return {
+      s: sq.sd(known ? 1 / observed.ratio : (n - 1) / (1 + 1 / n)),
+      nu: known ? observed.df : n - 1,
+    };
+  }
+  const nu = Math.max(1, Math.min(df > 0 ? df : Infinity, base - 1));
+  const sd = sq.sd(n - 1);
+  return { s: nu > 2 && Number.isFinite(nu) ? sd * Math.sqrt((nu - 2) / nu) : sd, nu };
+}
+
 function tailOf(
   sample: ArrayLike<number>,
   offset: number,
@@ -289,13 +324,12 @@ function tailOf(
   hi: number,
   base: number,
   df: number,
+  observed: NextErrorSpread | null,
 ): Tail {
   const n = sample.length;
   const u = tailStart(base, n);
-  const nu = Math.max(1, Math.min(df > 0 ? df : Infinity, base - 1));
   const sq = meanAndSquares(sample);
-  const sd = sq.sd(n - 1);
-  const s = nu > 2 && Number.isFinite(nu) ? sd * Math.sqrt((nu - 2) / nu) : sd;
+  const { s, nu } = tailScale(sq, base, df, observed);
   const m = offset + sq.mean;
   const ok = Number.isFinite(s) && s > 0;
   return {
@@ -334,8 +368,9 @@ function splicedQuantiles(
   base: number,
   df: number,
   levels: number[],
-  sorted = false,
+  observed: NextErrorSpread | null,
 ): (prob: number) => number {
+  const sorted = observed !== null;
   const n = work.length;
   const u = tailStart(base, n);
   const probs = [1 - u, u];
@@ -354,7 +389,7 @@ function splicedQuantiles(
     );
     probs.forEach((p, k) => at.set(p, offset + out[k]!));
   }
-  const tail = tailOf(work, offset, at.get(1 - u)!, at.get(u)!, base, df);
+  const tail = tailOf(work, offset, at.get(1 - u)!, at.get(u)!, base, df, observed);
   return (prob) => at.get(prob) ?? tailQuantile(tail, prob);
 }
 
@@ -374,13 +409,21 @@ function stepOk(fc: Forecast, step: number): boolean {
 }
 
 /** The sample behind a step of a bootstrap or empirical forecast (ascending), or null for a t step. */
-function sampleAt(fc: Forecast, step: number): { sorted: Float64Array; offset: number; base: number } | null {
+function sampleAt(
+  fc: Forecast,
+  step: number,
+): { sorted: Float64Array; offset: number; base: number; observed: NextErrorSpread | null } | null {
   const base = fc.sampleBase?.[step - 1] ?? 0;
   if (fc.kind === 'bootstrap' && fc.paths)
-    return { sorted: columnsOf(fc.paths, fc.nPaths, fc.horizon)[step - 1]!, offset: 0, base };
+    return { sorted: columnsOf(fc.paths, fc.nPaths, fc.horizon)[step - 1]!, offset: 0, base, observed: null };
   const errs = fc.empiricalErrors?.[step - 1];
   if (fc.kind === 'empirical' && errs && errs.length > 0)
-    return { sorted: errs, offset: fc.mean[step - 1]!, base };
+    return {
+      sorted: errs,
+      offset: fc.mean[step - 1]!,
+      base,
+      observed: fc.sampleSpread?.[step - 1] ?? { ratio: NaN, df: NaN },
+    };
   return null;
 }
 
@@ -415,7 +458,7 @@ export function tailProbability(
   let boundAbove = false;
   let boundBelow = false;
   if (sample) {
-    const { sorted, offset, base } = sample;
+    const { sorted, offset, base, observed } = sample;
     const n = sorted.length;
     const x = value - offset;
     const u = tailStart(base, n);
@@ -426,6 +469,7 @@ export function tailProbability(
       sortedQuantile(sorted, def6(u, n)),
       base,
       fc.df,
+      observed,
     );
     const shareAbove = (n - lowerBound(sorted, x)) / n;
     const shareBelow = upperBound(sorted, x) / n;
@@ -474,12 +518,12 @@ export function quantileAt(fc: Forecast, step: number, prob: number): number {
   const s = fc.se[step - 1]!;
   const sample = sampleAt(fc, step);
   if (sample) {
-    const { sorted, offset, base } = sample;
+    const { sorted, offset, base, observed } = sample;
     const n = sorted.length;
     const u = tailStart(base, n);
     const q = (p: number): number => offset + sortedQuantile(sorted, def6(p, n));
     if (prob >= 1 - u && prob <= u) return q(prob);
-    return tailQuantile(tailOf(sorted, offset, q(1 - u), q(u), base, fc.df), prob);
+    return tailQuantile(tailOf(sorted, offset, q(1 - u), q(u), base, fc.df, observed), prob);
   }
   if (!(s > 0)) return mu;
   return mu + tQuantile(prob, fc.df) * s;

@@ -77,6 +77,12 @@ export interface Forecast {
    * resampled; errors / step): where the sample's body ends and the Student-t tail begins (forecast.ts).
    */
   sampleBase: number[] | null;
+  /**
+   * Per step of an empirical forecast, how its errors relate to the next one under the method's own
+   * model (errorspread.ts): the tail's variance per unit of the errors' sum of squares, and its df;
+   * null for bootstrap paths (and each entry null where the step uses analytic bands).
+   */
+  sampleSpread: ({ ratio: number; df: number } | null)[] | null;
   notes: string[];
 }
 

@@ -195,6 +195,29 @@ describe('empirical intervals', () => {
     expect(out.notes.join(' ')).toMatch(/at least 500 backtest errors per step; step 1 has 110/);
   });
 
+  it('beyond the body, the Student-t prediction distribution of a new error (step 1: independent errors)', () => {
+    // Naive step-1 errors on a random walk are n independent draws. Beyond u the tail is the
+    // Student-t prediction distribution of a new draw (Hahn & Meeker 1991, Statistical Intervals,
+    // sec. 4.7): centred on the errors' mean, scale sd sqrt(1 + 1/n), n - 1 df, scaled to the mass
+    // 1 - u the sample leaves beyond its definition-6 quantile Q(u). Written out with @stdlib's t CDF.
+    const out = makeForecast(f, { horizon: 3, ...empirical, levels: [95] });
+    const e = Float64Array.from(mb.errors[0]!).sort();
+    const n = e.length;
+    const u = Math.max(0.8, 1 - 5 / n);
+    const pos = u * (n + 1);
+    const j = Math.floor(pos);
+    const qu = out.mean[0]! + e[j - 1]! + (pos - j) * (e[j]! - e[j - 1]!);
+    const m = out.mean[0]! + e.reduce((a, x) => a + x, 0) / n;
+    const sd = Math.sqrt(e.reduce((a, x) => a + (out.mean[0]! + x - m) ** 2, 0) / (n - 1));
+    const s = sd * Math.sqrt(1 + 1 / n);
+    const S = (x: number) => 1 - stdTCdf((x - m) / s, n - 1);
+    const far = m + 4 * s;
+    const tail = tailProbability(out, 1, far, 'above');
+    expect(tail.basis).toBe('tail-model');
+    expect(tail.p).toBeCloseTo(((1 - u) * S(far)) / S(qu), 10);
+    expect(((1 - u) * S(out.bands[0]!.upper[0]!)) / S(qu)).toBeCloseTo(0.025, 7); // t quantile: about 1e-9
+  });
+
   it('use analytic bands beyond the backtest horizon and say so', () => {
     const out = makeForecast(f, {
       horizon: 5,

@@ -1,0 +1,122 @@
+// How the backtest's h-step errors are related to one another and to the next error, under each
+// method's own model: Gaussian white-noise shocks with sd sigma (mean: level plus noise; naive: a
+// random walk; drift: a random walk with drift; seasonal naive: a seasonal random walk), nothing
+// missing. Empirical intervals (forecast.ts) use it to scale the Student-t tail beyond their sample.
+//
+// The backtest of a prefix of T values has its step-h errors at consecutive origins (last training
+// index, 0-based) i = T - 1 - h - n + 1 .. T - 1 - h; the next error e* is made at origin T - 1. Each
+// error is a linear combination of the shocks, so its covariances follow by counting shared shocks
+// (in units of sigma^2, d = j - i >= 0, origins i <= j):
+// - mean (training size N_i = i + 1): e_i = y_{i+h} - mean(y_0..y_i); C_ii = 1 + 1/N_i,
+//   C_ij = 1/N_j for 0 < d < h (the two means share N_i values; y_{i+h} joins the later mean only
+//   when d >= h, and then cancels it), else 0; Var(e*) = 1 + 1/T.
+// - naive: e_i = sum of the h shocks i+1..i+h; C_ij = max(0, h - d); Var(e*) = h.
+// - drift (slope from y_0 to y_i, span i): e_i = (S_{i+h} - S_i) - (h/i) S_i, S the shock sums;
+//   C_ij = max(0, h - d) (1 + h/j) (the slope terms add h^2/j and take h d/j from the overlap);
+//   Var(e*) = h (1 + h/(T - 1)).
+// - seasonal naive (season m, k = ceil(h/m)): e_i = sum of k shocks m apart ending at i + h;
+//   C_ij = max(0, k - d/m) when m divides d, else 0; Var(e*) = k.
+// In every case e* is uncorrelated with each e_i (its future shocks are new; for mean and drift the
+// covariance through the estimated level or slope works out to zero by the same counting).
+// With m the errors' mean and SS their sum of squares about it:
+//   E[SS] = sum_i C_ii - (1/n) sum_ij C_ij,  Var(m) = (1/n^2) sum_ij C_ij,
+//   E[(e* - m)^2] = Var(e*) + Var(m),
+// and the ratio R = E[(e* - m)^2] / E[SS] turns the sample's SS into the variance of the next error
+// about the sample's mean: s^2 = R SS. For n independent errors of one variance (naive, h = 1)
+// R = (1 + 1/n) / (n - 1): the Student-t prediction interval of a new draw,
+// mean ± t_{n-1} sd sqrt(1 + 1/n) (Hahn & Meeker 1991, Statistical Intervals, sec. 4.7).
+import type { MethodName } from './types.js';
+
+/**
+ * Shocks that neighbouring h-step errors of a method share: h for naive and drift (overlapping
+ * windows), ceil(h / m) for seasonal naive, 1 for the mean (whose errors share none).
+ */
+export function sharedShocks(method: MethodName, season: number, h: number): number {
+  if (method === 'mean') return 1;
+  if (method === 'seasonal-naive') return Math.ceil(h / Math.max(1, season));
+  return h;
+}
+
+/** Covariance of the step-h errors at origins i <= j, in units of sigma^2 (file comment). */
+function covariance(method: MethodName, m: number, h: number, i: number, j: number): number {
+  const d = j - i;
+  switch (method) {
+    case 'mean':
+      return d === 0 ? 1 + 1 / (i + 1) : d < h ? 1 / (j + 1) : 0;
+    case 'naive':
+      return Math.max(0, h - d);
+    case 'drift':
+      return j > 0 ? Math.max(0, h - d) * (1 + h / j) : NaN;
+    case 'seasonal-naive': {
+      const k = Math.ceil(h / m);
+      return d % m === 0 ? Math.max(0, k - d / m) : 0;
+    }
+  }
+}
+
+/** Var(e*) of the next step-h error from a prefix of T values, in units of sigma^2. */
+function nextVariance(method: MethodName, m: number, h: number, T: number): number {
+  switch (method) {
+    case 'mean':
+      return 1 + 1 / T;
+    case 'naive':
+      return h;
+    case 'drift':
+      return h * (1 + h / (T - 1));
+    case 'seasonal-naive':
+      return Math.ceil(h / m);
+  }
+}
+
+/** The tail's variance per unit of SS and its Satterthwaite df (file comment). */
+export interface NextErrorSpread {
+  ratio: number;
+  df: number;
+}
+
+/**
+ * R = E[(e* - m)^2] / E[SS] for the n step-h errors of a backtest of a prefix of T values, and the
+ * Satterthwaite (1946) df of SS, 2 E[SS]^2 / Var(SS) = tr(PC)^2 / tr((PC)^2) for Gaussian errors
+ * (P = I - 11'/n centres them; tr((PC)^2) = |C|^2 - 2 |C1|^2 / n + (1'C1)^2 / n^2): n - 1 for
+ * independent errors, more than n / k - 1 for overlapping ones. NaN for both when undefined (fewer
+ * than 2 errors, or origins before the first value).
+ */
+export function nextErrorSpread(
+  method: MethodName,
+  season: number,
+  h: number,
+  n: number,
+  T: number,
+): NextErrorSpread {
+  const m = Math.max(1, Math.floor(season));
+  const last = T - 1 - h;
+  const first = last - n + 1;
+  if (!(n >= 2) || first < 0) return { ratio: NaN, df: NaN };
+  // Errors are correlated only within a lag of h (mean, naive, drift) or k seasons (seasonal naive).
+  const reach = method === 'seasonal-naive' ? m * Math.ceil(h / m) : h;
+  const rows = new Float64Array(n); // C1
+  let trace = 0;
+  let frob = 0; // |C|_F^2
+  for (let i = first; i <= last; i++) {
+    const cii = covariance(method, m, h, i, i);
+    trace += cii;
+    frob += cii * cii;
+    rows[i - first] += cii;
+    for (let j = i + 1; j <= Math.min(last, i + reach - 1); j++) {
+      const c = covariance(method, m, h, i, j);
+      rows[i - first] += c;
+      rows[j - first] += c;
+      frob += 2 * c * c;
+    }
+  }
+  let total = 0;
+  let rows2 = 0;
+  for (const r of rows) {
+    total += r;
+    rows2 += r * r;
+  }
+  const ss = trace - total / n;
+  const ss2 = frob - (2 * rows2) / n + (total * total) / (n * n);
+  if (!(ss > 0 && ss2 > 0)) return { ratio: NaN, df: NaN };
+  return { ratio: (nextVariance(method, m, h, T) + total / (n * n)) / ss, df: (ss * ss) / ss2 };
+}
