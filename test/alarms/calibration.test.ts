@@ -3,7 +3,10 @@
 // sizes) so they hold for any honest engine, and fail for the defects the benchmark exists to catch
 // (a p-value floor that blocks Bonferroni, alarm rates twice nominal).
 import { describe, expect, it } from 'vitest';
-import { binomialBand, binomialCdf, runCalibration } from '../../scripts/calibrate.js';
+import jstatModule from 'jstat';
+import { binomialBand, binomialCdf, runCalibration, tTestPower } from '../../scripts/calibrate.js';
+
+const { jStat } = jstatModule;
 
 describe('calibration benchmark, small', () => {
   it('binomial CDF and band against the binomial pmf summed in the test', () => {
@@ -19,6 +22,21 @@ describe('calibration benchmark, small', () => {
       expect(binomialCdf(i, 100, 0.05)).toBeCloseTo(s, 7); // jstat's incomplete beta: about 1e-9
     }
     expect(binomialBand(100, 0.05)).toEqual([0.01, 0.1]);
+  });
+
+  it('t-test power: the noncentral t of jStat, and the level of the test at no shift', () => {
+    // Two-sided power = 1 - F(q) + F(-q) under the noncentral t(nu, ncp) (jStat.noncentralt).
+    for (const [ncp, a, nu] of [
+      [5, 0.05 / 1050, 28],
+      [5 / Math.sqrt(1.05), 0.05 / 1050, 19],
+      [2, 0.05, 10],
+    ] as const) {
+      const q = jStat.studentt.inv(1 - a / 2, nu);
+      const want = 1 - jStat.noncentralt.cdf(q, nu, ncp) + jStat.noncentralt.cdf(-q, nu, ncp);
+      expect(tTestPower(ncp, a, nu)).toBeCloseTo(want, 3);
+    }
+    // No shift: the test rejects with its level (derivation: P(|T| > q) = a for T ~ t(nu)).
+    expect(tTestPower(0, 0.05, 12)).toBeCloseTo(0.05, 4);
   });
 
   it('alarm rates near 5% at steps 1 and 14 for every kind, short and long histories', async () => {
