@@ -12,7 +12,8 @@
 //   the power on the shifted series beside the power of the exact test on the same shift;
 // - residual checks on clean series: share with any check flagged (<= 5%), the Ljung–Box rejection
 //   rate on its own (about 5%) and the spread test on constant-spread Student-t(3) noise (about 5%);
-// - limits: crossing probabilities at T = 30 against the share of true futures that cross, by bin.
+// - limits: crossing probabilities at T = 30 against the share of true futures that cross, by bin,
+//   over series with their own slope and sd (and, shown only, all with one slope: see limitSection).
 //
 // Usage: npm run calibrate -- [--series N] [--fleets R] [--null M] [--seed S]
 //        [--only level,checks,control,limits] [--generators mean,naive,drift,seasonal-naive,t3,ar1]
@@ -447,66 +448,98 @@ async function controlSection(o: CalibrationOptions, dir: string, rows: Row[]): 
   }
 }
 
-/** Limits at T = 30: predicted crossing probabilities against true futures, by bin. */
+/**
+ * Limits at T = 30: predicted crossing probabilities against true futures, by bin.
+ *
+ * Two populations. Judged: each series draws its own parameters, spread wide and independent of
+ * where the limit is (slope uniform on [-1, 2] for drift, 0 for naive; innovation sd log-uniform on
+ * [0.5, 2]; the last value 0 to 30 (drift) or 15 (naive) below the limit). A crossing probability
+ * is a statement given the data with the slope and sd unknown; over such a population the Gaussian
+ * paths (which draw the slope and sd from their sampling distributions) are the posterior predictive
+ * under the flat prior, and bins should match. Shown, not judged: every series with slope 0.5 and
+ * sd 1, the limit placed by the true sd. No forecaster that estimates the slope can be calibrated by
+ * bins there: a high predicted probability selects series whose slope estimate came out high by
+ * chance, so the upper bins over-predict and the lower ones under-predict (regression dilution),
+ * however the paths are drawn.
+ */
 async function limitSection(o: CalibrationOptions, dir: string, rows: Row[]): Promise<void> {
   const T = 30;
   const W = 10;
   const N = Math.max(200, o.series * 5);
+  const LIMIT = 200;
   const bins = [0, 0.01, 0.05, 0.2, 0.5, 0.8, 1.000001];
-  for (const g of ['naive', 'drift'] as const) {
-    for (const kind of ['analytic', 'bootstrap'] as const) {
-      const r = createRandom(o.seed * 31337 + (g === 'drift' ? 1 : 0) + (kind === 'bootstrap' ? 2 : 0));
-      const series: Float64Array[] = [];
-      const crossed: boolean[] = [];
-      const LIMIT = 200;
-      for (let i = 0; i < N; i++) {
-        const y = generate(g, T + W, r);
-        // Place the last observed value a random distance below the limit (0 to 4 sd of the window).
-        const d = r.uniform() * 4 * Math.sqrt(W) + (g === 'drift' ? 0.5 * W * r.uniform() : 0);
-        const shift = LIMIT - d - y[T - 1]!;
-        const z = y.map((v) => v + shift);
-        series.push(z.subarray(0, T));
-        let c = false;
-        for (let h = T; h < T + W; h++) if (z[h]! >= LIMIT) c = true;
-        crossed.push(c);
-      }
-      const res = await runFleet(
-        join(dir, `limit-${g}-${kind}`),
-        [
-          {
-            name: g,
-            generator: g,
-            series,
-            extra: `    limit:\n      above: ${LIMIT}\n      within: ${W}\n      risk: 0.05`,
-          },
-        ],
-        { intervals: kind, paths: o.paths ?? 1000, horizon: W, check: '{ last: 1 }' },
-      );
-      const sum = new Float64Array(bins.length - 1);
-      const cnt = new Int32Array(bins.length - 1);
-      const hit = new Int32Array(bins.length - 1);
-      for (const s of seriesOf(res, g)) {
-        const i = Number(s.key!.slice(1));
-        const p = s.limit?.probability;
-        if (p === undefined) continue;
-        const b = bins.findIndex((lo, k) => p >= lo && p < bins[k + 1]!);
-        sum[b] += p;
-        cnt[b]++;
-        if (crossed[i]) hit[b]++;
-      }
-      for (let b = 0; b < cnt.length; b++) {
-        if (cnt[b] === 0) continue;
-        const mean = sum[b]! / cnt[b]!;
-        const rr = row(
-          'limits',
-          `${g} · ${kind} · T=${T} · predicted ${bins[b]}–${Math.min(1, bins[b + 1]!)} (mean ${mean.toFixed(3)})`,
-          hit[b]!,
-          cnt[b]!,
-          mean,
+  for (const population of ['spread', 'fixed'] as const) {
+    for (const g of ['naive', 'drift'] as const) {
+      for (const kind of ['analytic', 'bootstrap'] as const) {
+        const r = createRandom(
+          o.seed * 31337 +
+            (g === 'drift' ? 1 : 0) +
+            (kind === 'bootstrap' ? 2 : 0) +
+            (population === 'fixed' ? 4 : 0),
         );
-        // Within its band, or within 0.02 of the predicted mean.
-        rr.within = rr.within || Math.abs(rr.rate - mean) <= 0.02;
-        rows.push(rr);
+        const series: Float64Array[] = [];
+        const crossed: boolean[] = [];
+        for (let i = 0; i < N; i++) {
+          let y: Float64Array;
+          let d: number;
+          if (population === 'fixed') {
+            y = generate(g, T + W, r);
+            // The last observed value a random distance below the limit (0 to 4 sd of the window).
+            d = r.uniform() * 4 * Math.sqrt(W) + (g === 'drift' ? 0.5 * W * r.uniform() : 0);
+          } else {
+            const slope = g === 'drift' ? -1 + 3 * r.uniform() : 0;
+            const sd = 0.5 * 4 ** r.uniform();
+            y = new Float64Array(T + W);
+            let v = 100;
+            for (let t = 0; t < T + W; t++) y[t] = v += slope + sd * r.normal();
+            d = (g === 'drift' ? 30 : 15) * r.uniform();
+          }
+          const shift = LIMIT - d - y[T - 1]!;
+          const z = y.map((v) => v + shift);
+          series.push(z.subarray(0, T));
+          let c = false;
+          for (let h = T; h < T + W; h++) if (z[h]! >= LIMIT) c = true;
+          crossed.push(c);
+        }
+        const res = await runFleet(
+          join(dir, `limit-${population}-${g}-${kind}`),
+          [
+            {
+              name: g,
+              generator: g,
+              series,
+              extra: `    limit:\n      above: ${LIMIT}\n      within: ${W}\n      risk: 0.05`,
+            },
+          ],
+          { intervals: kind, paths: o.paths ?? 1000, horizon: W, check: '{ last: 1 }' },
+        );
+        const sum = new Float64Array(bins.length - 1);
+        const cnt = new Int32Array(bins.length - 1);
+        const hit = new Int32Array(bins.length - 1);
+        for (const s of seriesOf(res, g)) {
+          const i = Number(s.key!.slice(1));
+          const p = s.limit?.probability;
+          if (p === undefined) continue;
+          const b = bins.findIndex((lo, k) => p >= lo && p < bins[k + 1]!);
+          sum[b] += p;
+          cnt[b]++;
+          if (crossed[i]) hit[b]++;
+        }
+        const what = population === 'spread' ? 'own slope and sd' : 'one slope and sd (shown only)';
+        for (let b = 0; b < cnt.length; b++) {
+          if (cnt[b] === 0) continue;
+          const mean = sum[b]! / cnt[b]!;
+          const rr = row(
+            'limits',
+            `${g} · ${kind} · T=${T} · ${what} · predicted ${bins[b]}–${Math.min(1, bins[b + 1]!)} (mean ${mean.toFixed(3)})`,
+            hit[b]!,
+            cnt[b]!,
+            population === 'spread' ? mean : NaN,
+          );
+          // Within its band, or within 0.02 of the predicted mean.
+          rr.within = rr.within || Math.abs(rr.rate - mean) <= 0.02;
+          rows.push(rr);
+        }
       }
     }
   }

@@ -10,6 +10,8 @@ declare module 'jstat' {
     normal: ContinuousDist;
     chisquare: ContinuousDist;
     centralF: ContinuousDist;
+    /** Noncentral t: cdf(x, dof, ncp) (used by a test as the reference for the benchmark's power). */
+    noncentralt: Pick<ContinuousDist, 'cdf'>;
     ibeta(x: number, a: number, b: number): number;
     gammap(a: number, x: number): number;
     gammaln(x: number): number;
