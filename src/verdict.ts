@@ -6,7 +6,17 @@ import { MIN_CHECK_RESIDUALS } from './engine/checks.js';
 import { LeadlineError } from './errors.js';
 import type { Results, SeriesResult } from './results.js';
 import { FAIL_ON_VALUES, STEP_UNIT, type FailOn, type Verdict } from './terms.js';
-import { didYouMean, levelLabel, numsApart, num, pct, plural, windowWords } from './text/index.js';
+import {
+  didYouMean,
+  levelLabel,
+  numsApart,
+  num,
+  pct,
+  plural,
+  rowRef,
+  windowWords,
+  withUnit,
+} from './text/index.js';
 
 /**
  * Verdicts from most to least severe. `too-short` comes last: too little data is a verdict
@@ -63,14 +73,14 @@ export function seriesVerdict(r: SeriesFindings): Pick<SeriesResult, 'verdict' |
     const [value, shownBound] = numsApart([first.value, bound], 6, PLAIN);
     parts.push(
       `${alarms.length} of ${plural(r.checked.length, 'checked observation')} outside the ${levelLabel(first.level)} interval` +
-        ` (${value} ${first.side} ${shownBound}${first.row ? `, line ${first.row}` : ''})`,
+        ` (${withUnit(value!, r.unit)} ${first.side} ${withUnit(shownBound!, r.unit)}${first.row !== null || first.label ? `, ${rowRef(first)}` : ''})`,
     );
   }
   if (r.limit?.atRisk) {
     parts.push(
       r.limit.alreadyCrossed
-        ? `already ${r.limit.side} the limit ${num(r.limit.value, 6, PLAIN)}`
-        : `${pct(r.limit.probability)} chance of crossing ${num(r.limit.value, 6, PLAIN)} within ${windowWords(r.limit.withinLabel, r.limit.within, STEP_UNIT[r.spacing])} (risk allowed ${pct(r.limit.risk)})`,
+        ? `already ${r.limit.side} the limit ${withUnit(num(r.limit.value, 6, PLAIN), r.unit)}`
+        : `${pct(r.limit.probability)} chance of crossing ${withUnit(num(r.limit.value, 6, PLAIN), r.unit)} within ${windowWords(r.limit.withinLabel, r.limit.within, STEP_UNIT[r.spacing])} (risk allowed ${pct(r.limit.risk)})`,
     );
   }
   const verdict: Verdict = alarms.length > 0 ? 'alarm' : r.limit?.atRisk ? 'at-risk' : 'ok';

@@ -5,7 +5,17 @@
 import path from 'node:path';
 import type { Results } from '../results.js';
 import { STEP_UNIT } from '../terms.js';
-import { levelLabel, num, numsApart, oneLine, pIs, plural, windowWords } from '../text/index.js';
+import {
+  levelLabel,
+  num,
+  numsApart,
+  oneLine,
+  pIs,
+  plural,
+  rowRef,
+  windowWords,
+  withUnit,
+} from '../text/index.js';
 import { gateFailsOn } from '../verdict.js';
 
 export { oneLine };
@@ -72,7 +82,7 @@ export function planAnnotations(
         level: fails.alarms ? 'error' : 'warning',
         title: oneLine(`Leadline alarm: ${s.name}`, 120),
         message: oneLine(
-          `${value} is ${c.side ?? 'outside'} the ${levelLabel(c.level)} prediction interval ` +
+          `${withUnit(value, s.unit)}${c.label ? ` at ${rowRef(c)}` : ''} is ${c.side ?? 'outside'} the ${levelLabel(c.level)} prediction interval ` +
             `[${lower}, ${upper}] (forecast ${mean}, ${num(Math.abs(c.z), 3, PLAIN)} standard errors ` +
             `${c.side === 'below' ? 'under' : 'over'}, ${pIs(c.adjustedP)}). Bound crossed: ${c.side === 'below' ? lower : upper}.`,
           1000,

@@ -3,7 +3,7 @@
 import { VERDICT_LABEL } from '../report/format.js';
 import { chanceSentence, needsAttention, placement, reportOrder } from '../report/view.js';
 import type { Results, SeriesResult, Verdict } from '../results.js';
-import { levelLabel, numsApart, plural, shorten, visible } from '../text/index.js';
+import { levelLabel, numsApart, plural, shorten, visible, withUnit } from '../text/index.js';
 
 const CODES = { red: 31, green: 32, yellow: 33, blue: 34, dim: 2, bold: 1 } as const;
 type Paint = (c: keyof typeof CODES, s: string) => string;
@@ -29,7 +29,7 @@ function line(s: SeriesResult, paint: Paint): string {
   const last = s.checked.at(-1);
   const shown = last ? numsApart([last.value, last.lower, last.upper], 5, { grouping: false }) : [];
   const judged = last
-    ? ` ${shown[0]} vs ${levelLabel(last.level)} interval ${shown[1]} … ${shown[2]}: ${placement(s, last)}`
+    ? ` ${clean(withUnit(shown[0]!, s.unit))} vs ${levelLabel(last.level)} interval ${clean(withUnit(`${shown[1]} … ${shown[2]}`, s.unit))}: ${placement(s, last)}`
     : '';
   const method = s.method ? paint('dim', ` [${s.method}, ${s.intervalKind}]`) : '';
   const why = s.reason && (s.verdict !== 'ok' || !last) ? paint('dim', ` — ${clean(s.reason)}`) : '';

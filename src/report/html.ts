@@ -9,11 +9,11 @@ import { buildView, reportOrder, type SeriesView } from './view.js';
 const CSS = `
 :root{color-scheme:light dark;--bg:#fbfaf7;--fg:#1f2328;--muted:#5b6470;--line:#d8dce1;--card:#ffffff;
 --hist:#1f3a5f;--fc:#7b2cbf;--b0:#e9ddf7;--b1:#d3bdf0;--b2:#bb9ae6;--b3:#a37adb;--ok:#2f7d4f;--alarm:#c62828;
---risk:#b45309;--na:#6b7280;--limit:#b45309;--grid:#eceef1;--resid:#2a6f97;--bar:#8aa8c7;--chosen:#2f7d4f;
+--risk:#b45309;--na:#6b7280;--limit:#b45309;--grid:#eceef1;--resid:#2a6f97;--bar:#8aa8c7;--chosen:#2f7d4f;--incident:#0f766e;
 font-family:system-ui,-apple-system,"Segoe UI",Roboto,"Noto Sans",sans-serif;}
 @media (prefers-color-scheme:dark){:root{--bg:#14171c;--fg:#e6e8eb;--muted:#9aa4b1;--line:#2d333b;--card:#1b2027;
 --hist:#9cc3f0;--fc:#d0a8ff;--b0:#2b2340;--b1:#3a2d5a;--b2:#4c3a75;--b3:#604a91;--ok:#5cc48a;--alarm:#ff6b6b;
---risk:#f0a04b;--na:#9aa4b1;--limit:#f0a04b;--grid:#242a31;--resid:#7fc1e6;--bar:#4f6f91;--chosen:#5cc48a;}}
+--risk:#f0a04b;--na:#9aa4b1;--limit:#f0a04b;--grid:#242a31;--resid:#7fc1e6;--bar:#4f6f91;--chosen:#5cc48a;--incident:#5eead4;}}
 *{box-sizing:border-box}
 body{margin:0;background:var(--bg);color:var(--fg);line-height:1.45;font-size:15px}
 main{max-width:1080px;margin:0 auto;padding:24px 20px 64px}
@@ -47,6 +47,7 @@ svg .check-range{stroke:var(--fg);stroke-width:1.2;opacity:.65}
 svg .checked{fill:var(--bg);stroke:var(--hist);stroke-width:2}
 svg .checked.outside{stroke:var(--risk)}
 svg .checked.alarm{fill:var(--alarm);stroke:var(--bg);stroke-width:1.5}
+svg .incident{fill:var(--bg);stroke:var(--incident);stroke-width:2}svg .unit{fill:var(--muted)}
 svg .zero{stroke:var(--muted)}svg .resid-line{fill:none;stroke:var(--resid);stroke-width:1;opacity:.6}
 svg .resid-dot{fill:var(--resid)}
 svg .resid-dot.middle{opacity:.35}svg .third{stroke:var(--muted);stroke-dasharray:3 3}svg .spread-band{fill:var(--b0);opacity:.8}
@@ -62,6 +63,7 @@ svg .empty{fill:var(--muted);font-size:13px}
 .key .k-band::before{background:var(--b1)}
 .key .k-alarm::before{background:var(--alarm);width:10px;transform:rotate(45deg)}
 .key .k-limit::before{border-top:2px dashed var(--limit);height:0}
+.key .k-incident::before{border:2px solid var(--incident);width:8px;height:8px}
 details>summary{cursor:pointer;color:var(--muted)}
 footer{margin-top:32px;font-size:.8rem;color:var(--muted)}
 `;
@@ -93,7 +95,7 @@ function metricSection(s: SeriesResult, v: SeriesView, id: string): string {
   out.push(
     `<figure>${fanChart(s, `${id}-fan`, v.levels)}<figcaption class="key"><span class="k-hist">observed</span><span class="k-fc">point forecast</span>` +
       `<span class="k-band">prediction intervals (${v.levels.map((l) => l.label).join(', ')}; darker is narrower)</span><span>○ checked observation with its interval</span>` +
-      `<span class="k-alarm">alarm</span>${s.limit ? '<span class="k-limit">limit and forecast crossing</span>' : ''}</figcaption></figure>`,
+      `<span class="k-alarm">alarm</span>${v.incidents.length > 0 ? '<span class="k-incident">known incident (left out of the statistics)</span>' : ''}${s.limit ? '<span class="k-limit">limit and forecast crossing</span>' : ''}</figcaption></figure>`,
   );
   if (v.limit) out.push(`<p>${v.limit}</p>`);
   if (v.checked.length > 0) {
@@ -106,11 +108,29 @@ function metricSection(s: SeriesResult, v: SeriesView, id: string): string {
       ),
     );
   }
+  if (v.incidents.length > 0) {
+    out.push('<h3>Known incidents</h3>');
+    out.push(
+      table(
+        ['When', 'Value', 'Why'],
+        v.incidents.map((x) => [x.where, x.value, x.reason]),
+        [1],
+      ),
+    );
+    out.push(
+      '<p class="note">Left out of fitting, backtests and residual checks (as missing values); drawn, never alarms.</p>',
+    );
+  }
   if (v.forecast.length > 0) {
     out.push(`<details><summary>Forecast table (${s.forecast.length} steps)</summary>`);
     out.push(
       table(
-        ['Step', 'When', 'Forecast', ...v.levels.map((l) => `${l.label} interval`)],
+        [
+          'Step',
+          'When',
+          v.unit ? `Forecast (${v.unit})` : 'Forecast',
+          ...v.levels.map((l) => `${l.label} interval`),
+        ],
         v.forecast.map((r) => [String(r.step), r.time, r.mean, ...r.bands]),
         [0, 2],
       ),

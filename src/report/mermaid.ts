@@ -4,7 +4,7 @@
 // valid numbers is left out rather than drawn wrong.
 import type { SeriesResult } from '../results.js';
 import { levelKey } from '../engine/levels.js';
-import { levelLabel, mermaidLabel, num, plural } from '../text/index.js';
+import { levelLabel, mermaidLabel, num, plural, rowRef, withUnit } from '../text/index.js';
 import { when } from './format.js';
 
 /** Points of history before the forecast. */
@@ -16,6 +16,8 @@ export const CHART_FORECAST = 14;
 const MAIN = '#2563eb';
 const BOUND = '#d97706';
 const LIMIT = '#6b7280';
+/** Columns marking known incidents. */
+const INCIDENT = '#0f766e';
 
 /**
  * A finite number as a plain decimal with at most 6 significant digits, or null when it cannot be
@@ -112,16 +114,27 @@ export function mermaidChart(s: SeriesResult): MermaidChart | null {
   const lastObs = hist.at(-1)!;
   const start = when(lastObs.time, s.spacing);
   const unit = AXIS_UNIT[s.spacing];
-  const zero = start ?? (lastObs.row !== null ? `line ${lastObs.row}` : 'the last row');
+  const zero = start ?? (lastObs.row !== null || lastObs.label ? rowRef(lastObs) : 'the last row');
   const xTitle = mermaidLabel(`${unit} from ${zero}`, 40, unit);
   const xFrom = -(hist.length - 1);
   const xTo = fc.length;
 
   const title = mermaidLabel(s.name, 60, 'metric');
-  const axis = mermaidLabel(s.column, 30, 'value');
+  const axis = mermaidLabel(s.unit ? `${s.column} (${s.unit})` : s.column, 30, 'value');
   const names = [`upper ${level} bound`, `lower ${level} bound`, 'observed then forecast'];
   if (hasLimit) names.unshift('limit');
   const colours = hasLimit ? [LIMIT, BOUND, BOUND, MAIN] : [BOUND, BOUND, MAIN];
+  // Known incidents: a column from the bottom of the plot up to the value, drawn first (behind the
+  // lines); zero height elsewhere. XY charts have no point markers.
+  const incidentCount = hist.filter((h) => h.incident).length;
+  const bars =
+    incidentCount > 0
+      ? [...hist.map((h, i) => (h.incident ? observed[i]! : null)), ...fc.map(() => null)]
+      : null;
+  if (bars) {
+    names.unshift('columns at known incidents');
+    colours.unshift(INCIDENT);
+  }
   const source = [
     `%%{init: {"themeVariables": {"xyChart": {"plotColorPalette": "${colours.join(', ')}"}}}}%%`,
     'xychart-beta',
@@ -130,6 +143,7 @@ export function mermaidChart(s: SeriesResult): MermaidChart | null {
     `  accDescr: Lines in order, ${names.map((n, i) => `${i + 1} ${n}`).join(', ')}`,
     `  x-axis "${xTitle}" ${xFrom} --> ${xTo}`,
     `  y-axis "${axis}" ${yMin} --> ${yMax}`,
+    ...(bars ? [`  bar [${bars.map((b) => (b === null ? yMin : mermaidNumber(b)!)).join(', ')}]`] : []),
     ...written.map((l) => `  line [${l.join(', ')}]`),
   ].join('\n');
 
@@ -145,7 +159,11 @@ export function mermaidChart(s: SeriesResult): MermaidChart | null {
       ? `orange: the ${level} interval the ${one ? 'checked observation was' : `${checkedX.length} checked observations were`} judged against (${span(checkedX)}), then the forecast's; before ${one ? 'it' : 'them'} the orange lines mean nothing and lie hidden under the blue one`
       : `orange: the forecast's ${level} interval, opening from the last observation`,
   ];
-  if (hasLimit) parts.push(`grey: the limit, ${num(s.limit!.value, 6)}`);
+  if (hasLimit) parts.push(`grey: the limit, ${withUnit(num(s.limit!.value, 6), s.unit)}`);
+  if (bars)
+    parts.push(
+      `teal columns: ${plural(incidentCount, 'known incident')}, left out of the statistics and never an alarm`,
+    );
   let legend = parts.join('; ') + '.';
   if (filled > 0)
     legend += ` ${plural(filled, 'missing value is', 'missing values are')} drawn at the previous value.`;

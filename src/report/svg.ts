@@ -16,7 +16,7 @@ import {
 import { chiSquareCdf, normalQuantile } from '../engine/dist.js';
 import { area, line } from 'd3-shape';
 import type { SeriesResult } from '../results.js';
-import { escapeHtml as h, levelLabel, num, pval } from '../text/index.js';
+import { escapeHtml as h, levelLabel, num, pval, rowRef, withUnit } from '../text/index.js';
 import type { LevelView } from './view.js';
 import { METHOD_LABEL, reportName, when } from './format.js';
 
@@ -92,7 +92,13 @@ function timeTick(ms: number, spacing: SeriesResult['spacing'], multiYear: boole
   return day;
 }
 
-function xAxis(x: XScale, timeAxis: boolean, y0: number, spacing: SeriesResult['spacing']): string {
+function xAxis(
+  x: XScale,
+  timeAxis: boolean,
+  y0: number,
+  spacing: SeriesResult['spacing'],
+  labels: ReadonlyMap<number, string> = new Map(),
+): string {
   const all = (x.ticks as (n: number) => (number | Date)[])(6);
   // Keep ticks at least 80px apart so labels never overlap.
   const ticks: (number | Date)[] = [];
@@ -105,13 +111,26 @@ function xAxis(x: XScale, timeAxis: boolean, y0: number, spacing: SeriesResult['
   return ticks
     .map((t) => {
       const xx = f(x(t as number & Date));
-      const label = timeAxis ? timeTick(+t, spacing, multiYear) : `#${+t + 1}`;
+      const label = timeAxis ? timeTick(+t, spacing, multiYear) : rowTick(+t, labels);
       // Labels near either edge are anchored inwards so they are not cut off.
       const px = x(t as number & Date);
       const anchor = px > W - M.right - 40 ? 'end' : px < M.left + 20 ? 'start' : 'middle';
       return `<line class="axis" x1="${xx}" x2="${xx}" y1="${y0}" y2="${y0 + 4}"/><text class="tick" x="${xx}" y="${y0 + 16}" text-anchor="${anchor}">${h(label)}</text>`;
     })
     .join('');
+}
+
+/** A row-order tick: the row's label (cut to 10 characters, as a short commit SHA) or its number. */
+function rowTick(index: number, labels: ReadonlyMap<number, string>): string {
+  const label = labels.get(index);
+  return label ? [...label].slice(0, 10).join('') : `#${index + 1}`;
+}
+
+/** The unit over the y axis, when the series has one. */
+function unitLabel(s: SeriesResult): string {
+  return s.unit
+    ? `<text class="unit" x="${M.left - 6}" y="${M.top - 4}" text-anchor="end">${h(s.unit)}</text>`
+    : '';
 }
 
 /** x position of a history point, a checked observation or a forecast step. */
@@ -205,7 +224,9 @@ export function fanChart(s: SeriesResult, id: string, ascending: readonly LevelV
   out.push(svgOpen(id, height, title, desc, 'fan'));
   out.push(plotGroup(x, y, tl.timeAxis));
   out.push(yAxis(y, M.left, W - M.right));
-  out.push(xAxis(x, tl.timeAxis, height - M.bottom, s.spacing));
+  const labels = new Map(hist.filter((p) => p.label).map((p) => [p.index, p.label!]));
+  out.push(xAxis(x, tl.timeAxis, height - M.bottom, s.spacing, labels));
+  out.push(unitLabel(s));
 
   // Bands, widest first so narrower ones sit on top. Anchored at the last observation.
   const origin = lastObs ? { x: tl.ofIndex(lastObs.index, lastObs.time), v: lastObs.value! } : null;
@@ -256,11 +277,23 @@ export function fanChart(s: SeriesResult, id: string, ascending: readonly LevelV
     }
   }
 
+  // Known incidents: drawn with their own marker (a hollow square), with why in the tooltip.
+  const reasons = new Map((s.incidents ?? []).map((x) => [x.index, x.reason]));
+  for (const p of hist) {
+    if (!p.incident || !isNum(p.value)) continue;
+    const px = tl.ofIndex(p.index, p.time);
+    if (px === null) continue;
+    const tip = `${when(p.time, s.spacing) ?? rowRef(p)}: ${withUnit(num(p.value, 6), s.unit)}, known incident: ${reasons.get(p.index) ?? 'known incident'} (left out of the statistics)`;
+    out.push(
+      `<rect class="incident" data-index="${p.index}" x="${f(X(px) - 4.5)}" y="${f(y(p.value) - 4.5)}" width="9" height="9"><title>${h(tip)}</title></rect>`,
+    );
+  }
+
   // Checked observations: the interval each was judged against, then the point itself.
   for (const { c, x: cxv } of checked) {
     const cx = f(X(cxv));
     const cy = f(y(c.value));
-    const tip = `${when(c.time, s.spacing) ?? `point ${c.index + 1}`}: ${num(c.value, 6)}, interval ${num(c.lower)} to ${num(c.upper)} (${levelLabel(c.level)})${c.alarm ? ', alarm' : c.outside ? ', outside' : ''}`;
+    const tip = `${when(c.time, s.spacing) ?? rowRef(c)}: ${withUnit(num(c.value, 6), s.unit)}, interval ${withUnit(`${num(c.lower)} to ${num(c.upper)}`, s.unit)} (${levelLabel(c.level)})${c.alarm ? ', alarm' : c.outside ? ', outside' : ''}`;
     out.push(
       `<line class="check-range" x1="${cx}" x2="${cx}" y1="${f(y(c.lower))}" y2="${f(y(c.upper))}"/>` +
         `<line class="check-range" x1="${f(X(cxv) - 4)}" x2="${f(X(cxv) + 4)}" y1="${f(y(c.lower))}" y2="${f(y(c.lower))}"/>` +

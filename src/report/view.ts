@@ -21,7 +21,10 @@ import {
   pct,
   plural,
   pval,
+  rowRef,
+  shorten,
   windowWords,
+  withUnit,
 } from '../text/index.js';
 import { failedCheckKeys, isJudged, needsAttention, severityRank } from '../verdict.js';
 import {
@@ -164,6 +167,16 @@ export interface SeriesView {
   limit: string | null;
   notes: string[];
   chart: ChartView | null;
+  /** The metric's unit, escaped, or null. */
+  unit: string | null;
+  /** Known incidents: rows left out of the statistics and never judged, with why. */
+  incidents: IncidentView[];
+}
+
+export interface IncidentView {
+  where: string;
+  value: string;
+  reason: string;
 }
 
 export interface ProblemRow {
@@ -196,6 +209,8 @@ export interface ReportView {
   others: string | null;
   /** At most one line on residual-check caveats; each series' details say which check and why. */
   caveats: string | null;
+  /** One line on known incidents: how many rows of which series are left out of the statistics. */
+  incidents: string | null;
   /** What the run checked, e.g. "This pull request adds 3 rows to a.csv." Null when not known. */
   scope: string | null;
   /** In a pull request, the series it leaves alone in one line, e.g. "12 other series unchanged; …". */
@@ -249,13 +264,18 @@ export function reportOrder(results: Results): SeriesResult[] {
   return indexed.map((x) => x.s);
 }
 
-function locate(file: string, row: number | null): string {
-  return row === null ? md(file) : `${md(file)} line ${row}`;
+function locate(file: string, p: { row: number | null; label?: string }): string {
+  return p.row === null && !p.label ? md(file) : `${md(file)} ${md(rowRef(p))}`;
 }
 
-function checkedWhere(s: SeriesResult, c: CheckedObservation): string {
+/** A printed value with the series' unit (text/numbers.ts `withUnit`), escaped for markdown and HTML. */
+function u(s: Pick<SeriesResult, 'unit'>, text: string): string {
+  return md(withUnit(text, s.unit));
+}
+
+function checkedWhere(s: SeriesResult, c: Pick<CheckedObservation, 'time' | 'row' | 'label'>): string {
   const t = when(c.time, s.spacing);
-  const line = c.row === null ? 'gap-filled point' : `line ${c.row}`;
+  const line = md(rowRef(c));
   return t ? `${t} (${line})` : line;
 }
 
@@ -274,9 +294,9 @@ function checkedRow(s: SeriesResult, c: CheckedObservation): CheckedRow {
   return {
     alarm: c.alarm,
     where: checkedWhere(s, c),
-    value,
-    expected: num(c.mean),
-    interval: `${lower} to ${upper} (${levelLabel(c.level)})`,
+    value: u(s, value),
+    expected: u(s, num(c.mean)),
+    interval: `${u(s, `${lower} to ${upper}`)} (${levelLabel(c.level)})`,
     result,
     p: c.adjustedP !== c.pValue ? `${pval(c.pValue)} (adjusted ${pval(c.adjustedP)})` : pval(c.pValue),
     z: Number.isFinite(c.z) ? `${c.z >= 0 ? '+' : '−'}${Math.abs(c.z).toFixed(2)}` : 'n/a',
@@ -301,11 +321,11 @@ function attentionRow(s: SeriesResult, section: number): AttentionRow {
     verdict: verdictView(s.verdict),
     why: md(s.reason) || md(VERDICT_LABEL[s.verdict]),
     spark: sparkline(s.history.map((h) => h.value)),
-    latest: lastIsChecked ? valueAndBounds(last)[0] : lastValue ? num(lastValue.value, 6) : 'n/a',
+    latest: u(s, lastIsChecked ? valueAndBounds(last)[0] : lastValue ? num(lastValue.value, 6) : 'n/a'),
     expected: lastIsChecked
-      ? `${valueAndBounds(last).slice(1).join(' to ')} (${levelLabel(last.level)})`
+      ? `${u(s, valueAndBounds(last).slice(1).join(' to '))} (${levelLabel(last.level)})`
       : '',
-    where: lastValue ? locate(s.file, lastValue.row) : md(s.file),
+    where: lastValue ? locate(s.file, lastValue) : md(s.file),
   };
 }
 
@@ -327,7 +347,7 @@ function limitRow(s: SeriesResult): LimitRow | null {
   return {
     name: shownName(s.name),
     verdict: verdictView(s.verdict),
-    limit: `${l.side} ${num(l.value, 6)}`,
+    limit: `${l.side} ${u(s, num(l.value, 6))}`,
     within: windowWords(l.withinLabel, l.within, STEP_UNIT[s.spacing]),
     chance: pct(l.probability),
     allowed: pct(l.risk),
@@ -341,7 +361,7 @@ function limitSentence(s: SeriesResult): string | null {
   const l = s.limit;
   if (!l) return null;
   const unit = STEP_UNIT[s.spacing];
-  const head = `Limit: ${l.side} ${num(l.value, 6)} within the next ${windowWords(l.withinLabel, l.within, unit)}.`;
+  const head = `Limit: ${l.side} ${u(s, num(l.value, 6))} within the next ${windowWords(l.withinLabel, l.within, unit)}.`;
   if (l.alreadyCrossed) return `${head} The last observation is already ${l.side} it.`;
   return (
     `${head} Chance of crossing at any point in the window: ${pct(l.probability)} from ${num(l.paths)} simulated paths ` +
@@ -483,6 +503,7 @@ function calibrationRows(s: SeriesResult): CalibrationRow[] {
 
 function facts(s: SeriesResult): string {
   const parts = [`File ${md(s.file)}`, `column ${md(s.column)}`];
+  if (s.unit) parts.push(`in ${md(s.unit)}`);
   if (s.key !== null) parts.push(`key ${shownName(s.key)}`);
   parts.push(plural(s.observations, 'observation'));
   if (s.missing > 0) parts.push(`${s.missing} missing`);
@@ -548,6 +569,12 @@ function seriesView(s: SeriesResult, section: number, chart: ChartView | null): 
       : null,
     limit: limitSentence(s),
     notes: s.notes.map(md),
+    unit: s.unit ? md(s.unit) : null,
+    incidents: (s.incidents ?? []).map((x) => ({
+      where: checkedWhere(s, x),
+      value: u(s, num(x.value, 6)),
+      reason: md(shorten(x.reason, 300)),
+    })),
     chart,
   };
 }
@@ -680,6 +707,17 @@ function caveatsLine(series: SeriesResult[]): string | null {
   );
 }
 
+/** One line on known incidents, or null when no series has any. */
+function incidentsLine(series: SeriesResult[]): string | null {
+  const marked = series.filter((s) => (s.incidents ?? []).length > 0);
+  if (marked.length === 0) return null;
+  const rows = marked.reduce((n, s) => n + s.incidents!.length, 0);
+  return (
+    `Known incidents: ${plural(rows, 'row')} of ${names(marked)} left out of fitting, backtests and residual checks; ` +
+    `they are never alarms themselves, and each series' details list them with their reason.`
+  );
+}
+
 /** Builds the view the markdown templates render. Pure; every string in it is escaped. */
 export function buildView(results: Results, opts: ViewOptions = {}): ReportView {
   const maxCharts = Math.max(0, Math.floor(opts.maxCharts ?? 5));
@@ -755,6 +793,7 @@ export function buildView(results: Results, opts: ViewOptions = {}): ReportView 
     ),
     elsewhere: elsewhereLine(ordered.filter((s) => !isJudged(s))),
     caveats: caveatsLine(ordered),
+    incidents: incidentsLine(ordered),
     scope: scopeLine(results),
     fullReport: opts.fullReportNote ?? 'The results JSON has every series in full.',
   };

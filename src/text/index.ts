@@ -12,7 +12,9 @@ export {
   plural,
   pval,
   windowWords,
+  withUnit,
 } from './numbers.js';
+export { rowRef } from './rows.js';
 export { didYouMean, nearest } from './suggest.js';
 export { escapeHtml, escapeMarkdown, escapeMessage, mermaidLabel, oneLine } from './escape.js';
 export { DISPLAY_MAX, displayName, logSafe, safeStream, shorten, visible } from './untrusted.js';

@@ -123,3 +123,13 @@ export function windowWords(label: string, steps: number, stepWord: string): str
   if (m) return plural(Number(m[1]), DURATION_WORD[m[2]!]!);
   return plural(steps, stepWord);
 }
+
+/**
+ * A printed value (or range) with the metric's unit, the one place "value + unit" is written:
+ * "166 ms", "1,967 GB", "12%" (a unit that is a sign such as % or ° joins the number). No unit: the
+ * text as it is. The unit is the user's text: escape the result for its destination.
+ */
+export function withUnit(text: string, unit: string | null | undefined): string {
+  if (!unit || text === 'n/a') return text;
+  return /^[%°‰]/.test(unit) ? `${text}${unit}` : `${text} ${unit}`;
+}

@@ -159,3 +159,83 @@ describe('known incidents', () => {
     );
   });
 });
+
+describe('units, row labels and incidents in what people read', () => {
+  it('print the unit with values, name rows by their label, and list and draw incidents', async () => {
+    const config = `${METRIC}    unit: ms\n    label: commit\n    incidentColumn: note\n`;
+    // The newest row is far above the pattern: an alarm, named by its label.
+    const data = csv(true).replace(/\n2026-03-11,[^,]+,/, '\n2026-03-11,95,');
+    const dir = scenario(config, data);
+    const r = await cli(
+      [
+        'run',
+        '--config',
+        'leadline.yml',
+        '--json',
+        'r.json',
+        '--markdown',
+        'r.md',
+        '--html',
+        'r.html',
+        '--fail-on',
+        'never',
+      ],
+      dir,
+    );
+    const s = (JSON.parse(readFileSync(path.join(dir, 'r.json'), 'utf8')) as Results).series[0]!;
+    expect(s.verdict).toBe('alarm');
+    expect(s.checked[0]!.label).toBe('c000045');
+    // Terminal: value and interval with the unit; the reason names the row by its label, not its line.
+    expect(r.out).toMatch(
+      /out of line\s+api .* 95 ms vs 95% interval [\d.]+ … [\d.]+ ms: outside, above: alarm/,
+    );
+    expect(r.out).toMatch(/\(95 ms above [\d.]+ ms, c000045\)/);
+    expect(r.out).not.toContain('line 71');
+    const md = readFileSync(path.join(dir, 'r.md'), 'utf8');
+    expect(md).toContain('| 2026-03-06 (c000040) | 319 ms | database failover |');
+    expect(md).toContain('Known incidents: 1 row of api left out of fitting');
+    expect(md).toContain('never alarms');
+    expect(md).toContain('| Step | When | Forecast (ms) |');
+    expect(md).toMatch(/y-axis "latency \(ms\)"/);
+    // The Mermaid chart marks the incident with a column: one bar value above the axis minimum.
+    const chart = md.slice(md.indexOf('xychart-beta'));
+    const yMin = chart.match(/y-axis "[^"]+" (-?[\d.]+) -->/)![1]!;
+    const bar = chart.match(/ {2}bar \[([^\]]+)\]/)![1]!.split(', ');
+    expect(bar.filter((b) => b !== yMin)).toEqual(['319']);
+    const html = readFileSync(path.join(dir, 'r.html'), 'utf8');
+    expect(html.match(/<rect class="incident" data-index="64"/g)).toHaveLength(1);
+    expect(html).toContain('known incident: database failover (left out of the statistics)');
+    expect(html).toContain('<text class="unit"');
+    expect(html).toContain('Forecast (ms)');
+  });
+
+  it("label the x axis of a row-order series with the rows' labels", async () => {
+    const rows = ['commit,seconds'];
+    for (let i = 0; i < 40; i++)
+      rows.push(`${(0xabc000 + i).toString(16)}f00d,${(12 + ((i * 7) % 5) * 0.1).toFixed(2)}`);
+    const dir = mkdtempSync(path.join(os.tmpdir(), 'leadline-labels-'));
+    mkdirSync(path.join(dir, 'b'));
+    writeFileSync(path.join(dir, 'b', 'bench.csv'), rows.join('\n') + '\n');
+    writeFileSync(
+      path.join(dir, 'leadline.yml'),
+      'version: 1\nmetrics:\n  - { name: solver, file: b/bench.csv, value: seconds, unit: s, label: commit }\n',
+    );
+    await cli(
+      ['run', '--config', 'leadline.yml', '--html', 'r.html', '--markdown', 'r.md', '--fail-on', 'never'],
+      dir,
+    );
+    const html = readFileSync(path.join(dir, 'r.html'), 'utf8');
+    const fan = html.slice(
+      html.indexOf('class="chart fan"'),
+      html.indexOf('</svg>', html.indexOf('class="chart fan"')),
+    );
+    const ticks = [
+      ...fan.matchAll(/<text class="tick" x="[^"]+" y="[^"]+" text-anchor="[a-z]+">([^<]+)<\/text>/g),
+    ].map((m) => m[1]);
+    expect(ticks.some((t) => /^abc0[0-9a-f]{2}f00d$/.test(t!))).toBe(true);
+    // Rows of the history are named by label; only forecast steps past the last row keep a number.
+    expect(ticks.filter((t) => t!.startsWith('#') && Number(t!.slice(1)) <= 40)).toEqual([]);
+    const md = readFileSync(path.join(dir, 'r.md'), 'utf8');
+    expect(md).toMatch(/\| abc027f00d \| 12\.\d+ s \|/);
+  });
+});
