@@ -4,7 +4,7 @@ import {
   bandAt,
   levelOutside,
   levelTail,
-  runBacktest,
+  prefixBacktest,
   runResidualTests,
   chooseIntervalKind,
   fitMethod,
@@ -100,16 +100,15 @@ export function checkObservations(c: CheckContext): CheckOutcome {
   const mayBeEmpirical =
     c.options.intervals === 'empirical' ||
     (auto && !(checks.ljungBox.ok && checks.bias.ok && checks.spread.ok));
+  // It is taken from the whole series' backtest of that method (the same numbers, no second pass).
   let mb: MethodBacktest | undefined;
   if (mayBeEmpirical) {
     const full = c.analysis.backtest;
-    mb = runBacktest(prefix, [fit.method], {
+    mb = prefixBacktest(c.values, origin, full.methods[fit.method]!, {
       season: c.season,
       minTrain: full.minTrain,
       horizon: full.horizon,
-      levels: [c.options.alarmLevel],
-      coverage: [],
-    }).methods[fit.method];
+    });
   }
   // With `intervals: auto` the kind is chosen from the residuals known at the origin, so an anomaly
   // among the checked rows cannot widen (or reshape) the interval it is judged against.

@@ -23,10 +23,21 @@
 // scoreSteps turns the origins' fits into errors and measures, counting analytic coverage on the
 // way; empiricalCoverage and bootstrapCoverage measure the other two kinds.
 import { tQuantileFrom, tQuantileTable } from './dist.js';
-import { DEFAULT_MIN_ERRORS, sortedCopy } from './forecast.js';
+import { DEFAULT_MIN_ERRORS } from './forecast.js';
 import { levelKey, levelTail } from './levels.js';
 import { methodLabel } from './methods.js';
-import { extremeUnit, Fenwick, inUnits, lowerBound, present, sortedQuantile, upperBound } from './numeric.js';
+import {
+  extremeUnit,
+  Fenwick,
+  inUnits,
+  lowerBound,
+  present,
+  rememberSorted,
+  sortedCopy,
+  sortedIfKnown,
+  sortedQuantile,
+  upperBound,
+} from './numeric.js';
 import { createRandom } from './random.js';
 import { simulateInto, type SimSpec } from './simulate.js';
 import type { Backtest, IntervalKind, MethodBacktest, MethodName, StepMeasures } from './types.js';
@@ -149,6 +160,88 @@ export function measureCoverage(
   });
 }
 
+/**
+ * The backtest of the prefix y[0..P-1] for one method, from `full`, that method's backtest of the
+ * whole series y with the same season, minTrain and horizon: the same as
+ * runBacktest(y.subarray(0, P), [method], { ...o, coverage: [] }).methods[method], bit for bit
+ * (test/engine/property.test.ts), without a second pass. A fit at origin i depends on y[0..i] only,
+ * so the prefix's step-h errors are the whole series' errors from origins i <= P - 1 - h: the first
+ * ones in origin order. The measures are summed again over those errors in the same order (MASE
+ * with the prefix's own scale), and where the whole series' errors of a step are already sorted, the
+ * prefix's sorted copy is that minus the errors dropped (no sort). An extreme series (rescaled,
+ * numeric.ts extremeUnit) gets the plain backtest of its prefix instead.
+ */
+export function prefixBacktest(
+  y: Float64Array,
+  P: number,
+  full: MethodBacktest,
+  o: { season: number; minTrain: number; horizon: number },
+): MethodBacktest {
+  const prefix = y.subarray(0, P);
+  if (extremeUnit(y) !== 1 || extremeUnit(prefix) !== 1 || full.errors.length !== o.horizon)
+    return runBacktest(prefix, [full.method], { ...o, levels: [], coverage: [] }).methods[full.method]!;
+  const scale = maseScale(prefix, Math.max(1, Math.floor(o.season)));
+  // Every error whose actual is at or after P is dropped: the last `after` errors of each step.
+  let after = 0;
+  for (let k = P; k < y.length; k++) if (present(y[k]!)) after++;
+  const steps: StepMeasures[] = [];
+  const errors: Float64Array[] = [];
+  for (let h = 1; h <= o.horizon; h++) {
+    const all = full.errors[h - 1]!;
+    const c = Math.max(0, all.length - after);
+    const e = all.subarray(0, c);
+    // The actual of error j: the kept errors' actuals are the last c observed values before P.
+    const at = scratch.i32('prefix.actual', c);
+    for (let k = P - 1, j = c - 1; j >= 0; k--) if (present(y[k]!)) at[j--] = k;
+    let sE = 0;
+    let sE2 = 0;
+    let sA = 0;
+    let cP = 0;
+    let sP = 0;
+    let sAP = 0;
+    for (let j = 0; j < c; j++) {
+      const x = e[j]!;
+      sE += x;
+      sE2 += x * x;
+      sA += Math.abs(x);
+      const a = y[at[j]!]!;
+      if (a !== 0) {
+        const pct = x * (100 / a);
+        cP++;
+        sP += pct;
+        sAP += Math.abs(pct);
+      }
+    }
+    steps.push({
+      step: h,
+      origins: c,
+      me: c > 0 ? sE / c : NaN,
+      rmse: c > 0 ? Math.sqrt(sE2 / c) : NaN,
+      mae: c > 0 ? sA / c : NaN,
+      mpe: cP > 0 ? sP / cP : NaN,
+      mape: cP > 0 ? sAP / cP : NaN,
+      mase: c > 0 && scale > 0 ? sA / c / scale : NaN,
+    });
+    const known = sortedIfKnown(all);
+    if (known && c > 0) rememberSorted(e, withoutValues(known, all.subarray(c)));
+    errors.push(e);
+  }
+  return methodBacktest(full.method, steps, errors, {});
+}
+
+/** `sorted` (ascending) without one entry equal (Object.is) to each of `drop`, which it holds. */
+function withoutValues(sorted: Float64Array, drop: Float64Array): Float64Array {
+  const gone = new Uint8Array(sorted.length);
+  for (const x of drop) {
+    let k = lowerBound(sorted, x);
+    while (gone[k] === 1 || !Object.is(sorted[k], x)) k++;
+    gone[k] = 1;
+  }
+  const out = new Float64Array(sorted.length - drop.length);
+  for (let k = 0, j = 0; k < sorted.length; k++) if (gone[k] === 0) out[j++] = sorted[k]!;
+  return out;
+}
+
 // ---------------------------------------------------------------------------------------------
 // The series as the backtest reads it.
 
@@ -175,10 +268,20 @@ interface Scoring {
 
 function scoringOf(ys: Float64Array, m: number): Scoring {
   const T = ys.length;
+  const inv100 = scratch.f64('backtest.inv100', T);
+  for (let i = 0; i < T; i++) {
+    const a = ys[i]!;
+    inv100[i] = a !== 0 && Number.isFinite(a) ? 100 / a : NaN;
+  }
+  return { scale: maseScale(ys, m), inv100 };
+}
+
+/** The MASE scale: in-sample MAE of the one-step (m = 1) or seasonal differences, NaN without any. */
+function maseScale(ys: Float64Array, m: number): number {
   const lag = m > 1 ? m : 1;
   let sAbs = 0;
   let nAbs = 0;
-  for (let i = lag; i < T; i++) {
+  for (let i = lag; i < ys.length; i++) {
     const a = ys[i]!;
     const b = ys[i - lag]!;
     if (present(a) && present(b)) {
@@ -186,12 +289,7 @@ function scoringOf(ys: Float64Array, m: number): Scoring {
       nAbs++;
     }
   }
-  const inv100 = scratch.f64('backtest.inv100', T);
-  for (let i = 0; i < T; i++) {
-    const a = ys[i]!;
-    inv100[i] = a !== 0 && Number.isFinite(a) ? 100 / a : NaN;
-  }
-  return { scale: nAbs > 0 ? sAbs / nAbs : NaN, inv100 };
+  return nAbs > 0 ? sAbs / nAbs : NaN;
 }
 
 // ---------------------------------------------------------------------------------------------

@@ -38,7 +38,7 @@ import { runResidualTests } from './checks.js';
 import { tCdf, tQuantile } from './dist.js';
 import { nextErrorSpread, sharedShocks, type NextErrorSpread } from './errorspread.js';
 import { checkLevels, levelTail } from './levels.js';
-import { meanAndSquares, selectQuantiles, sortedQuantile, type Squares } from './numeric.js';
+import { meanAndSquares, selectQuantiles, sortedCopy, sortedQuantile, type Squares } from './numeric.js';
 import { simulatePaths } from './simulate.js';
 import type {
   Fit,
@@ -72,22 +72,6 @@ function columnsOf(paths: Float64Array, nPaths: number, horizon: number): Float6
     sortedColumns.set(paths, cols);
   }
   return cols;
-}
-
-const sortedCache = new WeakMap<Float64Array, Float64Array>();
-
-/**
- * An ascending copy of `xs`, computed once per array (the backtest's errors are sorted for the
- * empirical intervals, their coverage and every later tail probability). Callers must not change
- * `xs` afterwards, nor the copy.
- */
-export function sortedCopy(xs: Float64Array): Float64Array {
-  let s = sortedCache.get(xs);
-  if (!s) {
-    s = xs.slice().sort();
-    sortedCache.set(xs, s);
-  }
-  return s;
 }
 
 /** Fewest backtest errors over the steps 1..H of a method's backtest (0 when there is none). */

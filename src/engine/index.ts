@@ -6,7 +6,7 @@ export { tQuantile, tCdf, normalQuantile, normalCdf, chiSquareCdf, chiSquareQuan
 export { createRandom, type Random } from './random.js';
 export { fitMethod, isFit } from './methods.js';
 export { defaultLags, runResidualTests } from './checks.js';
-export { runBacktest } from './backtest.js';
+export { prefixBacktest, runBacktest } from './backtest.js';
 export { selectMethod } from './select.js';
 export { simulatePaths } from './simulate.js';
 export { chooseIntervalKind, makeForecast, tailProbability, quantileAt } from './forecast.js';

@@ -129,6 +129,99 @@ export function upperBound(a: ArrayLike<number>, x: number, n = a.length): numbe
 }
 
 /**
+ * Sorts `a` ascending in place, in the order TypedArray.prototype.sort gives (-0 before +0, NaN
+ * last), and returns it: a quicksort (median of three, insertion sort below 16 entries), faster than
+ * the built-in sort on the few hundred to few thousand entries the engine sorts.
+ */
+export function sortAscending(a: Float64Array): Float64Array {
+  let zeros = 0;
+  for (let i = 0; i < a.length; i++) {
+    const x = a[i]!;
+    if (x !== x) return a.sort(); // NaN: the built-in order
+    if (x === 0) zeros++;
+  }
+  quicksort(a, 0, a.length - 1);
+  if (zeros > 1) {
+    // Equal under <, so the zeros lie together in some order: put -0 first, as the built-in sort does.
+    let i = lowerBound(a, 0);
+    let neg = 0;
+    for (let k = i; k < i + zeros; k++) if (Object.is(a[k], -0)) neg++;
+    for (; neg > 0; neg--, zeros--) a[i++] = -0;
+    for (; zeros > 0; zeros--) a[i++] = 0;
+  }
+  return a;
+}
+
+function quicksort(a: Float64Array, lo: number, hi: number): void {
+  while (hi - lo > 16) {
+    const mid = (lo + hi) >>> 1;
+    let x = a[lo]!;
+    let y = a[mid]!;
+    let z = a[hi]!;
+    if (x > y) [x, y] = [y, x];
+    if (y > z) [y, z] = [z, y];
+    if (x > y) [x, y] = [y, x];
+    const pivot = y;
+    let i = lo;
+    let j = hi;
+    while (i <= j) {
+      while (a[i]! < pivot) i++;
+      while (a[j]! > pivot) j--;
+      if (i <= j) {
+        const t = a[i]!;
+        a[i] = a[j]!;
+        a[j] = t;
+        i++;
+        j--;
+      }
+    }
+    // Recurse into the smaller part, loop on the larger: the stack stays O(log n).
+    if (j - lo < hi - i) {
+      quicksort(a, lo, j);
+      lo = i;
+    } else {
+      quicksort(a, i, hi);
+      hi = j;
+    }
+  }
+  for (let i = lo + 1; i <= hi; i++) {
+    const x = a[i]!;
+    let j = i - 1;
+    while (j >= lo && a[j]! > x) {
+      a[j + 1] = a[j]!;
+      j--;
+    }
+    a[j + 1] = x;
+  }
+}
+
+const sortedCache = new WeakMap<Float64Array, Float64Array>();
+
+/**
+ * An ascending copy of `xs`, computed once per array (the backtest's errors are sorted for the
+ * empirical intervals, their coverage and every later tail probability). Callers must not change
+ * `xs` afterwards, nor the copy.
+ */
+export function sortedCopy(xs: Float64Array): Float64Array {
+  let s = sortedCache.get(xs);
+  if (!s) {
+    s = sortAscending(xs.slice());
+    sortedCache.set(xs, s);
+  }
+  return s;
+}
+
+/** The ascending copy of `xs` when sortedCopy already made (or was given) it, else undefined. */
+export function sortedIfKnown(xs: Float64Array): Float64Array | undefined {
+  return sortedCache.get(xs);
+}
+
+/** Records `sorted` as the ascending copy of `xs` (it must be exactly that), for sortedCopy. */
+export function rememberSorted(xs: Float64Array, sorted: Float64Array): void {
+  sortedCache.set(xs, sorted);
+}
+
+/**
  * A Fenwick (binary indexed) tree of counts over positions 0..n-1 (Fenwick 1994): add one at a
  * position, count the positions below k, and find the k-th smallest occupied position, each in
  * O(log n). `reset(n)` empties it for reuse with up to its capacity.

@@ -7,10 +7,12 @@ import {
   fitMethod,
   isFit,
   makeForecast,
+  prefixBacktest,
   runBacktest,
   simulatePaths,
   type MethodName,
 } from '../../src/engine/index.js';
+import { sortAscending, sortedCopy } from '../../src/engine/numeric.js';
 
 const METHODS: MethodName[] = ['mean', 'naive', 'seasonal-naive', 'drift'];
 
@@ -173,6 +175,73 @@ describe('backtest equals a plain refit at every origin', () => {
         }
       }),
       { numRuns: 100 },
+    );
+  });
+
+  it('of a prefix, taken from the whole series backtest, equals the backtest of the prefix bit for bit', () => {
+    // prefixBacktest reuses the whole series' errors (a fit at origin i sees y[0..i] only) and its
+    // sorted copies; the reference is the prefix backtested on its own and sorted by the built-in sort.
+    const withGaps = fc
+      .tuple(
+        fc.array(fc.oneof(fc.integer({ min: -5, max: 5 }), fc.double({ min: -1e3, max: 1e3, noNaN: true })), {
+          minLength: 12,
+          maxLength: 60,
+        }),
+        fc.array(fc.integer({ min: 0, max: 59 }), { maxLength: 8 }),
+      )
+      .map(([ys, holes]) => {
+        const y = Float64Array.from(ys);
+        for (const i of holes) if (i < y.length) y[i] = NaN;
+        return y;
+      });
+    fc.assert(
+      fc.property(
+        withGaps,
+        fc.integer({ min: 1, max: 4 }),
+        fc.integer({ min: 1, max: 10 }),
+        fc.boolean(),
+        (y, m, back, sortFirst) => {
+          const P = Math.max(1, y.length - back);
+          const o = { season: m, minTrain: 4, horizon: 4 };
+          const full = runBacktest(y, METHODS, { ...o, levels: [80], coverage: [] });
+          for (const method of METHODS) {
+            const whole = full.methods[method]!;
+            if (sortFirst) for (const e of whole.errors) sortedCopy(e);
+            const got = prefixBacktest(y, P, whole, o);
+            const ref = runBacktest(y.slice(0, P), [method], { ...o, levels: [80], coverage: [] }).methods[
+              method
+            ]!;
+            expect(got.steps).toEqual(ref.steps);
+            expect(got.notes).toEqual(ref.notes);
+            expect(got.origins).toBe(ref.origins);
+            got.errors.forEach((e, h) => {
+              expect(Array.from(e)).toEqual(Array.from(ref.errors[h]!));
+              expect(Array.from(sortedCopy(e))).toEqual(Array.from(ref.errors[h]!.slice().sort()));
+            });
+          }
+        },
+      ),
+      { numRuns: 200 },
+    );
+  });
+});
+
+describe('the engine sort', () => {
+  it('orders exactly as the built-in typed-array sort (ties, -0 and +0, NaN)', () => {
+    const value = fc.oneof(
+      fc.constantFrom(0, -0, NaN, 1, -1),
+      fc.integer({ min: -3, max: 3 }),
+      fc.double({ noNaN: false }),
+    );
+    fc.assert(
+      fc.property(fc.array(value, { maxLength: 300 }), (xs) => {
+        const a = Float64Array.from(xs);
+        const got = Array.from(sortAscending(a.slice()));
+        const want = Array.from(a.slice().sort());
+        expect(got.length).toBe(want.length);
+        got.forEach((x, i) => expect(Object.is(x, want[i])).toBe(true));
+      }),
+      { numRuns: 300 },
     );
   });
 });
