@@ -9,7 +9,7 @@ import { isDynamicPattern } from 'tinyglobby';
 import { loadPlan } from './config/index.js';
 import { LeadlineError } from './errors.js';
 import { visible } from './text/index.js';
-import type { Results, SeriesResult } from './results.js';
+import { seriesForFile, type Results, type SeriesResult } from './results.js';
 
 /** Resolves a path and follows symlinks as far as they exist (the file itself may not exist yet). */
 function canonical(p: string): string {
@@ -241,7 +241,7 @@ function resultsJsonHead(head: Omit<Results, 'series'>): string {
 }
 
 function resultsJsonSeries(s: SeriesResult, i: number): string {
-  return (i === 0 ? '\n    ' : ',\n    ') + JSON.stringify(s);
+  return (i === 0 ? '\n    ' : ',\n    ') + JSON.stringify(seriesForFile(s));
 }
 
 function resultsJsonEnd(count: number): string {

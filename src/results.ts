@@ -198,7 +198,26 @@ const incidentRow = z.strictObject({
   reason: text(),
 });
 
-export const seriesResultSchema = z.strictObject({
+/**
+ * `history` in columns, as the file holds it (`history` is then empty): the points are consecutive
+ * from index `from`. Each point's CSV line is in `rows` (null for a gap-filled point), or is its index
+ * plus `rowOffset` when that holds for every point; its time is in `times`, or is `start` plus k
+ * times `stepMs` for the k-th point when that holds for every point; neither for row order.
+ */
+const historyColumns = z
+  .strictObject({
+    from: count,
+    values: z.array(z.number().nullable()).max(MAX_POINTS),
+    rows: z.array(count.nullable()).max(MAX_POINTS).optional(),
+    rowOffset: int.optional(),
+    times: z.array(time).max(MAX_POINTS).optional(),
+    start: text(64).optional(),
+    stepMs: z.number().positive().optional(),
+  })
+  .meta({ description: 'The history points in columns; `history` is empty when this is present.' });
+type HistoryColumns = z.output<typeof historyColumns>;
+
+const seriesFields = z.strictObject({
   /** Display name: metric name, plus column and key where a metric yields several series. */
   name: text(),
   metric: text(),
@@ -238,6 +257,7 @@ export const seriesResultSchema = z.strictObject({
   history: z.array(historyPoint).max(MAX_POINTS),
   /** Residuals of the chosen method aligned with `history` (null where undefined). */
   residuals: z.array(z.number().nullable()).max(MAX_POINTS),
+  historyColumns: historyColumns.optional(),
   verdict: verdictSchema,
   /** One line saying why the verdict is what it is. */
   reason: text(),
@@ -251,6 +271,76 @@ export const seriesResultSchema = z.strictObject({
    */
   judged: z.boolean().optional(),
 });
+
+/** A series as read: `historyColumns` becomes the `history` points (one form in memory). */
+export const seriesResultSchema = seriesFields.transform((s, ctx) => {
+  const { historyColumns: cols, ...rest } = s;
+  if (!cols) return rest;
+  const history = historyFromColumns(cols);
+  if (typeof history === 'string' || rest.history.length > 0) {
+    ctx.addIssue({
+      code: 'custom',
+      path: ['historyColumns'],
+      message: typeof history === 'string' ? history : 'history and historyColumns cannot both hold points',
+    });
+    return z.NEVER;
+  }
+  return { ...rest, history };
+});
+
+function historyFromColumns(c: HistoryColumns): HistoryPoint[] | string {
+  const n = c.values.length;
+  if (c.rows && c.rows.length !== n) return 'rows must have one entry per value';
+  if (c.times && c.times.length !== n) return 'times must have one entry per value';
+  const t0 = c.start === undefined ? NaN : Date.parse(c.start);
+  if (c.start !== undefined && !(Number.isFinite(t0) && new Date(t0).toISOString() === c.start))
+    return 'start must be an ISO 8601 UTC time as Leadline writes it';
+  const step = c.stepMs ?? 0;
+  const out: HistoryPoint[] = [];
+  for (let k = 0; k < n; k++) {
+    const index = c.from + k;
+    const row = c.rows ? c.rows[k]! : c.rowOffset !== undefined ? index + c.rowOffset : null;
+    const time = c.times ? c.times[k]! : c.start !== undefined ? new Date(t0 + k * step).toISOString() : null;
+    out.push({ index, row, time, value: c.values[k]! });
+  }
+  return out;
+}
+
+/**
+ * A series as the file holds it: its `history` points in columns (historyColumns, after
+ * `residuals`), lines and times written as an offset and a step wherever those reproduce every point
+ * exactly. Reading it back (seriesResultSchema) gives the series again.
+ */
+export function seriesForFile(s: SeriesResult): Record<string, unknown> {
+  const h = s.history;
+  if (h.length === 0 || !h.every((p, k) => p.index === h[0]!.index + k)) return s;
+  const out: Record<string, unknown> = {};
+  for (const [k, v] of Object.entries(s)) {
+    out[k] = k === 'history' ? [] : v;
+    if (k === 'residuals') out.historyColumns = historyToColumns(s.history);
+  }
+  return out;
+}
+
+function historyToColumns(h: HistoryPoint[]): HistoryColumns {
+  const from = h[0]!.index;
+  const cols: HistoryColumns = { from, values: h.map((p) => p.value) };
+  const offset = h[0]!.row === null ? null : h[0]!.row - from;
+  if (offset !== null && h.every((p) => p.row === p.index + offset)) cols.rowOffset = offset;
+  else cols.rows = h.map((p) => p.row);
+  if (h.every((p) => p.time === null)) return cols;
+  const t0 = h[0]!.time === null ? NaN : Date.parse(h[0]!.time);
+  const step = h.length > 1 && h[1]!.time !== null ? Date.parse(h[1]!.time) - t0 : NaN;
+  const regular =
+    step > 0 &&
+    new Date(t0).toISOString() === h[0]!.time &&
+    h.every((p, k) => p.time === new Date(t0 + k * step).toISOString());
+  if (regular) {
+    cols.start = h[0]!.time!;
+    cols.stepMs = step;
+  } else cols.times = h.map((p) => p.time);
+  return cols;
+}
 
 export const problemSchema = z.strictObject({
   kind: z.enum(['config', 'data', 'internal']),
