@@ -213,6 +213,10 @@ const historyColumns = z
     times: z.array(time).max(MAX_POINTS).optional(),
     start: text(64).optional(),
     stepMs: z.number().positive().optional(),
+    /** Each point's label, when any has one (null for none). */
+    labels: z.array(text(200).nullable()).max(MAX_POINTS).optional(),
+    /** Indices of the points that are known incidents. */
+    incidentAt: z.array(count).max(MAX_POINTS).optional(),
   })
   .meta({ description: 'The history points in columns; `history` is empty when this is present.' });
 type HistoryColumns = z.output<typeof historyColumns>;
@@ -292,6 +296,10 @@ function historyFromColumns(c: HistoryColumns): HistoryPoint[] | string {
   const n = c.values.length;
   if (c.rows && c.rows.length !== n) return 'rows must have one entry per value';
   if (c.times && c.times.length !== n) return 'times must have one entry per value';
+  if (c.labels && c.labels.length !== n) return 'labels must have one entry per value';
+  const incidents = new Set(c.incidentAt);
+  for (const i of incidents)
+    if (i < c.from || i >= c.from + n) return 'incidentAt must name points of the history';
   const t0 = c.start === undefined ? NaN : Date.parse(c.start);
   if (c.start !== undefined && !(Number.isFinite(t0) && new Date(t0).toISOString() === c.start))
     return 'start must be an ISO 8601 UTC time as Leadline writes it';
@@ -301,7 +309,15 @@ function historyFromColumns(c: HistoryColumns): HistoryPoint[] | string {
     const index = c.from + k;
     const row = c.rows ? c.rows[k]! : c.rowOffset !== undefined ? index + c.rowOffset : null;
     const time = c.times ? c.times[k]! : c.start !== undefined ? new Date(t0 + k * step).toISOString() : null;
-    out.push({ index, row, time, value: c.values[k]! });
+    const label = c.labels?.[k];
+    out.push({
+      index,
+      row,
+      time,
+      value: c.values[k]!,
+      ...(label != null ? { label } : {}),
+      ...(incidents.has(index) ? { incident: true as const } : {}),
+    });
   }
   return out;
 }
@@ -328,6 +344,8 @@ function historyToColumns(h: HistoryPoint[]): HistoryColumns {
   const offset = h[0]!.row === null ? null : h[0]!.row - from;
   if (offset !== null && h.every((p) => p.row === p.index + offset)) cols.rowOffset = offset;
   else cols.rows = h.map((p) => p.row);
+  if (h.some((p) => p.label !== undefined)) cols.labels = h.map((p) => p.label ?? null);
+  if (h.some((p) => p.incident)) cols.incidentAt = h.filter((p) => p.incident).map((p) => p.index);
   if (h.every((p) => p.time === null)) return cols;
   const t0 = h[0]!.time === null ? NaN : Date.parse(h[0]!.time);
   const step = h.length > 1 && h[1]!.time !== null ? Date.parse(h[1]!.time) - t0 : NaN;

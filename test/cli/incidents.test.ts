@@ -4,7 +4,7 @@ import { mkdirSync, mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 import { describe, expect, it } from 'vitest';
-import type { Results } from '../../src/results.js';
+import { resultsSchema, type Results } from '../../src/results.js';
 import { cli } from './helpers.js';
 
 /** A weekly pattern (the same weekday, the same value) over 10 weeks, with a spike on day 64. */
@@ -46,7 +46,9 @@ async function run(dir: string, extra: string[] = []) {
     dir,
   );
   const results =
-    r.code === 2 && r.err ? null : (JSON.parse(readFileSync(path.join(dir, 'r.json'), 'utf8')) as Results);
+    r.code === 2 && r.err
+      ? null
+      : resultsSchema.parse(JSON.parse(readFileSync(path.join(dir, 'r.json'), 'utf8')));
   return { ...r, results };
 }
 

@@ -33,7 +33,15 @@ describe('the results JSON text', () => {
     const history = [
       { ...base, index: 5, row: 7, time: '2025-01-31T00:00:00.000Z' },
       { ...base, index: 6, row: null, time: '2025-02-28T00:00:00.000Z', value: null }, // gap-filled
-      { ...base, index: 7, row: 8, time: '2025-03-31T00:00:00.000Z', value: 2.5 },
+      {
+        ...base,
+        index: 7,
+        row: 8,
+        time: '2025-03-31T00:00:00.000Z',
+        value: 2.5,
+        label: 'v2',
+        incident: true,
+      },
     ];
     const s = { history, residuals: [0.1, null, -0.2] } as unknown as SeriesResult;
     const file = plain(seriesForFile(s)) as Record<string, unknown>;
@@ -43,6 +51,8 @@ describe('the results JSON text', () => {
       values: [1, null, 2.5],
       rows: [7, null, 8],
       times: ['2025-01-31T00:00:00.000Z', '2025-02-28T00:00:00.000Z', '2025-03-31T00:00:00.000Z'],
+      labels: [null, null, 'v2'],
+      incidentAt: [7],
     });
     // Row order: no times at all.
     const rowOrder = seriesForFile({
@@ -64,6 +74,14 @@ describe('the results JSON text', () => {
       mutate(r);
       return seriesResultSchema.safeParse(r).success;
     };
+    const marked = {
+      ...results.series[0]!,
+      history: results.series[0]!.history.map((p, k) =>
+        k === 1 ? { ...p, label: 'a', incident: true as const } : p,
+      ),
+    };
+    expect(plain(seriesResultSchema.parse(plain(seriesForFile(marked))))).toEqual(plain(marked));
+    expect(bad((r) => (r.historyColumns.incidentAt = [0]))).toBe(false);
     expect(bad((r) => (r.historyColumns.rows = [1]))).toBe(false);
     expect(bad((r) => (r.historyColumns.start = 'yesterday'))).toBe(false);
     expect(bad((r) => (r.history = results.series[0]!.history))).toBe(false);
