@@ -94,6 +94,8 @@ export function nextErrorSpread(
   if (!(n >= 2) || first < 0) return { ratio: NaN, df: NaN };
   // Errors are correlated only within a lag of h (mean, naive, drift) or k seasons (seasonal naive).
   const reach = method === 'seasonal-naive' ? m * Math.ceil(h / m) : h;
+  // Seasonal-naive errors share shocks only a whole number of seasons apart: the pairs between are 0.
+  const stride = method === 'seasonal-naive' ? m : 1;
   const rows = new Float64Array(n); // C1
   let trace = 0;
   let frob = 0; // |C|_F^2
@@ -102,7 +104,7 @@ export function nextErrorSpread(
     trace += cii;
     frob += cii * cii;
     rows[i - first] += cii;
-    for (let j = i + 1; j <= Math.min(last, i + reach - 1); j++) {
+    for (let j = i + stride; j <= Math.min(last, i + reach - 1); j += stride) {
       const c = covariance(method, m, h, i, j);
       rows[i - first] += c;
       rows[j - first] += c;
