@@ -49,9 +49,10 @@ svg .checked.outside{stroke:var(--risk)}
 svg .checked.alarm{fill:var(--alarm);stroke:var(--bg);stroke-width:1.5}
 svg .incident{fill:var(--bg);stroke:var(--incident);stroke-width:2}svg .unit{fill:var(--muted)}
 svg .zero{stroke:var(--muted)}svg .resid-line{fill:none;stroke:var(--resid);stroke-width:1;opacity:.6}
-svg .resid-dot{fill:var(--resid)}
+svg .resid-dot{stroke:var(--resid)}
 svg .resid-dot.middle{opacity:.35}svg .third{stroke:var(--muted);stroke-dasharray:3 3}svg .spread-band{fill:var(--b0);opacity:.8}
-svg .qq-line{stroke:var(--fc);stroke-width:1.5}svg .qq-dot{fill:var(--resid)}svg .qq-dot.off{fill:var(--risk)}
+svg .qq-line{stroke:var(--fc);stroke-width:1.5}svg .dots{fill:none;stroke-linecap:round}
+svg .qq-dot{stroke:var(--resid)}svg .qq-dot.off{stroke:var(--risk)}
 svg .p-line{stroke:var(--risk);stroke-dasharray:4 3}svg .lb-line{fill:none;stroke:var(--resid);stroke-width:1.2}
 svg .lb-dot{fill:var(--resid)}svg .lb-dot.low{fill:var(--alarm)}svg .lb-used{fill:none;stroke:var(--fg);stroke-width:1.5}
 svg .bt-bar{fill:var(--bar)}svg .bt-bar.chosen{fill:var(--chosen)}svg .bt-label{fill:var(--fg)}

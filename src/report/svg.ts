@@ -28,6 +28,31 @@ type XScale = ScaleLinear<number, number> | ScaleTime<number, number>;
 /** Numbers in SVG attributes: two decimals, no exponent. */
 const f = (x: number): string => (Math.round(x * 100) / 100).toString();
 
+/**
+ * Many plain dots (no tooltip of their own) as one path per class: each dot a zero-length segment
+ * drawn with a round cap of diameter 2r, which looks exactly like a circle of radius r at a quarter
+ * of the bytes of one <circle> each. `data-dots` says how many a path holds. Dots keep their order
+ * within a class; a class's path is drawn where its first dot falls.
+ */
+function dots(pts: readonly { cls: string; x: number; y: number }[], r: number): string {
+  const byClass = new Map<string, string[]>();
+  for (const p of pts) {
+    if (!Number.isFinite(p.x) || !Number.isFinite(p.y)) continue;
+    const list = byClass.get(p.cls) ?? [];
+    list.push(`M${f1(p.x)} ${f1(p.y)}h0`);
+    byClass.set(p.cls, list);
+  }
+  return [...byClass.entries()]
+    .map(
+      ([cls, segs]) =>
+        `<path class="dots ${cls}" data-dots="${segs.length}" stroke-width="${2 * r}" d="${segs.join('')}"/>`,
+    )
+    .join('');
+}
+
+/** A coordinate to a tenth of a pixel (dots: finer is invisible). */
+const f1 = (x: number): string => (Math.round(x * 10) / 10).toString();
+
 function isNum(x: unknown): x is number {
   return typeof x === 'number' && Number.isFinite(x);
 }
@@ -236,6 +261,7 @@ export function fanChart(s: SeriesResult, id: string, ascending: readonly LevelV
       .map((q) => ({ x: q.x, lo: q.p.lower[key]!, hi: q.p.upper[key]! }));
     if (origin && origin.x !== null) pts.unshift({ x: origin.x, lo: origin.v, hi: origin.v });
     const d = area<{ x: number; lo: number; hi: number }>()
+      .digits(1)
       .x((p) => X(p.x))
       .y0((p) => y(p.lo))
       .y1((p) => y(p.hi))(pts);
@@ -246,6 +272,7 @@ export function fanChart(s: SeriesResult, id: string, ascending: readonly LevelV
   });
 
   const histLine = line<{ x: number | null; y: number | null }>()
+    .digits(1)
     .defined((p) => p.x !== null && isNum(p.y))
     .x((p) => X(p.x!))
     .y((p) => y(p.y!))(histPts);
@@ -253,6 +280,7 @@ export function fanChart(s: SeriesResult, id: string, ascending: readonly LevelV
   const meanPts = fc.map((q) => ({ x: q.x, y: q.p.mean }));
   if (origin && origin.x !== null) meanPts.unshift({ x: origin.x, y: origin.v });
   const meanLine = line<{ x: number; y: number }>()
+    .digits(1)
     .x((p) => X(p.x))
     .y((p) => y(p.y))(meanPts);
   if (meanLine) out.push(`<path class="forecast" d="${meanLine}"/>`);
@@ -416,12 +444,14 @@ export function spreadChart(s: SeriesResult, id: string): string {
     band(first, s1, 'first', 'first third') +
     band(last, s3, 'last', 'last third') +
     `<line class="zero" x1="${m.left}" x2="${HALF - m.right}" y1="${f(y(0))}" y2="${f(y(0))}"/>` +
-    pts
-      .map(
-        (p, i) =>
-          `<circle class="resid-dot${i < third || i >= n - third ? '' : ' middle'}" cx="${f(X(p.x))}" cy="${f(y(p.r))}" r="${n > 150 ? 1.2 : 1.8}"/>`,
-      )
-      .join('') +
+    dots(
+      pts.map((p, i) => ({
+        cls: i < third || i >= n - third ? 'resid-dot' : 'resid-dot middle',
+        x: X(p.x),
+        y: y(p.r),
+      })),
+      n > 150 ? 1.2 : 1.8,
+    ) +
     `<text class="tick" x="${HALF - m.right}" y="${height - 8}" text-anchor="end">time →</text>` +
     '</g></svg>'
   );
@@ -478,12 +508,10 @@ export function qqChart(s: SeriesResult, id: string): string {
     plotGroup(x, y, false) +
     ticks +
     `<line class="qq-line" x1="${f(x(d0))}" y1="${f(y(d0))}" x2="${f(x(d1))}" y2="${f(y(d1))}"/>` +
-    z
-      .map(
-        (v, i) =>
-          `<circle class="qq-dot${Math.abs(v - q[i]!) > 1 ? ' off' : ''}" cx="${f(x(q[i]!))}" cy="${f(y(v))}" r="2.2"/>`,
-      )
-      .join('') +
+    dots(
+      z.map((v, i) => ({ cls: Math.abs(v - q[i]!) > 1 ? 'qq-dot off' : 'qq-dot', x: x(q[i]!), y: y(v) })),
+      2.2,
+    ) +
     `<text class="tick" x="${HALF - m.right}" y="${height - 4}" text-anchor="end">normal quantile</text>` +
     `<text class="tick" x="${m.left + 4}" y="${m.top + 4}">residual (sd units)</text>` +
     '</g></svg>'
@@ -526,6 +554,7 @@ export function ljungBoxChart(s: SeriesResult, id: string): string {
     .range([height - m.bottom, m.top]);
   const Y = (p: number) => y(Math.max(FLOOR, Math.min(1, p)));
   const path = line<{ lag: number; p: number }>()
+    .digits(1)
     .x((d) => x(d.lag))
     .y((d) => Y(d.p))(pts);
   const below = pts.filter((d) => d.p < 0.05).length;

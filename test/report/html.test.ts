@@ -272,7 +272,12 @@ describe('fan chart geometry', () => {
     const s = run.series[0]!;
     const r = s.residuals.filter((x): x is number => x !== null);
     const { page } = await load(renderHtml(run), 'qq');
-    expect(await page.locator('svg.qq circle.qq-dot').count()).toBe(r.length);
+    // One dot per residual: the dots are drawn as zero-length segments of one path per class.
+    const qq = await page.$$eval('svg.qq path.qq-dot', (ps) =>
+      ps.map((p) => ({ n: Number(p.getAttribute('data-dots')), d: p.getAttribute('d')! })),
+    );
+    expect(qq.reduce((a, p) => a + p.n, 0)).toBe(r.length);
+    for (const p of qq) expect(p.d.match(/M[\d.]+ [\d.]+h0/g)).toHaveLength(p.n);
     // Brown–Forsythe's quantity for each third: mean absolute distance from the third's median
     // (20 values: the median is the mean of the 10th and 11th smallest).
     const distance = (xs: number[]) => {
