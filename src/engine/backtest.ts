@@ -184,15 +184,16 @@ export function prefixBacktest(
   // Every error whose actual is at or after P is dropped: the last `after` errors of each step.
   let after = 0;
   for (let k = P; k < y.length; k++) if (present(y[k]!)) after++;
+  // The kept errors' actuals are the last c observed values before P: `back` lists them from P - 1.
+  const most = Math.max(0, ...full.errors.map((e) => e.length - after));
+  const back = scratch.i32('prefix.actual', most);
+  for (let k = P - 1, j = 0; j < most; k--) if (present(y[k]!)) back[j++] = k;
   const steps: StepMeasures[] = [];
   const errors: Float64Array[] = [];
   for (let h = 1; h <= o.horizon; h++) {
     const all = full.errors[h - 1]!;
     const c = Math.max(0, all.length - after);
     const e = all.subarray(0, c);
-    // The actual of error j: the kept errors' actuals are the last c observed values before P.
-    const at = scratch.i32('prefix.actual', c);
-    for (let k = P - 1, j = c - 1; j >= 0; k--) if (present(y[k]!)) at[j--] = k;
     let sE = 0;
     let sE2 = 0;
     let sA = 0;
@@ -204,7 +205,7 @@ export function prefixBacktest(
       sE += x;
       sE2 += x * x;
       sA += Math.abs(x);
-      const a = y[at[j]!]!;
+      const a = y[back[c - 1 - j]!]!;
       if (a !== 0) {
         const pct = x * (100 / a);
         cP++;
@@ -222,8 +223,9 @@ export function prefixBacktest(
       mape: cP > 0 ? sAP / cP : NaN,
       mase: c > 0 && scale > 0 ? sA / c / scale : NaN,
     });
+    // Made only if asked for (a forecast sorts the steps it reaches, often step 1 alone).
     const known = sortedIfKnown(all);
-    if (known && c > 0) rememberSorted(e, withoutValues(known, all.subarray(c)));
+    if (known && c > 0) rememberSorted(e, () => withoutValues(known, all.subarray(c)));
     errors.push(e);
   }
   return methodBacktest(full.method, steps, errors, {});

@@ -195,7 +195,7 @@ function quicksort(a: Float64Array, lo: number, hi: number): void {
   }
 }
 
-const sortedCache = new WeakMap<Float64Array, Float64Array>();
+const sortedCache = new WeakMap<Float64Array, Float64Array | (() => Float64Array)>();
 
 /**
  * An ascending copy of `xs`, computed once per array (the backtest's errors are sorted for the
@@ -203,21 +203,28 @@ const sortedCache = new WeakMap<Float64Array, Float64Array>();
  * `xs` afterwards, nor the copy.
  */
 export function sortedCopy(xs: Float64Array): Float64Array {
+  const known = sortedIfKnown(xs);
+  if (known) return known;
+  const s = sortAscending(xs.slice());
+  sortedCache.set(xs, s);
+  return s;
+}
+
+/** The ascending copy of `xs` when sortedCopy already made it (or was told how), else undefined. */
+export function sortedIfKnown(xs: Float64Array): Float64Array | undefined {
   let s = sortedCache.get(xs);
-  if (!s) {
-    s = sortAscending(xs.slice());
+  if (typeof s === 'function') {
+    s = s();
     sortedCache.set(xs, s);
   }
   return s;
 }
 
-/** The ascending copy of `xs` when sortedCopy already made (or was given) it, else undefined. */
-export function sortedIfKnown(xs: Float64Array): Float64Array | undefined {
-  return sortedCache.get(xs);
-}
-
-/** Records `sorted` as the ascending copy of `xs` (it must be exactly that), for sortedCopy. */
-export function rememberSorted(xs: Float64Array, sorted: Float64Array): void {
+/**
+ * Records the ascending copy of `xs` (exactly that), or how to make it without a sort, made when
+ * first asked for, for sortedCopy.
+ */
+export function rememberSorted(xs: Float64Array, sorted: Float64Array | (() => Float64Array)): void {
   sortedCache.set(xs, sorted);
 }
 
