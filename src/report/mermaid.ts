@@ -17,7 +17,7 @@ const MAIN = '#2563eb';
 const BOUND = '#d97706';
 const LIMIT = '#6b7280';
 /** Columns marking known incidents. */
-const INCIDENT = '#0f766e';
+const INCIDENT = '#0f766e40';
 
 /**
  * A finite number as a plain decimal with at most 6 significant digits, or null when it cannot be

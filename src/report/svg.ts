@@ -145,17 +145,22 @@ function xAxis(
     .join('');
 }
 
-/** A row-order tick: the row's label (cut to 10 characters, as a short commit SHA) or its number. */
+/**
+ * A row-order tick: the row's label (cut to 10 characters, as a short commit SHA) or its number; past
+ * the last labelled row (the forecast) the steps after it, "+10".
+ */
 function rowTick(index: number, labels: ReadonlyMap<number, string>): string {
   const label = labels.get(index);
-  return label ? [...label].slice(0, 10).join('') : `#${index + 1}`;
+  if (label) return [...label].slice(0, 10).join('');
+  const last = Math.max(-1, ...labels.keys());
+  return labels.size > 0 && index > last ? `+${index - last}` : `#${index + 1}`;
 }
 
-/** The unit over the y axis, when the series has one. */
-function unitLabel(s: SeriesResult): string {
-  return s.unit
-    ? `<text class="unit" x="${M.left - 6}" y="${M.top - 4}" text-anchor="end">${h(s.unit)}</text>`
-    : '';
+/** The unit along the y axis (left of its tick labels, read bottom to top), when the series has one. */
+function unitLabel(s: SeriesResult, height: number): string {
+  if (!s.unit) return '';
+  const mid = f((M.top + height - M.bottom) / 2);
+  return `<text class="unit" transform="translate(12,${mid}) rotate(-90)" text-anchor="middle">${h(s.unit)}</text>`;
 }
 
 /** x position of a history point, a checked observation or a forecast step. */
@@ -251,7 +256,7 @@ export function fanChart(s: SeriesResult, id: string, ascending: readonly LevelV
   out.push(yAxis(y, M.left, W - M.right));
   const labels = new Map(hist.filter((p) => p.label).map((p) => [p.index, p.label!]));
   out.push(xAxis(x, tl.timeAxis, height - M.bottom, s.spacing, labels));
-  out.push(unitLabel(s));
+  out.push(unitLabel(s, height));
 
   // Bands, widest first so narrower ones sit on top. Anchored at the last observation.
   const origin = lastObs ? { x: tl.ofIndex(lastObs.index, lastObs.time), v: lastObs.value! } : null;
@@ -293,7 +298,7 @@ export function fanChart(s: SeriesResult, id: string, ascending: readonly LevelV
     const ly = f(y(lim.value));
     out.push(
       `<line class="limit" x1="${M.left}" x2="${W - M.right}" y1="${ly}" y2="${ly}" data-limit="${lim.value}"/>` +
-        `<text class="limit-label" x="${M.left + 4}" y="${ly}" dy="${lim.side === 'above' ? '-0.4em' : '1.1em'}">limit ${h(num(lim.value, 6))}</text>`,
+        `<text class="limit-label" x="${M.left + 4}" y="${ly}" dy="${lim.side === 'above' ? '-0.4em' : '1.1em'}">limit ${h(withUnit(num(lim.value, 6), s.unit))}</text>`,
     );
     if (crossX !== null && lim.pointCrossing) {
       const cx = f(X(crossX));
