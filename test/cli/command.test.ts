@@ -56,6 +56,36 @@ describe('the command on the demo scenario', () => {
     expect(alarm.pValue).toBeLessThan(1e-6);
   });
 
+  it('gives a comment within budget whose attention list holds only what to act on', async () => {
+    const dir = tmp();
+    const r = await cli([
+      ...DEMO,
+      '--comment',
+      path.join(dir, 'c.md'),
+      '--fail-on',
+      'never',
+      '--print',
+      'none',
+    ]);
+    expect(r.code).toBe(0);
+    const comment = readFileSync(path.join(dir, 'c.md'), 'utf8');
+    // The issue's budget: at most 12 KB for the demo's 10 series, attention first.
+    expect(Buffer.byteLength(comment)).toBeLessThanOrEqual(12 * 1024);
+    const table = comment.slice(comment.indexOf('### Needs attention'), comment.indexOf('```mermaid'));
+    const rows = table.split('\n').filter((l) => /^\| [^|]+ \| [a-z]/.test(l));
+    // The alarm and the limit at risk; not the steady series whose residual checks flag a caveat.
+    expect(rows.map((l) => l.split(' | ')[1])).toEqual(['label-render', 'events-db-storage']);
+    expect(comment).toMatch(
+      /^Residual checks flagged 3 series \(.*\): their intervals may be less trustworthy/m,
+    );
+    expect(comment).toContain('8 other series: 7 steady, 1 too short (harbour-region-signups).');
+    expect(comment).toMatch(
+      /^Known incidents: 4 rows of label-render, tracking-api\/p95&#95;ms, tracking-api\/requests left out/m,
+    );
+    expect(comment).toContain('166 ms');
+    expect(comment).toContain('within 30 days');
+  });
+
   it('exits 1 when the gate fails and 0 when it passes or is off', async () => {
     const args = [...DEMO, '--print', 'none'];
     expect((await cli([...args, '--fail-on', 'alarm'])).code).toBe(1);
