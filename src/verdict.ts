@@ -7,6 +7,7 @@ import { LeadlineError } from './errors.js';
 import type { Results, SeriesResult } from './results.js';
 import { FAIL_ON_VALUES, STEP_UNIT, type FailOn, type Verdict } from './terms.js';
 import {
+  chance,
   didYouMean,
   levelLabel,
   numsApart,
@@ -80,7 +81,7 @@ export function seriesVerdict(r: SeriesFindings): Pick<SeriesResult, 'verdict' |
     parts.push(
       r.limit.alreadyCrossed
         ? `already ${r.limit.side} the limit ${withUnit(num(r.limit.value, 6, PLAIN), r.unit)}`
-        : `${pct(r.limit.probability)} chance of crossing ${withUnit(num(r.limit.value, 6, PLAIN), r.unit)} within ${windowWords(r.limit.withinLabel, r.limit.within, STEP_UNIT[r.spacing])} (risk allowed ${pct(r.limit.risk)})`,
+        : `${chance(r.limit.probability, r.limit.paths)} chance of crossing ${withUnit(num(r.limit.value, 6, PLAIN), r.unit)} within ${windowWords(r.limit.withinLabel, r.limit.within, STEP_UNIT[r.spacing])} (risk allowed ${pct(r.limit.risk)})`,
     );
   }
   const verdict: Verdict = alarms.length > 0 ? 'alarm' : r.limit?.atRisk ? 'at-risk' : 'ok';

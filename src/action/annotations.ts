@@ -6,6 +6,7 @@ import path from 'node:path';
 import type { Results } from '../results.js';
 import { STEP_UNIT } from '../terms.js';
 import {
+  chance,
   levelLabel,
   num,
   numsApart,
@@ -104,7 +105,7 @@ export function planAnnotations(
         message: oneLine(
           lim.alreadyCrossed
             ? `Already ${lim.side} the limit ${num(lim.value, 6, PLAIN)} at the last observation.`
-            : `${num(lim.probability * 100, 3, PLAIN)}% chance of going ${lim.side} ${num(lim.value, 6, PLAIN)} within ${windowWords(lim.withinLabel, lim.within, STEP_UNIT[s.spacing])} ` +
+            : `${chance(lim.probability, lim.paths)} chance of going ${lim.side} ${num(lim.value, 6, PLAIN)} within ${windowWords(lim.withinLabel, lim.within, STEP_UNIT[s.spacing])} ` +
                 `(risk accepted: ${num(lim.risk * 100, 3, PLAIN)}%).${when} Forecasts are estimates, not guarantees.`,
           1000,
         ),

@@ -1,7 +1,7 @@
 // The HTML report: one self-contained page (inline CSS and SVG, no script, no network; a content
 // security policy forbids anything else), readable in light and dark mode.
 import type { Results, SeriesResult } from '../results.js';
-import { escapeHtml as h, num, pct, plural } from '../text/index.js';
+import { chance, escapeHtml as h, num, pct, plural } from '../text/index.js';
 import { METHOD_LABEL, reportName, VERDICT_LABEL } from './format.js';
 import { backtestChart, fanChart, ljungBoxChart, qqChart, spreadChart } from './svg.js';
 import { buildView, reportOrder, type SeriesView } from './view.js';
@@ -227,7 +227,9 @@ export function renderHtml(results: Results): string {
       s.checked.length === 0
         ? 'none'
         : `${plural(s.checked.filter((c) => c.alarm).length, 'alarm')} in ${s.checked.length} checked`,
-      s.limit ? `${pct(s.limit.probability)} (allowed ${pct(s.limit.risk)})` : '',
+      s.limit
+        ? `${s.limit.alreadyCrossed ? 'already beyond' : chance(s.limit.probability, s.limit.paths)} (allowed ${pct(s.limit.risk)})`
+        : '',
     ]),
   );
   const problems =

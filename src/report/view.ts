@@ -13,6 +13,7 @@ import type {
 import { sideAlpha } from '../alarms/index.js';
 import { levelKey, levelOutside, levelShare, normaliseLevels } from '../engine/levels.js';
 import {
+  chance,
   agree,
   escapeMarkdown as md,
   levelLabel,
@@ -349,7 +350,7 @@ function limitRow(s: SeriesResult): LimitRow | null {
     verdict: verdictView(s.verdict),
     limit: `${l.side} ${u(s, num(l.value, 6))}`,
     within: windowWords(l.withinLabel, l.within, STEP_UNIT[s.spacing]),
-    chance: pct(l.probability),
+    chance: l.alreadyCrossed ? 'already beyond' : chance(l.probability, l.paths),
     allowed: pct(l.risk),
     pointCrossing: crossing(s, l.pointCrossing),
     boundCrossing: crossing(s, l.boundCrossing),
@@ -364,7 +365,7 @@ function limitSentence(s: SeriesResult): string | null {
   const head = `Limit: ${l.side} ${u(s, num(l.value, 6))} within the next ${windowWords(l.withinLabel, l.within, unit)}.`;
   if (l.alreadyCrossed) return `${head} The last observation is already ${l.side} it.`;
   return (
-    `${head} Chance of crossing at any point in the window: ${pct(l.probability)} from ${num(l.paths)} simulated paths ` +
+    `${head} Chance of crossing at any point in the window: ${chance(l.probability, l.paths)} from ${num(l.paths)} simulated paths ` +
     `(allowed ${pct(l.risk)}): ${l.atRisk ? 'at risk' : 'within the allowed risk'}. ` +
     `The point forecast crosses ${crossing(s, l.pointCrossing)}; the ${pct(1 - l.risk, 0)} bound crosses ${crossing(s, l.boundCrossing)}.`
   );

@@ -2,6 +2,7 @@
 // suggestions and escaping untrusted text for markdown, HTML, Mermaid, annotations and the terminal.
 export {
   agree,
+  chance,
   DURATION_PATTERN,
   levelLabel,
   num,

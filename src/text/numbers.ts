@@ -80,6 +80,21 @@ export function pIs(p: number | null | undefined, opts: { atMost?: boolean } = {
   return /^[<≤]/.test(v) ? `p ${v}` : `p = ${v}`;
 }
 
+/**
+ * A chance estimated as the share of `paths` simulated paths, for people. It never reads as certain
+ * or impossible: when all (or none) of the paths cross, the true chance is only known to be above
+ * 1 − 3/n (below 3/n) at 95% confidence — the "rule of three" (Hanley & Lippman-Hand 1983) — and it
+ * prints as that bound; a share that would round to 100.0% or 0.0% prints as "> 99.9%" or "< 0.1%".
+ * Without paths (n = 0, e.g. a limit already crossed) the share prints as it is.
+ */
+export function chance(p: number, paths: number): string {
+  if (!Number.isFinite(p) || !(paths > 0)) return pct(p);
+  if (p >= 1) return `≥ ${pct(Math.max(0, 1 - 3 / paths))}`;
+  if (p <= 0) return `≤ ${pct(Math.min(1, 3 / paths))}`;
+  const s = pct(p);
+  return s === '100.0%' ? '> 99.9%' : s === '0.0%' ? '< 0.1%' : s;
+}
+
 /** An interval level as people read it: 95 -> "95%", 97.5 -> "97.5%". */
 export function levelLabel(level: number): string {
   return `${level}%`;

@@ -62,7 +62,7 @@ describe('planAnnotations', () => {
     ).shown;
     expect(byLimit.find((a) => a.file === 'ops/storage.csv')?.level).toBe('error');
     expect(byLimit.find((a) => a.file === 'ops/storage.csv')?.message).toMatch(
-      /40% chance of going above 2000 within 30 days/,
+      /40.0% chance of going above 2000 within 30 days/,
     );
     const never = planAnnotations(
       results(s, { gate: { failOn: 'never', passed: true, reason: '' } }),

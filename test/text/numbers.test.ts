@@ -1,5 +1,16 @@
 import { describe, expect, it } from 'vitest';
-import { agree, didYouMean, nearest, num, numsApart, pct, pIs, plural, pval } from '../../src/text/index.js';
+import {
+  agree,
+  chance,
+  didYouMean,
+  nearest,
+  num,
+  numsApart,
+  pct,
+  pIs,
+  plural,
+  pval,
+} from '../../src/text/index.js';
 
 describe('numbers for people', () => {
   it('formats values with four significant digits and separators, or plain when asked', () => {
@@ -60,5 +71,21 @@ describe('did you mean', () => {
     expect(nearest('zzz', ['alarm', 'limit'])).toBeNull();
     expect(didYouMean('--colr', ['--color', '--config'])).toBe(' Did you mean "--color"?');
     expect(didYouMean('x', [])).toBe('');
+  });
+});
+
+describe('chance from simulated paths', () => {
+  it('never prints certainty or impossibility from a finite number of paths', () => {
+    // Rule of three (Hanley & Lippman-Hand 1983, JAMA 249:1743): with 0 events in n trials the 95%
+    // upper bound is about 3/n; 1,000 paths all crossing -> at least 1 − 0.003 = 99.7%.
+    expect(chance(1, 1000)).toBe('≥ 99.7%');
+    expect(chance(0, 1000)).toBe('≤ 0.3%');
+    expect(chance(0, 2)).toBe('≤ 100.0%');
+    // 9,996 of 10,000 rounds to 100.0% at one decimal: printed as a bound instead.
+    expect(chance(0.9996, 10000)).toBe('> 99.9%');
+    expect(chance(0.0004, 10000)).toBe('< 0.1%');
+    expect(chance(0.62, 1000)).toBe('62.0%');
+    // No paths (a limit already crossed): the share as it is.
+    expect(chance(1, 0)).toBe('100.0%');
   });
 });
