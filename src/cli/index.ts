@@ -6,6 +6,11 @@ import { main } from './main.js';
 if (!isPoolWorker()) start();
 
 function start(): void {
+  // A reader that stops early (`leadline run … | head`) closes the pipe: the rest of the terminal
+  // output has nowhere to go, but the run still finishes and writes its files and exit code.
+  process.stdout.on('error', (e: NodeJS.ErrnoException) => {
+    if (e.code !== 'EPIPE') throw e;
+  });
   main(process.argv.slice(2), {
     stdout: process.stdout,
     stderr: process.stderr,
