@@ -5,6 +5,7 @@ import type { MetricPlan } from './config/types.js';
 import { settleRunAlarms } from './alarms/scope.js';
 import {
   levelKey,
+  levelRecord,
   significant,
   toScale,
   type Analysis,
@@ -360,12 +361,9 @@ function forecastPoints(a: Analysis, s: Series, horizon: number): ForecastPoint[
   for (let h = 1; h <= Math.min(horizon, fc.horizon); h++) {
     // Digits below a ten-thousandth of the standard error carry nothing (numeric.ts toScale).
     const se = fc.se[h - 1]!;
-    const lower: LevelMap = {};
-    const upper: LevelMap = {};
-    for (const b of fc.bands) {
-      lower[levelKey(b.level)] = toScale(b.lower[h - 1]!, se);
-      upper[levelKey(b.level)] = toScale(b.upper[h - 1]!, se);
-    }
+    const levels = fc.bands.map((b) => b.level);
+    const lower = levelRecord(levels, (_, k) => toScale(fc.bands[k]!.lower[h - 1]!, se));
+    const upper = levelRecord(levels, (_, k) => toScale(fc.bands[k]!.upper[h - 1]!, se));
     out.push({ step: h, time: timeAfterLast(s, h), mean: toScale(fc.mean[h - 1]!, se), lower, upper });
   }
   return out;
@@ -426,7 +424,7 @@ function summariseBacktest(a: Analysis, full: boolean): BacktestSummary {
   ][]) {
     const coverage: Record<string, LevelMap> = {};
     for (const [kind, levels] of Object.entries(mb.coverage))
-      coverage[kind] = Object.fromEntries(Object.entries(levels).map(([l, v]) => [l, significant(v)]));
+      coverage[kind] = levelRecord(Object.keys(levels).map(Number), (l) => significant(levels[levelKey(l)]!));
     methods[name] = {
       ...measures(mb),
       steps: full ? mb.steps.map((st) => ({ step: st.step, ...measures(st) })) : [],

@@ -15,6 +15,7 @@ export {
   bandAt,
   checkLevels,
   levelKey,
+  levelRecord,
   normaliseLevels,
   levelOutside,
   levelShare,

@@ -37,6 +37,27 @@ export function levelKey(level: number): string {
   return String(level);
 }
 
+/** An index far past any level: setting it once turns a record's indexed storage into a dictionary. */
+const FAR_INDEX = '1000000';
+
+/**
+ * A per-level record (keys by levelKey) holding valueOf(level, k) for levels[k]. The same record as
+ * `{ "80": …, "95": … }` to every reader, built small: V8 keeps integer-like keys such as "95" in an
+ * array sized past the largest one (about 1.2 KB for 80 and 95), unless the first index set lies far
+ * beyond, when it keeps a dictionary (about 0.2 KB). A results series holds 30 and more of these
+ * records, thousands of series are held at once, so this is most of a run's memory otherwise.
+ */
+export function levelRecord(
+  levels: readonly number[],
+  valueOf: (level: number, k: number) => number,
+): Record<string, number> {
+  const r: Record<string, number> = {};
+  r[FAR_INDEX] = 0;
+  delete r[FAR_INDEX];
+  levels.forEach((l, k) => (r[levelKey(l)] = valueOf(l, k)));
+  return r;
+}
+
 /** The band at `level`; a RangeError when the bands do not include it (a caller's mistake). */
 export function bandAt<B extends { level: number }>(bands: readonly B[], level: number): B {
   const band = bands.find((b) => b.level === level);

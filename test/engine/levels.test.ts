@@ -6,6 +6,7 @@ import {
   analyse,
   bandAt,
   checkLevels,
+  levelRecord,
   levelKey,
   levelOutside,
   levelTail,
@@ -39,6 +40,14 @@ describe('interval levels', () => {
     const bands = [{ level: 80 }, { level: 95 }];
     expect(bandAt(bands, 95)).toBe(bands[1]);
     expect(() => bandAt(bands, 99)).toThrow(/no interval band at level 99 \(bands: 80, 95\)/);
+  });
+
+  it('a per-level record reads as a plain object keyed by level, in ascending key order', () => {
+    const r = levelRecord([80, 95, 99.5], (l, k) => (k === 1 ? NaN : l / 100));
+    expect(Object.keys(r)).toEqual(['80', '95', '99.5']);
+    expect(r).toEqual({ '80': 0.8, '95': NaN, '99.5': 0.995 });
+    expect(JSON.stringify(r)).toBe('{"80":0.8,"95":null,"99.5":0.995}');
+    expect(r['1000000']).toBeUndefined();
   });
 
   it('the config hands the engine its levels sorted and once each', () => {
