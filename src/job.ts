@@ -13,6 +13,7 @@ import { checkScope, limitWindow, withoutIncidents } from './alarms/scope.js';
 import {
   analysedFindings,
   baseFindings,
+  compactDraft,
   concludeRun,
   countObserved,
   failedDraft,
@@ -169,7 +170,7 @@ export async function analyseFleet(
   const jobs = Math.min(o.jobs ?? defaultJobs(), Math.floor(todo.length / SERIES_PER_WORKER));
   const analysed: SeriesDraft[] = [];
   await runPool(analyseTask, todo, { jobs, init: analyseInit(plan, o) }, (r, i) => {
-    analysed.push(r);
+    analysed.push(jobs > 1 ? compactDraft(r) : r);
     o.onProgress?.(i + 1, todo.length);
   });
   return analysed;
