@@ -15,15 +15,18 @@
 // - analytic: at every origin, with that origin's sigma and df;
 // - empirical: at an origin, the errors known by then (actuals at or before the origin), from the
 //   first origin with at least minErrors of them, kept in a Fenwick tree of ranks so each origin
-//   costs O(log T);
+//   costs O(log T), with their running mean and squares and errorspread.ts's sums (O(h) each);
 // - bootstrap: at most BOOTSTRAP_ORIGINS origins spread evenly, BOOTSTRAP_PATHS paths each, to keep
 //   the cost bounded; the paths resample that origin's own centred residuals (simulate.ts).
+// Both judge against the interval a forecast would have had there: the spliced distribution of
+// forecast.ts (splicedCovers: definition-6 quantiles in the body, the Student-t tail beyond).
 //
 // Parts: RunningFit and one subclass per method hold the running state (fitOrigins feeds it);
 // scoreSteps turns the origins' fits into errors and measures, counting analytic coverage on the
 // way; empiricalCoverage and bootstrapCoverage measure the other two kinds.
 import { tQuantileFrom, tQuantileTable } from './dist.js';
-import { DEFAULT_MIN_ERRORS } from './forecast.js';
+import { ErrorSpreadSums, sharedShocks } from './errorspread.js';
+import { DEFAULT_MIN_ERRORS, def6Quantile, splicedCovers } from './forecast.js';
 import { levelKey, levelTail } from './levels.js';
 import { methodLabel } from './methods.js';
 import {
@@ -31,12 +34,11 @@ import {
   Fenwick,
   inUnits,
   lowerBound,
+  meanAndSquares,
   present,
   rememberSorted,
   sortedCopy,
   sortedIfKnown,
-  sortedQuantile,
-  upperBound,
 } from './numeric.js';
 import { createRandom } from './random.js';
 import { simulateInto, type SimSpec } from './simulate.js';
@@ -96,6 +98,8 @@ export function runBacktest(y: Float64Array, methods: MethodName[], o: BacktestO
     if (scored.analytic) coverage.analytic = scored.analytic;
     if (scored.origins)
       coverage.empirical = empiricalCoverage({
+        method,
+        season: o.season,
         errors: scored.errors,
         origins: scored.origins,
         originStride: scored.originStride,
@@ -152,6 +156,8 @@ export function measureCoverage(
     for (let i = T - 1 - h; j >= 0 && i >= 0; i--) if (present(y[i + h]!)) origins[k * maxO + j--] = i;
   });
   return empiricalCoverage({
+    method: mb.method,
+    season: o.season,
     errors: mb.errors,
     origins,
     originStride: maxO,
@@ -775,6 +781,8 @@ class AnalyticCount {
 }
 
 interface EmpiricalCoverageOptions {
+  method: MethodName;
+  season: number;
   /** Errors per step, in origin order. */
   errors: Float64Array[];
   /** Origin of error j of step h at (h - 1) * originStride + j. */
@@ -785,7 +793,12 @@ interface EmpiricalCoverageOptions {
   minErrors: number;
 }
 
-/** Empirical coverage with only errors known at each origin (see the file comment). */
+/**
+ * Empirical coverage with only errors known at each origin (see the file comment): each judged error
+ * against the interval the forecast would have had there, the spliced distribution of the errors
+ * known by then (forecast.ts splicedCovers: their definition-6 quantiles in the body, the Student-t
+ * prediction tail beyond it, with R and its df from errorspread.ts for the known errors).
+ */
 function empiricalCoverage(o: EmpiricalCoverageOptions): Record<string, number> {
   const { errors, levels, minErrors } = o;
   const L = levels.length;
@@ -800,19 +813,14 @@ function empiricalCoverage(o: EmpiricalCoverageOptions): Record<string, number> 
     const orig = o.origins.subarray(h * o.originStride, h * o.originStride + N);
     const sorted = sortedCopy(e);
     // Each error's first position among the sorted errors (ties share it): the tree counts the
-    // errors known so far at these positions, so below(lowerBound(x)) counts known errors < x and
-    // below(upperBound(x)) those <= x.
+    // errors known so far at these positions, so its k-th counted position is their k-th smallest.
     const lo = scratch.i32('empirical.lo', N);
     for (let j = 0; j < N; j++) lo[j] = lowerBound(sorted, e[j]!);
     tree.reset(N);
-    const kth = (k: number): number => sorted[tree.kth(k)]!;
-    const exact = (c: number, p: number): number => {
-      const pos = (c - 1) * p;
-      const j = Math.floor(pos);
-      const g = pos - j;
-      const lo = kth(j + 1);
-      return g === 0 || j + 1 >= c ? lo : lo + g * (kth(j + 2) - lo);
-    };
+    const order = (k: number): number => sorted[tree.kth(k)]!;
+    const stats = new Welford();
+    const spread = new ErrorSpreadSums(o.method, o.season, h + 1, orig[0]!);
+    const shared = sharedShocks(o.method, o.season, h + 1);
     // Judge at most about EMPIRICAL_COVERAGE_POINTS errors per step, evenly spread over the origins
     // (every error of a short series): the share is a calibration check, and this bounds its cost.
     const stride = Math.max(1, Math.floor(N / EMPIRICAL_COVERAGE_POINTS));
@@ -821,13 +829,22 @@ function empiricalCoverage(o: EmpiricalCoverageOptions): Record<string, number> 
       const oj = orig[j]!;
       while (known < j && orig[known]! + h + 1 <= oj) {
         tree.add(lo[known]!);
+        stats.add(e[known]!);
+        spread.add();
         known++;
       }
       if (known < minErrors || j % stride !== 0) continue;
       const x = e[j]!;
-      const lt = tree.below(lo[j]!);
-      const le = tree.below(upperBound(sorted, x));
-      for (let l = 0; l < L; l++) if (within(x, known, alphas[l]!, lt, le, exact)) inside[l]++;
+      const n = known;
+      const sq = {
+        n,
+        mean: stats.mean,
+        ss: stats.m2,
+        sd: (df: number) => Math.sqrt(Math.max(0, stats.m2) / df),
+      };
+      const q6 = (p: number): number => def6Quantile(order, n, p);
+      const observed = spread.spread(oj + 1);
+      splicedCovers(q6, sq, 0, n / shared, 0, observed, x, alphas, inside);
       total++;
     }
   }
@@ -865,8 +882,9 @@ function bootstrapCoverage(
   fitOrigins(fit, T, o.minTrain, (i) => {
     if (marks[i] !== 1) return;
     const hMax = Math.min(H, T - 1 - i);
-    simulateInto(paths, fit.spec(i), hMax, BOOTSTRAP_PATHS, rnd, 'bootstrap');
-    total += countInside(paths, hMax, ys, i, col, alphas, inside);
+    const spec = fit.spec(i);
+    simulateInto(paths, spec, hMax, BOOTSTRAP_PATHS, rnd, 'bootstrap');
+    total += countInside(paths, hMax, ys, i, col, alphas, inside, spec.poolLength, spec.df ?? 0);
   });
   return shares(o.levels, inside, total);
 }
@@ -885,7 +903,11 @@ function bootstrapPlan(T: number, minTrain: number): Uint8Array {
   return marks;
 }
 
-/** Counts, per level, the steps whose actual lies inside the paths' interval; returns the steps counted. */
+/**
+ * Counts, per level, the steps whose actual lies inside the paths' interval, the spliced
+ * distribution of the paths as a forecast has it (forecast.ts splicedCovers; `base` residuals
+ * resampled, sigma-hat `df`); returns the steps counted.
+ */
 function countInside(
   paths: Float64Array,
   hMax: number,
@@ -894,59 +916,20 @@ function countInside(
   col: Float64Array,
   alphas: number[],
   inside: Int32Array,
+  base: number,
+  df: number,
 ): number {
   const P = col.length;
-  let sortedCol = false;
-  const exact = (_c: number, p: number): number => {
-    if (!sortedCol) {
-      col.sort();
-      sortedCol = true;
-    }
-    return sortedQuantile(col, p);
-  };
   let total = 0;
   for (let h = 0; h < hMax; h++) {
     const a = ys[i + h + 1]!;
     if (!Number.isFinite(a)) continue;
-    let lt = 0;
-    let le = 0;
-    for (let p = 0; p < P; p++) {
-      const v = paths[p * hMax + h]!;
-      col[p] = v;
-      lt += Number(v < a); // branch-free: the outcome is random
-      le += Number(v <= a);
-    }
-    sortedCol = false;
-    for (let l = 0; l < alphas.length; l++) if (within(a, P, alphas[l]!, lt, le, exact)) inside[l]++;
+    for (let p = 0; p < P; p++) col[p] = paths[p * hMax + h]!;
+    col.sort();
+    const q6 = (p: number): number => def6Quantile((k) => col[k - 1]!, P, p);
+    const sq = meanAndSquares(col);
+    splicedCovers(q6, sq, 0, base, df, null, a, alphas, inside);
     total++;
   }
   return total;
-}
-
-/**
- * Whether x lies within [Q(a), Q(1 - a)] of a sample of c, Q the definition-7 quantile, given
- * lt = #{sample < x} and le = #{sample <= x}: the order statistics usually settle it; only when x
- * falls between the two order statistics a quantile interpolates does `exact` compute it.
- */
-function within(
-  x: number,
-  c: number,
-  a: number,
-  lt: number,
-  le: number,
-  exact: (c: number, p: number) => number,
-): boolean {
-  // Lower bound Q(a) = x_(j+1) + g (x_(j+2) - x_(j+1)), 1-based order statistics.
-  const pl = (c - 1) * a;
-  const jl = Math.floor(pl);
-  const gl = pl - jl;
-  // x >= x_(k) iff le >= k; x > x_(k) iff lt >= k.
-  if (le < jl + 1) return false;
-  if (!(le >= (gl > 0 ? jl + 2 : jl + 1)) && x < exact(c, a)) return false;
-  const pu = (c - 1) * (1 - a);
-  const ju = Math.floor(pu);
-  const gu = pu - ju;
-  if (lt < ju + 1) return true;
-  if (lt >= (gu > 0 ? ju + 2 : ju + 1)) return false;
-  return x <= exact(c, 1 - a);
 }

@@ -75,6 +75,72 @@ export interface NextErrorSpread {
 }
 
 /**
+ * The sums behind R and the Satterthwaite df (nextErrorSpread) for errors added one at a time in
+ * origin order from origin `first`: each addition costs O(h) (errors are correlated only within a
+ * lag of h, or k seasons for seasonal naive), so a backtest can ask after every error
+ * (empirical coverage does). C1 (the row sums) changes only for the last few errors.
+ */
+export class ErrorSpreadSums {
+  private n = 0;
+  private trace = 0;
+  private total = 0;
+  private frob = 0;
+  private rows2 = 0;
+  private readonly rows: number[] = [];
+  private readonly m: number;
+  private readonly reach: number;
+
+  constructor(
+    private readonly method: MethodName,
+    season: number,
+    private readonly h: number,
+    private readonly first: number,
+  ) {
+    this.m = Math.max(1, Math.floor(season));
+    this.reach = method === 'seasonal-naive' ? this.m * Math.ceil(h / this.m) : h;
+  }
+
+  /** Adds the next error (origin first + count so far). */
+  add(): void {
+    const { method, m, h, rows } = this;
+    const j = this.first + this.n;
+    const cjj = covariance(method, m, h, j, j);
+    let rj = cjj;
+    this.trace += cjj;
+    this.frob += cjj * cjj;
+    this.total += cjj;
+    // Seasonal-naive errors share shocks only a whole number of seasons apart: the pairs between are 0.
+    const stride = method === 'seasonal-naive' ? m : 1;
+    for (let q = this.n - stride; q >= Math.max(0, this.n - this.reach + 1); q -= stride) {
+      const c = covariance(method, m, h, this.first + q, j);
+      if (c === 0) continue;
+      const r = rows[q]!;
+      this.rows2 += (r + c) * (r + c) - r * r;
+      rows[q] = r + c;
+      rj += c;
+      this.frob += 2 * c * c;
+      this.total += 2 * c;
+    }
+    rows.push(rj);
+    this.rows2 += rj * rj;
+    this.n++;
+  }
+
+  /** R and the df for the errors added so far, the next error made from a prefix of T values. */
+  spread(T: number): NextErrorSpread {
+    const { n, total } = this;
+    if (!(n >= 2) || this.first < 0) return { ratio: NaN, df: NaN };
+    const ss = this.trace - total / n;
+    const ss2 = this.frob - (2 * this.rows2) / n + (total * total) / (n * n);
+    if (!(ss > 0 && ss2 > 0)) return { ratio: NaN, df: NaN };
+    return {
+      ratio: (nextVariance(this.method, this.m, this.h, T) + total / (n * n)) / ss,
+      df: (ss * ss) / ss2,
+    };
+  }
+}
+
+/**
  * R = E[(e* - m)^2] / E[SS] for the n step-h errors of a backtest of a prefix of T values, and the
  * Satterthwaite (1946) df of SS, 2 E[SS]^2 / Var(SS) = tr(PC)^2 / tr((PC)^2) for Gaussian errors
  * (P = I - 11'/n centres them; tr((PC)^2) = |C|^2 - 2 |C1|^2 / n + (1'C1)^2 / n^2): n - 1 for
@@ -88,37 +154,8 @@ export function nextErrorSpread(
   n: number,
   T: number,
 ): NextErrorSpread {
-  const m = Math.max(1, Math.floor(season));
-  const last = T - 1 - h;
-  const first = last - n + 1;
-  if (!(n >= 2) || first < 0) return { ratio: NaN, df: NaN };
-  // Errors are correlated only within a lag of h (mean, naive, drift) or k seasons (seasonal naive).
-  const reach = method === 'seasonal-naive' ? m * Math.ceil(h / m) : h;
-  // Seasonal-naive errors share shocks only a whole number of seasons apart: the pairs between are 0.
-  const stride = method === 'seasonal-naive' ? m : 1;
-  const rows = new Float64Array(n); // C1
-  let trace = 0;
-  let frob = 0; // |C|_F^2
-  for (let i = first; i <= last; i++) {
-    const cii = covariance(method, m, h, i, i);
-    trace += cii;
-    frob += cii * cii;
-    rows[i - first] += cii;
-    for (let j = i + stride; j <= Math.min(last, i + reach - 1); j += stride) {
-      const c = covariance(method, m, h, i, j);
-      rows[i - first] += c;
-      rows[j - first] += c;
-      frob += 2 * c * c;
-    }
-  }
-  let total = 0;
-  let rows2 = 0;
-  for (const r of rows) {
-    total += r;
-    rows2 += r * r;
-  }
-  const ss = trace - total / n;
-  const ss2 = frob - (2 * rows2) / n + (total * total) / (n * n);
-  if (!(ss > 0 && ss2 > 0)) return { ratio: NaN, df: NaN };
-  return { ratio: (nextVariance(method, m, h, T) + total / (n * n)) / ss, df: (ss * ss) / ss2 };
+  const sums = new ErrorSpreadSums(method, season, h, T - h - n);
+  if (T - h - n < 0) return { ratio: NaN, df: NaN };
+  for (let k = 0; k < n; k++) sums.add();
+  return sums.spread(T);
 }

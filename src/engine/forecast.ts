@@ -302,7 +302,7 @@ export function tailScale(
 }
 
 function tailOf(
-  sample: ArrayLike<number>,
+  sq: Squares,
   offset: number,
   lo: number,
   hi: number,
@@ -310,9 +310,7 @@ function tailOf(
   df: number,
   observed: NextErrorSpread | null,
 ): Tail {
-  const n = sample.length;
-  const u = tailStart(base, n);
-  const sq = meanAndSquares(sample);
+  const u = tailStart(base, sq.n);
   const { s, nu } = tailScale(sq, base, df, observed);
   const m = offset + sq.mean;
   const ok = Number.isFinite(s) && s > 0;
@@ -326,6 +324,77 @@ function tailOf(
     beyondHi: ok ? 1 - tCdf((hi - m) / s, nu) : 0,
     belowLo: ok ? tCdf((lo - m) / s, nu) : 0,
   };
+}
+
+/**
+ * The definition-6 quantile at p of n values known through their k-th smallest (1-based), clamped
+ * to the sample: position p (n + 1), interpolated between neighbours.
+ */
+export function def6Quantile(order: (k: number) => number, n: number, p: number): number {
+  const pos = p * (n + 1);
+  if (pos <= 1) return order(1);
+  if (pos >= n) return order(n);
+  const j = Math.floor(pos);
+  const g = pos - j;
+  const lo = order(j);
+  return g === 0 ? lo : lo + g * (order(j + 1) - lo);
+}
+
+/**
+ * The spliced distribution's quantile at prob (file comment) of a sample known through q6, its
+ * definition-6 quantile, and its mean and squares; values are offset + sample. The one rule for
+ * forecasts (quantileAt) and the backtest's coverage of bootstrap and empirical intervals.
+ */
+export function splicedQuantile(
+  q6: (p: number) => number,
+  sq: Squares,
+  offset: number,
+  base: number,
+  df: number,
+  observed: NextErrorSpread | null,
+  prob: number,
+): number {
+  const u = tailStart(base, sq.n);
+  if (prob >= 1 - u && prob <= u) return offset + q6(prob);
+  return tailQuantile(tailOf(sq, offset, offset + q6(1 - u), offset + q6(u), base, df, observed), prob);
+}
+
+/**
+ * For each tail mass a of `alphas`, whether x lies within [Q(a), Q(1 - a)] of the spliced
+ * distribution (splicedQuantile's arguments), counted into `inside`; no tail quantile is computed:
+ * in the body the bounds are the sample's own quantiles, and beyond it x is inside exactly when its
+ * tail probability is at least a (the tail is fitted once for all levels). For the backtest's
+ * coverage, which asks this for every judged actual.
+ */
+export function splicedCovers(
+  q6: (p: number) => number,
+  sq: Squares,
+  offset: number,
+  base: number,
+  df: number,
+  observed: NextErrorSpread | null,
+  x: number,
+  alphas: readonly number[],
+  inside: Int32Array,
+): void {
+  const u = tailStart(base, sq.n);
+  const lo = offset + q6(1 - u);
+  const hi = offset + q6(u);
+  if (x >= lo && x <= hi) {
+    alphas.forEach((a, l) => {
+      if (a < 1 - u || (x >= offset + q6(a) && x <= offset + q6(1 - a))) inside[l]++;
+    });
+    return;
+  }
+  let mass = -1;
+  alphas.forEach((a, l) => {
+    if (a >= 1 - u) return; // both bounds lie in the body, and x beyond it
+    if (mass < 0) {
+      const t = tailOf(sq, offset, lo, hi, base, df, observed);
+      mass = t.s > 0 && t.beyondHi > 0 && t.belowLo > 0 ? tailMass(t, x) : 0;
+    }
+    if (mass >= a) inside[l]++;
+  });
 }
 
 /** The tail's quantile at prob beyond the body (prob > u or < 1 - u). */
@@ -373,7 +442,7 @@ function splicedQuantiles(
     );
     probs.forEach((p, k) => at.set(p, offset + out[k]!));
   }
-  const tail = tailOf(work, offset, at.get(1 - u)!, at.get(u)!, base, df, observed);
+  const tail = tailOf(meanAndSquares(work), offset, at.get(1 - u)!, at.get(u)!, base, df, observed);
   return (prob) => at.get(prob) ?? tailQuantile(tail, prob);
 }
 
@@ -447,7 +516,7 @@ export function tailProbability(
     const x = value - offset;
     const u = tailStart(base, n);
     const t = tailOf(
-      sorted,
+      meanAndSquares(sorted),
       0,
       sortedQuantile(sorted, def6(1 - u, n)),
       sortedQuantile(sorted, def6(u, n)),
@@ -504,10 +573,8 @@ export function quantileAt(fc: Forecast, step: number, prob: number): number {
   if (sample) {
     const { sorted, offset, base, observed } = sample;
     const n = sorted.length;
-    const u = tailStart(base, n);
-    const q = (p: number): number => offset + sortedQuantile(sorted, def6(p, n));
-    if (prob >= 1 - u && prob <= u) return q(prob);
-    return tailQuantile(tailOf(sorted, offset, q(1 - u), q(u), base, fc.df, observed), prob);
+    const q6 = (p: number): number => sortedQuantile(sorted, def6(p, n));
+    return splicedQuantile(q6, meanAndSquares(sorted), offset, base, fc.df, observed, prob);
   }
   if (!(s > 0)) return mu;
   return mu + tQuantile(prob, fc.df) * s;

@@ -346,8 +346,12 @@ describe('analyse', () => {
     const a = analyse(y, { ...OPTIONS, methods: ['mean'], intervals: 'empirical' });
     if (!a.ok) throw new Error(a.reason);
     expect(a.forecast.kind).toBe('empirical');
+    // Against the analytic coverage of the same errors (exact for white noise): one series' shares
+    // vary by a few points (here analytic 82.0% at 80%), and the kinds should agree.
     const cov = a.backtest.methods.mean!.coverage.empirical!;
-    expect(Math.abs(cov['80']! - 0.8)).toBeLessThan(0.04);
+    const exact = a.backtest.methods.mean!.coverage.analytic!;
+    expect(Math.abs(cov['80']! - exact['80']!)).toBeLessThan(0.03);
+    expect(Math.abs(cov['95']! - exact['95']!)).toBeLessThan(0.03);
     expect(Math.abs(cov['95']! - 0.95)).toBeLessThan(0.03);
   });
 
