@@ -844,7 +844,7 @@ function empiricalCoverage(o: EmpiricalCoverageOptions): Record<string, number> 
       };
       const q6 = (p: number): number => def6Quantile(order, n, p);
       const observed = spread.spread(oj + 1);
-      splicedCovers(q6, sq, 0, n / shared, 0, observed, x, alphas, inside);
+      splicedCovers({ q6, sq, offset: 0, base: n / shared, df: 0, observed }, x, alphas, inside);
       total++;
     }
   }
@@ -928,7 +928,7 @@ function countInside(
     col.sort();
     const q6 = (p: number): number => def6Quantile((k) => col[k - 1]!, P, p);
     const sq = meanAndSquares(col);
-    splicedCovers(q6, sq, 0, base, df, null, a, alphas, inside);
+    splicedCovers({ q6, sq, offset: 0, base, df, observed: null }, a, alphas, inside);
     total++;
   }
   return total;

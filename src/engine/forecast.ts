@@ -341,19 +341,24 @@ export function def6Quantile(order: (k: number) => number, n: number, p: number)
 }
 
 /**
- * The spliced distribution's quantile at prob (file comment) of a sample known through q6, its
- * definition-6 quantile, and its mean and squares; values are offset + sample. The one rule for
- * forecasts (quantileAt) and the backtest's coverage of bootstrap and empirical intervals.
+ * A sample as the spliced distribution reads it: q6 its definition-6 quantile, its mean and squares,
+ * values offset + sample, `base` independent observations behind it, the sigma-hat df, and for
+ * observed errors how they relate to the next one (null for draws).
  */
-export function splicedQuantile(
-  q6: (p: number) => number,
-  sq: Squares,
-  offset: number,
-  base: number,
-  df: number,
-  observed: NextErrorSpread | null,
-  prob: number,
-): number {
+export interface SplicedSample {
+  q6: (p: number) => number;
+  sq: Squares;
+  offset: number;
+  base: number;
+  df: number;
+  observed: NextErrorSpread | null;
+}
+
+/**
+ * The spliced distribution's quantile at prob (file comment). The one rule for forecasts
+ * (quantileAt); splicedCovers asks the same of the backtest's coverage.
+ */
+export function splicedQuantile({ q6, sq, offset, base, df, observed }: SplicedSample, prob: number): number {
   const u = tailStart(base, sq.n);
   if (prob >= 1 - u && prob <= u) return offset + q6(prob);
   return tailQuantile(tailOf(sq, offset, offset + q6(1 - u), offset + q6(u), base, df, observed), prob);
@@ -361,18 +366,13 @@ export function splicedQuantile(
 
 /**
  * For each tail mass a of `alphas`, whether x lies within [Q(a), Q(1 - a)] of the spliced
- * distribution (splicedQuantile's arguments), counted into `inside`; no tail quantile is computed:
+ * distribution (as splicedQuantile), counted into `inside`; no tail quantile is computed:
  * in the body the bounds are the sample's own quantiles, and beyond it x is inside exactly when its
  * tail probability is at least a (the tail is fitted once for all levels). For the backtest's
  * coverage, which asks this for every judged actual.
  */
 export function splicedCovers(
-  q6: (p: number) => number,
-  sq: Squares,
-  offset: number,
-  base: number,
-  df: number,
-  observed: NextErrorSpread | null,
+  { q6, sq, offset, base, df, observed }: SplicedSample,
   x: number,
   alphas: readonly number[],
   inside: Int32Array,
@@ -574,7 +574,7 @@ export function quantileAt(fc: Forecast, step: number, prob: number): number {
     const { sorted, offset, base, observed } = sample;
     const n = sorted.length;
     const q6 = (p: number): number => sortedQuantile(sorted, def6(p, n));
-    return splicedQuantile(q6, meanAndSquares(sorted), offset, base, fc.df, observed, prob);
+    return splicedQuantile({ q6, sq: meanAndSquares(sorted), offset, base, df: fc.df, observed }, prob);
   }
   if (!(s > 0)) return mu;
   return mu + tQuantile(prob, fc.df) * s;
