@@ -152,29 +152,44 @@ export function sortAscending(a: Float64Array): Float64Array {
   return a;
 }
 
+/** Where the last `partition` left its right part: a[partitionRight..hi] are all >= the pivot. */
+let partitionRight = 0;
+
+/**
+ * Hoare's partition of a[lo..hi] around the median of a[lo], a[mid], a[hi]: afterwards a[lo..j] <=
+ * pivot <= a[partitionRight..hi] (and anything between equals the pivot). Returns j. Shared by the
+ * sort and the selection.
+ */
+function partition(a: Float64Array, lo: number, hi: number): number {
+  const mid = (lo + hi) >>> 1;
+  let x = a[lo]!;
+  let y = a[mid]!;
+  let z = a[hi]!;
+  if (x > y) [x, y] = [y, x];
+  if (y > z) [y, z] = [z, y];
+  if (x > y) [x, y] = [y, x];
+  const pivot = y;
+  let i = lo;
+  let j = hi;
+  while (i <= j) {
+    while (a[i]! < pivot) i++;
+    while (a[j]! > pivot) j--;
+    if (i <= j) {
+      const t = a[i]!;
+      a[i] = a[j]!;
+      a[j] = t;
+      i++;
+      j--;
+    }
+  }
+  partitionRight = i;
+  return j;
+}
+
 function quicksort(a: Float64Array, lo: number, hi: number): void {
   while (hi - lo > 16) {
-    const mid = (lo + hi) >>> 1;
-    let x = a[lo]!;
-    let y = a[mid]!;
-    let z = a[hi]!;
-    if (x > y) [x, y] = [y, x];
-    if (y > z) [y, z] = [z, y];
-    if (x > y) [x, y] = [y, x];
-    const pivot = y;
-    let i = lo;
-    let j = hi;
-    while (i <= j) {
-      while (a[i]! < pivot) i++;
-      while (a[j]! > pivot) j--;
-      if (i <= j) {
-        const t = a[i]!;
-        a[i] = a[j]!;
-        a[j] = t;
-        i++;
-        j--;
-      }
-    }
+    const j = partition(a, lo, hi);
+    const i = partitionRight;
     // Recurse into the smaller part, loop on the larger: the stack stays O(log n).
     if (j - lo < hi - i) {
       quicksort(a, lo, j);
@@ -346,28 +361,8 @@ export function selectQuantiles(work: Float64Array, probs: ArrayLike<number>, ou
 /** Puts the k-th smallest of a[lo..hi] at a[k], smaller ones left of it, larger right (Hoare). */
 function select(a: Float64Array, lo: number, hi: number, k: number): void {
   while (hi > lo) {
-    // Median of three as the pivot.
-    const mid = (lo + hi) >>> 1;
-    let x = a[lo]!;
-    let y = a[mid]!;
-    let z = a[hi]!;
-    if (x > y) [x, y] = [y, x];
-    if (y > z) [y, z] = [z, y];
-    if (x > y) [x, y] = [y, x];
-    const pivot = y;
-    let i = lo;
-    let j = hi;
-    while (i <= j) {
-      while (a[i]! < pivot) i++;
-      while (a[j]! > pivot) j--;
-      if (i <= j) {
-        const t = a[i]!;
-        a[i] = a[j]!;
-        a[j] = t;
-        i++;
-        j--;
-      }
-    }
+    const j = partition(a, lo, hi);
+    const i = partitionRight;
     if (k <= j) hi = j;
     else if (k >= i) lo = i;
     else return;
