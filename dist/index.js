@@ -3889,10 +3889,10 @@ var require_webidl = __commonJS({
     webidl.util.markAsUncloneable = markAsUncloneable || (() => {
     });
     webidl.util.ConvertToInt = function(V, bitLength, signedness, opts) {
-      let upperBound3;
+      let upperBound2;
       let lowerBound3;
       if (bitLength === 64) {
-        upperBound3 = Math.pow(2, 53) - 1;
+        upperBound2 = Math.pow(2, 53) - 1;
         if (signedness === "unsigned") {
           lowerBound3 = 0;
         } else {
@@ -3900,10 +3900,10 @@ var require_webidl = __commonJS({
         }
       } else if (signedness === "unsigned") {
         lowerBound3 = 0;
-        upperBound3 = Math.pow(2, bitLength) - 1;
+        upperBound2 = Math.pow(2, bitLength) - 1;
       } else {
         lowerBound3 = Math.pow(-2, bitLength) - 1;
-        upperBound3 = Math.pow(2, bitLength - 1) - 1;
+        upperBound2 = Math.pow(2, bitLength - 1) - 1;
       }
       let x2 = Number(V);
       if (x2 === 0) {
@@ -3917,16 +3917,16 @@ var require_webidl = __commonJS({
           });
         }
         x2 = webidl.util.IntegerPart(x2);
-        if (x2 < lowerBound3 || x2 > upperBound3) {
+        if (x2 < lowerBound3 || x2 > upperBound2) {
           throw webidl.errors.exception({
             header: "Integer conversion",
-            message: `Value must be between ${lowerBound3}-${upperBound3}, got ${x2}.`
+            message: `Value must be between ${lowerBound3}-${upperBound2}, got ${x2}.`
           });
         }
         return x2;
       }
       if (!Number.isNaN(x2) && opts?.clamp === true) {
-        x2 = Math.min(Math.max(x2, lowerBound3), upperBound3);
+        x2 = Math.min(Math.max(x2, lowerBound3), upperBound2);
         if (Math.floor(x2) % 2 === 0) {
           x2 = Math.floor(x2);
         } else {
@@ -24770,7 +24770,7 @@ var require_errors2 = __commonJS({
         super("YAMLWarning", pos, code, message);
       }
     };
-    var prettifyError = (src, lc) => (error3) => {
+    var prettifyError2 = (src, lc) => (error3) => {
       if (error3.pos[0] === -1)
         return;
       error3.linePos = error3.pos.map((pos) => lc.linePos(pos));
@@ -24808,7 +24808,7 @@ ${pointer}
     exports.YAMLError = YAMLError;
     exports.YAMLParseError = YAMLParseError;
     exports.YAMLWarning = YAMLWarning;
-    exports.prettifyError = prettifyError;
+    exports.prettifyError = prettifyError2;
   }
 });
 
@@ -29175,14 +29175,14 @@ var require_jstat = __commonJS({
             bins[Math2.min(Math2.floor((arr[i] - first) / binWidth), binCnt - 1)] += 1;
           return bins;
         };
-        jStat3.covariance = function covariance(arr1, arr2) {
-          var u = jStat3.mean(arr1);
+        jStat3.covariance = function covariance2(arr1, arr2) {
+          var u2 = jStat3.mean(arr1);
           var v = jStat3.mean(arr2);
           var arr1Len = arr1.length;
           var sq_dev = new Array(arr1Len);
           var i;
           for (i = 0; i < arr1Len; i++)
-            sq_dev[i] = (arr1[i] - u) * (arr2[i] - v);
+            sq_dev[i] = (arr1[i] - u2) * (arr2[i] - v);
           return jStat3.sum(sq_dev) / (arr1Len - 1);
         };
         jStat3.corrcoeff = function corrcoeff(arr1, arr2) {
@@ -29519,7 +29519,7 @@ var require_jstat = __commonJS({
           var a1 = a2 - 1;
           var EPS = 1e-8;
           var gln = jStat3.gammaln(a2);
-          var x2, err, t, u, pp, lna1, afac;
+          var x2, err, t, u2, pp, lna1, afac;
           if (p >= 1)
             return Math2.max(100, a2 + 100 * Math2.sqrt(a2));
           if (p <= 0)
@@ -29551,8 +29551,8 @@ var require_jstat = __commonJS({
               t = afac * Math2.exp(-(x2 - a1) + a1 * (Math2.log(x2) - lna1));
             else
               t = Math2.exp(-x2 + a1 * Math2.log(x2) - gln);
-            u = err / t;
-            x2 -= t = u / (1 - 0.5 * Math2.min(1, u * ((a2 - 1) / x2 - 1)));
+            u2 = err / t;
+            x2 -= t = u2 / (1 - 0.5 * Math2.min(1, u2 * ((a2 - 1) / x2 - 1)));
             if (x2 <= 0)
               x2 = 0.5 * (x2 + t);
             if (Math2.abs(t) < EPS * x2)
@@ -29634,7 +29634,7 @@ var require_jstat = __commonJS({
           var a1 = a2 - 1;
           var b1 = b - 1;
           var j = 0;
-          var lna, lnb, pp, t, u, err, x2, al, h, w, afac;
+          var lna, lnb, pp, t, u2, err, x2, al, h, w, afac;
           if (p <= 0)
             return 0;
           if (p >= 1)
@@ -29653,8 +29653,8 @@ var require_jstat = __commonJS({
             lna = Math2.log(a2 / (a2 + b));
             lnb = Math2.log(b / (a2 + b));
             t = Math2.exp(a2 * lna) / a2;
-            u = Math2.exp(b * lnb) / b;
-            w = t + u;
+            u2 = Math2.exp(b * lnb) / b;
+            w = t + u2;
             if (p < t / w)
               x2 = Math2.pow(a2 * w * p, 1 / a2);
             else
@@ -29666,8 +29666,8 @@ var require_jstat = __commonJS({
               return x2;
             err = jStat3.ibeta(x2, a2, b) - p;
             t = Math2.exp(a1 * Math2.log(x2) + b1 * Math2.log(1 - x2) + afac);
-            u = err / t;
-            x2 -= t = u / (1 - 0.5 * Math2.min(1, u * (a1 / x2 - b1 / (1 - x2))));
+            u2 = err / t;
+            x2 -= t = u2 / (1 - 0.5 * Math2.min(1, u2 * (a1 / x2 - b1 / (1 - x2))));
             if (x2 <= 0)
               x2 = 0.5 * (x2 + t);
             if (x2 >= 1)
@@ -29686,7 +29686,7 @@ var require_jstat = __commonJS({
           return 1 - bt * jStat3.betacf(1 - x2, b, a2) / b;
         };
         jStat3.randn = function randn(n, m) {
-          var u, v, x2, y2, q;
+          var u2, v, x2, y2, q;
           if (!m)
             m = n;
           if (n)
@@ -29694,17 +29694,17 @@ var require_jstat = __commonJS({
               return jStat3.randn();
             });
           do {
-            u = jStat3._random_fn();
+            u2 = jStat3._random_fn();
             v = 1.7156 * (jStat3._random_fn() - 0.5);
-            x2 = u - 0.449871;
+            x2 = u2 - 0.449871;
             y2 = Math2.abs(v) + 0.386595;
             q = x2 * x2 + y2 * (0.196 * y2 - 0.25472 * x2);
-          } while (q > 0.27597 && (q > 0.27846 || v * v > -4 * Math2.log(u) * u * u));
-          return v / u;
+          } while (q > 0.27597 && (q > 0.27846 || v * v > -4 * Math2.log(u2) * u2 * u2));
+          return v / u2;
         };
         jStat3.randg = function randg(shape, n, m) {
           var oalph = shape;
-          var a1, a2, u, v, x2, mat;
+          var a1, a2, u2, v, x2, mat;
           if (!m)
             m = n;
           if (!shape)
@@ -29726,14 +29726,14 @@ var require_jstat = __commonJS({
               v = 1 + a2 * x2;
             } while (v <= 0);
             v = v * v * v;
-            u = jStat3._random_fn();
-          } while (u > 1 - 0.331 * Math2.pow(x2, 4) && Math2.log(u) > 0.5 * x2 * x2 + a1 * (1 - v + Math2.log(v)));
+            u2 = jStat3._random_fn();
+          } while (u2 > 1 - 0.331 * Math2.pow(x2, 4) && Math2.log(u2) > 0.5 * x2 * x2 + a1 * (1 - v + Math2.log(v)));
           if (shape == oalph)
             return a1 * v;
           do {
-            u = jStat3._random_fn();
-          } while (u === 0);
-          return Math2.pow(u, 1 / oalph) * a1 * v;
+            u2 = jStat3._random_fn();
+          } while (u2 === 0);
+          return Math2.pow(u2, 1 / oalph) * a1 * v;
         };
         (function(funcs) {
           for (var i = 0; i < funcs.length; i++) (function(passfunc) {
@@ -29836,8 +29836,8 @@ var require_jstat = __commonJS({
           },
           // return a random sample
           sample: function sample(alpha, beta) {
-            var u = jStat3.randg(alpha);
-            return u / (u + jStat3.randg(beta));
+            var u2 = jStat3.randg(alpha);
+            return u2 / (u2 + jStat3.randg(beta));
           },
           variance: function variance(alpha, beta) {
             return alpha * beta / (Math2.pow(alpha + beta, 2) * (alpha + beta + 1));
@@ -30530,10 +30530,10 @@ var require_jstat = __commonJS({
             return c;
           },
           sample: function sample(a2, b, c) {
-            var u = jStat3._random_fn();
-            if (u < (c - a2) / (b - a2))
-              return a2 + Math2.sqrt(u * (b - a2) * (c - a2));
-            return b - Math2.sqrt((1 - u) * (b - a2) * (b - c));
+            var u2 = jStat3._random_fn();
+            if (u2 < (c - a2) / (b - a2))
+              return a2 + Math2.sqrt(u2 * (b - a2) * (c - a2));
+            return b - Math2.sqrt((1 - u2) * (b - a2) * (b - c));
           },
           variance: function variance(a2, b, c) {
             return (a2 * a2 + b * b + c * c - a2 * b - a2 * c - b * c) / 18;
@@ -30603,8 +30603,8 @@ var require_jstat = __commonJS({
             return 2 * b * b;
           },
           sample: function sample(mu, b) {
-            var u = jStat3._random_fn() - 0.5;
-            return mu - b * laplaceSign(u) * Math2.log(1 - 2 * Math2.abs(u));
+            var u2 = jStat3._random_fn() - 0.5;
+            return mu - b * laplaceSign(u2) * Math2.log(1 - 2 * Math2.abs(u2));
           }
         });
         function tukeyWprob(w, rr, cc) {
@@ -31203,27 +31203,27 @@ var require_jstat = __commonJS({
             var j = 0;
             var n = a2.length;
             var l = [];
-            var u = [];
+            var u2 = [];
             var d = [];
             var xv, c, h, xk;
             for (; i < n; i++) {
               l[i] = [];
-              u[i] = [];
+              u2[i] = [];
               d[i] = [];
               for (j = 0; j < n; j++) {
                 if (i > j) {
                   l[i][j] = a2[i][j];
-                  u[i][j] = d[i][j] = 0;
+                  u2[i][j] = d[i][j] = 0;
                 } else if (i < j) {
-                  u[i][j] = a2[i][j];
+                  u2[i][j] = a2[i][j];
                   l[i][j] = d[i][j] = 0;
                 } else {
                   d[i][j] = a2[i][j];
-                  l[i][j] = u[i][j] = 0;
+                  l[i][j] = u2[i][j] = 0;
                 }
               }
             }
-            h = jStat3.multiply(jStat3.multiply(jStat3.inv(d), jStat3.add(l, u)), -1);
+            h = jStat3.multiply(jStat3.multiply(jStat3.inv(d), jStat3.add(l, u2)), -1);
             c = jStat3.multiply(jStat3.inv(d), b);
             xv = x2;
             xk = jStat3.add(jStat3.multiply(h, x2), c);
@@ -31239,27 +31239,27 @@ var require_jstat = __commonJS({
             var i = 0;
             var n = a2.length;
             var l = [];
-            var u = [];
+            var u2 = [];
             var d = [];
             var j, xv, c, h, xk;
             for (; i < n; i++) {
               l[i] = [];
-              u[i] = [];
+              u2[i] = [];
               d[i] = [];
               for (j = 0; j < n; j++) {
                 if (i > j) {
                   l[i][j] = a2[i][j];
-                  u[i][j] = d[i][j] = 0;
+                  u2[i][j] = d[i][j] = 0;
                 } else if (i < j) {
-                  u[i][j] = a2[i][j];
+                  u2[i][j] = a2[i][j];
                   l[i][j] = d[i][j] = 0;
                 } else {
                   d[i][j] = a2[i][j];
-                  l[i][j] = u[i][j] = 0;
+                  l[i][j] = u2[i][j] = 0;
                 }
               }
             }
-            h = jStat3.multiply(jStat3.multiply(jStat3.inv(jStat3.add(d, l)), u), -1);
+            h = jStat3.multiply(jStat3.multiply(jStat3.inv(jStat3.add(d, l)), u2), -1);
             c = jStat3.multiply(jStat3.inv(jStat3.add(d, l)), b);
             xv = x2;
             xk = jStat3.add(jStat3.multiply(h, x2), c);
@@ -31275,23 +31275,23 @@ var require_jstat = __commonJS({
             var i = 0;
             var n = a2.length;
             var l = [];
-            var u = [];
+            var u2 = [];
             var d = [];
             var j, xv, c, h, xk;
             for (; i < n; i++) {
               l[i] = [];
-              u[i] = [];
+              u2[i] = [];
               d[i] = [];
               for (j = 0; j < n; j++) {
                 if (i > j) {
                   l[i][j] = a2[i][j];
-                  u[i][j] = d[i][j] = 0;
+                  u2[i][j] = d[i][j] = 0;
                 } else if (i < j) {
-                  u[i][j] = a2[i][j];
+                  u2[i][j] = a2[i][j];
                   l[i][j] = d[i][j] = 0;
                 } else {
                   d[i][j] = a2[i][j];
-                  l[i][j] = u[i][j] = 0;
+                  l[i][j] = u2[i][j] = 0;
                 }
               }
             }
@@ -31299,7 +31299,7 @@ var require_jstat = __commonJS({
               jStat3.inv(jStat3.add(d, jStat3.multiply(l, w))),
               jStat3.subtract(
                 jStat3.multiply(d, 1 - w),
-                jStat3.multiply(u, w)
+                jStat3.multiply(u2, w)
               )
             );
             c = jStat3.multiply(jStat3.multiply(jStat3.inv(jStat3.add(
@@ -31662,7 +31662,7 @@ var require_jstat = __commonJS({
             var n = X[0].length;
             var i = 0;
             var j, temp1;
-            var u = [];
+            var u2 = [];
             var D2 = [];
             var result = [];
             var temp2 = [];
@@ -31673,12 +31673,12 @@ var require_jstat = __commonJS({
             var V = [];
             var Vt = [];
             for (i = 0; i < m; i++) {
-              u[i] = jStat3.sum(X[i]) / n;
+              u2[i] = jStat3.sum(X[i]) / n;
             }
             for (i = 0; i < n; i++) {
               B2[i] = [];
               for (j = 0; j < m; j++) {
-                B2[i][j] = X[j][i] - u[j];
+                B2[i][j] = X[j][i] - u2[j];
               }
             }
             B2 = jStat3.transpose(B2);
@@ -32171,40 +32171,40 @@ var require_jstat = __commonJS({
         },
         regresst: function regresst(jMatX, jMatY, sides) {
           var beta = jStat2.regress(jMatX, jMatY);
-          var compile2 = {};
-          compile2.anova = {};
+          var compile3 = {};
+          compile3.anova = {};
           var jMatYBar = jStat2.jMatYBar(jMatX, beta);
-          compile2.yBar = jMatYBar;
+          compile3.yBar = jMatYBar;
           var yAverage = jMatY.mean();
-          compile2.anova.residuals = jStat2.residuals(jMatY, jMatYBar);
-          compile2.anova.ssr = jStat2.ssr(jMatYBar, yAverage);
-          compile2.anova.msr = compile2.anova.ssr / (jMatX[0].length - 1);
-          compile2.anova.sse = jStat2.sse(jMatY, jMatYBar);
-          compile2.anova.mse = compile2.anova.sse / (jMatY.length - (jMatX[0].length - 1) - 1);
-          compile2.anova.sst = jStat2.sst(jMatY, yAverage);
-          compile2.anova.mst = compile2.anova.sst / (jMatY.length - 1);
-          compile2.anova.r2 = 1 - compile2.anova.sse / compile2.anova.sst;
-          if (compile2.anova.r2 < 0) compile2.anova.r2 = 0;
-          compile2.anova.fratio = compile2.anova.msr / compile2.anova.mse;
-          compile2.anova.pvalue = jStat2.anovaftest(
-            compile2.anova.fratio,
+          compile3.anova.residuals = jStat2.residuals(jMatY, jMatYBar);
+          compile3.anova.ssr = jStat2.ssr(jMatYBar, yAverage);
+          compile3.anova.msr = compile3.anova.ssr / (jMatX[0].length - 1);
+          compile3.anova.sse = jStat2.sse(jMatY, jMatYBar);
+          compile3.anova.mse = compile3.anova.sse / (jMatY.length - (jMatX[0].length - 1) - 1);
+          compile3.anova.sst = jStat2.sst(jMatY, yAverage);
+          compile3.anova.mst = compile3.anova.sst / (jMatY.length - 1);
+          compile3.anova.r2 = 1 - compile3.anova.sse / compile3.anova.sst;
+          if (compile3.anova.r2 < 0) compile3.anova.r2 = 0;
+          compile3.anova.fratio = compile3.anova.msr / compile3.anova.mse;
+          compile3.anova.pvalue = jStat2.anovaftest(
+            compile3.anova.fratio,
             jMatX[0].length - 1,
             jMatY.length - (jMatX[0].length - 1) - 1
           );
-          compile2.anova.rmse = Math.sqrt(compile2.anova.mse);
-          compile2.anova.r2adj = 1 - compile2.anova.mse / compile2.anova.mst;
-          if (compile2.anova.r2adj < 0) compile2.anova.r2adj = 0;
-          compile2.stats = new Array(jMatX[0].length);
+          compile3.anova.rmse = Math.sqrt(compile3.anova.mse);
+          compile3.anova.r2adj = 1 - compile3.anova.mse / compile3.anova.mst;
+          if (compile3.anova.r2adj < 0) compile3.anova.r2adj = 0;
+          compile3.stats = new Array(jMatX[0].length);
           var covar = jStat2.xtranspxinv(jMatX);
           var sds, ts, ps;
           for (var i = 0; i < beta.length; i++) {
-            sds = Math.sqrt(compile2.anova.mse * Math.abs(covar[i][i]));
+            sds = Math.sqrt(compile3.anova.mse * Math.abs(covar[i][i]));
             ts = Math.abs(beta[i] / sds);
             ps = jStat2.ttest(ts, jMatY.length - jMatX[0].length - 1, sides);
-            compile2.stats[i] = [beta[i], sds, ts, ps];
+            compile3.stats[i] = [beta[i], sds, ts, ps];
           }
-          compile2.regress = beta;
-          return compile2;
+          compile3.regress = beta;
+          return compile3;
         },
         xtranspx: function xtranspx(jMatX) {
           return jStat2.matrixmult(jMatX.transpose(), jMatX);
@@ -34703,7 +34703,7 @@ var require_compiler = __commonJS({
     exports.__esModule = true;
     exports.Compiler = Compiler;
     exports.precompile = precompile;
-    exports.compile = compile2;
+    exports.compile = compile3;
     function _interopRequireDefault(obj) {
       return obj && obj.__esModule ? obj : { "default": obj };
     }
@@ -34738,7 +34738,7 @@ var require_compiler = __commonJS({
         return true;
       },
       guid: 0,
-      compile: function compile3(program, options) {
+      compile: function compile4(program, options) {
         this.sourceNode = [];
         this.opcodes = [];
         this.children = [];
@@ -35077,7 +35077,7 @@ var require_compiler = __commonJS({
       var ast = env.parse(input, options), environment = new env.Compiler().compile(ast, options);
       return new env.JavaScriptCompiler().compile(environment, options);
     }
-    function compile2(input, options, env) {
+    function compile3(input, options, env) {
       if (options === void 0) options = {};
       if (input == null || typeof input !== "string" && input.type !== "Program") {
         throw new _exception2["default"]("You must pass a string or Handlebars AST to Handlebars.compile. You passed " + input);
@@ -37138,7 +37138,7 @@ var require_javascript_compiler = __commonJS({
         return ["lookupProperty(", parent, ",", this.quotedString(name), ")"];
       },
       lookupPropertyFunctionIsUsed: false,
-      compile: function compile2(environment, options, context3, asObject) {
+      compile: function compile3(environment, options, context3, asObject) {
         this.environment = environment;
         this.options = options;
         this.stringParams = this.options.stringParams;
@@ -40358,12 +40358,84 @@ function pIs(p, opts = {}) {
   const v = pval(p, opts);
   return /^[<≤]/.test(v) ? `p ${v}` : `p = ${v}`;
 }
+function chance(p, paths2) {
+  if (!Number.isFinite(p) || !(paths2 > 0)) return pct(p);
+  if (p >= 1) return `\u2265 ${pct(Math.max(0, 1 - 3 / paths2))}`;
+  if (p <= 0) return `\u2264 ${pct(Math.min(1, 3 / paths2))}`;
+  const s2 = pct(p);
+  return s2 === "100.0%" ? "> 99.9%" : s2 === "0.0%" ? "< 0.1%" : s2;
+}
+function levelLabel(level) {
+  return `${level}%`;
+}
 function pct(x2, decimals = 1) {
   if (x2 === null || x2 === void 0 || !Number.isFinite(x2)) return "n/a";
   return `${(x2 * 100).toFixed(decimals)}%`;
 }
 function plural(n, one2, many = `${one2}s`) {
   return `${n} ${n === 1 ? one2 : many}`;
+}
+function agree(n, one2, many = `${one2}s`) {
+  return n === 1 ? one2 : many;
+}
+var DURATION_PATTERN = /^\s*(\d+(?:\.\d+)?)\s*(mo|m|h|d|w|q|y)\s*$/;
+var DURATION_WORD = {
+  m: "minute",
+  h: "hour",
+  d: "day",
+  w: "week",
+  mo: "month",
+  q: "quarter",
+  y: "year"
+};
+function windowWords(label, steps, stepWord) {
+  const m = DURATION_PATTERN.exec(label);
+  if (m) return plural(Number(m[1]), DURATION_WORD[m[2]]);
+  return plural(steps, stepWord);
+}
+function withUnit(text2, unit2) {
+  if (!unit2 || text2 === "n/a") return text2;
+  return /^[%°‰]/.test(unit2) ? `${text2}${unit2}` : `${text2} ${unit2}`;
+}
+
+// src/text/untrusted.ts
+var INVISIBLE = (
+  // eslint-disable-next-line no-control-regex -- matching control characters is the point
+  /[\u0000-\u0009\u000b-\u001f\u007f-\u009f\u00ad\u061c\u115f\u1160\u180e\u200b\u200e\u200f\u2028-\u202e\u2060-\u2064\u2066-\u206f\u3164\ufeff\uffa0\ufff9-\ufffb]/g
+);
+var INVISIBLE_WITH_NEWLINE = new RegExp(INVISIBLE.source.replace("\\u000b", "\\u000a\\u000b"), "g");
+var SHORT = { "	": "\\t", "\n": "\\n", "\r": "\\r" };
+function escapeOne(c) {
+  return SHORT[c] ?? `\\u${c.charCodeAt(0).toString(16).toUpperCase().padStart(4, "0")}`;
+}
+function visible(text2, keepNewlines = false) {
+  return String(text2).replace(keepNewlines ? INVISIBLE : INVISIBLE_WITH_NEWLINE, escapeOne);
+}
+var DISPLAY_MAX = 80;
+function shorten(text2, max = DISPLAY_MAX) {
+  const chars = [...String(text2)];
+  if (chars.length <= max) return String(text2);
+  const note = ` (${chars.length} characters)`;
+  const room = Math.max(8, max - note.length - 1);
+  const head = Math.ceil(room * 2 / 3);
+  const tail = room - head;
+  return `${chars.slice(0, head).join("")}\u2026${chars.slice(chars.length - tail).join("")}${note}`;
+}
+function displayName(text2, max = DISPLAY_MAX) {
+  return shorten(visible(text2), max);
+}
+function logSafe(text2, atLineStart = true) {
+  return String(text2).replace(
+    /(^|[\r\n])([ \t\f\v\u00a0\u1680\u2000-\u200a\u2028\u2029\u202f\u205f\u3000\ufeff]*)(?=::)/g,
+    (m, brk, space, offset) => offset === 0 && brk === "" && !atLineStart ? m : `${brk}${space}\\`
+  );
+}
+
+// src/text/rows.ts
+var LABEL_MAX = 40;
+function rowRef(p) {
+  if (p.label) return displayName(p.label, LABEL_MAX);
+  return p.row !== null ? `line ${p.row}` : "a gap-filled point";
 }
 
 // src/text/suggest.ts
@@ -40416,39 +40488,6 @@ var SPACE_OR_CONTROL = /[\u0000-\u001f\u007f-\u009f\s]+/g;
 function oneLine(s2, max = 300) {
   const t = String(s2).replace(SPACE_OR_CONTROL, " ").trim();
   return t.length > max ? `${t.slice(0, max - 1)}\u2026` : t;
-}
-
-// src/untrusted.ts
-var INVISIBLE = (
-  // eslint-disable-next-line no-control-regex -- matching control characters is the point
-  /[\u0000-\u0009\u000b-\u001f\u007f-\u009f\u00ad\u061c\u115f\u1160\u180e\u200b\u200e\u200f\u2028-\u202e\u2060-\u2064\u2066-\u206f\u3164\ufeff\uffa0\ufff9-\ufffb]/g
-);
-var INVISIBLE_WITH_NEWLINE = new RegExp(INVISIBLE.source.replace("\\u000b", "\\u000a\\u000b"), "g");
-var SHORT = { "	": "\\t", "\n": "\\n", "\r": "\\r" };
-function escapeOne(c) {
-  return SHORT[c] ?? `\\u${c.charCodeAt(0).toString(16).toUpperCase().padStart(4, "0")}`;
-}
-function visible(text2, keepNewlines = false) {
-  return String(text2).replace(keepNewlines ? INVISIBLE : INVISIBLE_WITH_NEWLINE, escapeOne);
-}
-var DISPLAY_MAX = 80;
-function shorten(text2, max = DISPLAY_MAX) {
-  const chars = [...String(text2)];
-  if (chars.length <= max) return String(text2);
-  const note = ` (${chars.length} characters)`;
-  const room = Math.max(8, max - note.length - 1);
-  const head = Math.ceil(room * 2 / 3);
-  const tail = room - head;
-  return `${chars.slice(0, head).join("")}\u2026${chars.slice(chars.length - tail).join("")}${note}`;
-}
-function displayName(text2, max = DISPLAY_MAX) {
-  return shorten(visible(text2), max);
-}
-function logSafe(text2, atLineStart = true) {
-  return String(text2).replace(
-    /(^|[\r\n])([ \t\f\v\u00a0\u1680\u2000-\u200a\u2028\u2029\u202f\u205f\u3000\ufeff]*)(?=::)/g,
-    (m, brk, space, offset) => offset === 0 && brk === "" && !atLineStart ? m : `${brk}${space}\\`
-  );
 }
 
 // src/errors.ts
@@ -41870,6 +41909,45 @@ import path from "node:path";
 // src/config/parse.ts
 var import_yaml2 = __toESM(require_dist(), 1);
 
+// src/engine/levels.ts
+function checkLevels(levels2) {
+  if (levels2.length === 0) throw new RangeError("levels must list at least one level");
+  for (const l of levels2)
+    if (!(l > 0 && l < 100))
+      throw new RangeError(`each level (a percentage) must be between 0 and 100; got ${l}`);
+}
+function normaliseLevels(levels2) {
+  return [...new Set(levels2)].sort((a2, b) => a2 - b);
+}
+function levelShare(level) {
+  return level / 100;
+}
+function levelOutside(level) {
+  return 1 - levelShare(level);
+}
+function levelTail(level) {
+  return levelOutside(level) / 2;
+}
+function levelKey(level) {
+  return String(level);
+}
+var FAR_INDEX = "1000000";
+function levelRecord(levels2, valueOf) {
+  const r = {};
+  r[FAR_INDEX] = 0;
+  delete r[FAR_INDEX];
+  levels2.forEach((l, k2) => r[levelKey(l)] = valueOf(l, k2));
+  return r;
+}
+function bandAt(bands, level) {
+  const band = bands.find((b) => b.level === level);
+  if (!band)
+    throw new RangeError(
+      `no interval band at level ${level} (bands: ${bands.map((b) => b.level).join(", ")})`
+    );
+  return band;
+}
+
 // src/engine/types.ts
 var METHOD_NAMES = ["mean", "naive", "seasonal-naive", "drift"];
 var SIMPLICITY = { naive: 0, mean: 1, "seasonal-naive": 2, drift: 3 };
@@ -41904,6 +41982,192 @@ function deepFreeze(o) {
     Object.freeze(o);
   }
   return o;
+}
+
+// src/ingest/times.ts
+var TimeKind = {
+  /** ISO with an explicit offset (or Z). */
+  Offset: 0,
+  /** ISO datetime without offset: read as UTC. */
+  Naive: 1,
+  /** ISO date (or year-month) alone. */
+  Date: 2,
+  /** A plain number: epoch seconds/ms or a year, decided for the whole column. */
+  Number: 3,
+  Blank: 4,
+  Invalid: 5
+};
+var ISO = /^(\d{4})-(\d{2})(?:-(\d{2})(?:[Tt ](\d{2}):(\d{2})(?::(\d{2})(?:[.,](\d{1,9}))?)?\s*([Zz]|[+-]\d{2}(?::?\d{2})?)?)?)?$/;
+var NUMBER = /^[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/;
+var GREGORIAN_CYCLE_MS = 146097 * 864e5;
+function utcMs(y2, mo, d = 1, h = 0, mi = 0, s2 = 0) {
+  return y2 >= 0 && y2 < 100 ? Date.UTC(y2 + 400, mo, d, h, mi, s2) - GREGORIAN_CYCLE_MS : Date.UTC(y2, mo, d, h, mi, s2);
+}
+function daysInMonth(y2, m) {
+  return new Date(utcMs(y2, m, 0)).getUTCDate();
+}
+var MIN_TIME_MS = utcMs(1, 0, 1);
+var MAX_TIME_MS = Date.UTC(1e4, 0, 1) - 1;
+var TIME_FORMATS = [
+  "auto",
+  "iso",
+  "yyyymmdd",
+  "year",
+  "epoch-seconds",
+  "epoch-milliseconds"
+];
+function parseTimeCell(text2) {
+  const s2 = text2.trim();
+  if (s2 === "") return { kind: TimeKind.Blank, value: NaN };
+  if (NUMBER.test(s2)) {
+    const v = Number(s2);
+    return Number.isFinite(v) ? { kind: TimeKind.Number, value: v } : { kind: TimeKind.Invalid, value: NaN };
+  }
+  const m = ISO.exec(s2);
+  if (!m) return { kind: TimeKind.Invalid, value: NaN };
+  const y2 = Number(m[1]);
+  const mo = Number(m[2]);
+  const d = m[3] === void 0 ? 1 : Number(m[3]);
+  if (mo < 1 || mo > 12 || d < 1 || d > daysInMonth(y2, mo)) return { kind: TimeKind.Invalid, value: NaN };
+  if (m[4] === void 0) return { kind: TimeKind.Date, value: utcMs(y2, mo - 1, d) };
+  const hh = Number(m[4]);
+  const mm = Number(m[5]);
+  const ss = m[6] === void 0 ? 0 : Number(m[6]);
+  const frac = m[7] === void 0 ? 0 : Number(`0.${m[7]}`);
+  if (hh > 23 || mm > 59 || ss > 59) return { kind: TimeKind.Invalid, value: NaN };
+  let ms = utcMs(y2, mo - 1, d, hh, mm, ss) + Math.round(frac * 1e3);
+  const off = m[8];
+  if (off === void 0) return { kind: TimeKind.Naive, value: ms };
+  if (off !== "Z" && off !== "z") {
+    const sign2 = off[0] === "-" ? -1 : 1;
+    const digits = off.slice(1).replace(":", "");
+    const oh = Number(digits.slice(0, 2));
+    const om = digits.length > 2 ? Number(digits.slice(2, 4)) : 0;
+    if (oh > 23 || om > 59) return { kind: TimeKind.Invalid, value: NaN };
+    ms -= sign2 * (oh * 60 + om) * 6e4;
+  }
+  return { kind: TimeKind.Offset, value: ms };
+}
+function yyyymmddToMs(v) {
+  if (!Number.isInteger(v) || v < 10000101 || v > 99991231) return NaN;
+  const y2 = Math.floor(v / 1e4);
+  const mo = Math.floor(v / 100) % 100;
+  const d = v % 100;
+  if (mo < 1 || mo > 12 || d < 1 || d > daysInMonth(y2, mo)) return NaN;
+  return utcMs(y2, mo - 1, d);
+}
+function numberTimeUnit(values, count2) {
+  let years = count2 > 0;
+  let dates = count2 > 0;
+  let maxAbs = 0;
+  for (let i = 0; i < count2; i++) {
+    const v = values[i];
+    if (years && !(Number.isInteger(v) && v >= 1e3 && v <= 9999)) years = false;
+    if (dates && Number.isNaN(yyyymmddToMs(v))) dates = false;
+    const a2 = Math.abs(v);
+    if (a2 > maxAbs) maxAbs = a2;
+  }
+  if (years) return "years";
+  if (dates) return "yyyymmdd";
+  return maxAbs < 1e11 ? "seconds" : "milliseconds";
+}
+function numberToMs(v, unit2) {
+  if (unit2 === "years") return Number.isInteger(v) ? utcMs(v, 0, 1) : NaN;
+  if (unit2 === "yyyymmdd") return yyyymmddToMs(v);
+  return unit2 === "seconds" ? Math.round(v * 1e3) : Math.round(v);
+}
+
+// src/config/locate.ts
+var import_yaml = __toESM(require_dist(), 1);
+function formatKeyPath(path9) {
+  let out = "";
+  for (const seg of path9) {
+    if (typeof seg === "number") out += `[${seg}]`;
+    else if (/^[A-Za-z_$][\w$-]*$/.test(seg)) out += out ? `.${seg}` : seg;
+    else out += `[${JSON.stringify(seg)}]`;
+  }
+  return out;
+}
+function start(lc, node2) {
+  const range2 = node2?.range;
+  if (!range2) return null;
+  const pos = lc.linePos(range2[0]);
+  return { line: pos.line, column: pos.col };
+}
+function locate(doc, lc, path9, opts = {}) {
+  if (opts.key && path9.length > 0) {
+    const parent = doc.getIn(path9.slice(0, -1), true);
+    const name = path9[path9.length - 1];
+    if ((0, import_yaml.isMap)(parent)) {
+      for (const pair of parent.items) {
+        if ((0, import_yaml.isScalar)(pair.key) && pair.key.value === name) return start(lc, pair.key);
+      }
+    }
+  }
+  for (let n = path9.length; n >= 0; n--) {
+    const node2 = n === 0 ? doc.contents : doc.getIn(path9.slice(0, n), true);
+    const pos = start(lc, node2);
+    if (pos) return pos;
+  }
+  return { line: 1, column: 1 };
+}
+
+// src/config/incidents.ts
+var DEFAULT_INCIDENT_REASON = "known incident";
+function endOf(text2, start2, kind) {
+  if (kind !== TimeKind.Date) return start2;
+  const d = new Date(start2);
+  if (/^\s*\d{4}-\d{2}\s*$/.test(text2)) d.setUTCMonth(d.getUTCMonth() + 1);
+  else d.setUTCDate(d.getUTCDate() + 1);
+  return d.getTime() - 1;
+}
+function buildIncidents(m, base, time3, problems) {
+  const list2 = m.incidents ?? [];
+  if (list2.length === 0) return [];
+  if (time3 === null) {
+    problems.push({
+      path: [...base, "incidents"],
+      message: "Incident ranges are times, but this metric has no time column (row order); mark the rows with incidentColumn instead."
+    });
+    return [];
+  }
+  const out = [];
+  list2.forEach((x2, j) => {
+    const at = (key) => [...base, "incidents", j, key];
+    const from = parseTimeCell(x2.from);
+    const to = x2.to === void 0 ? from : parseTimeCell(x2.to);
+    const isTime = (t) => t.kind === TimeKind.Date || t.kind === TimeKind.Naive || t.kind === TimeKind.Offset;
+    let ok = true;
+    for (const [key, t, text2] of [
+      ["from", from, x2.from],
+      ["to", to, x2.to]
+    ]) {
+      if (text2 === void 0 || isTime(t)) continue;
+      problems.push({
+        path: at(key),
+        message: `Expected an ISO 8601 date or datetime (e.g. 2026-03-01 or 2026-03-01T12:00:00Z), found ${JSON.stringify(text2)}.`
+      });
+      ok = false;
+    }
+    if (!ok) return;
+    const fromMs = from.value;
+    const toMs = endOf(x2.to ?? x2.from, to.value, to.kind);
+    if (toMs < fromMs) {
+      problems.push({
+        path: at("to"),
+        message: `The incident ends (${x2.to}) before it starts (${x2.from}); "to" must not come before "from".`
+      });
+      return;
+    }
+    out.push({
+      from: fromMs,
+      to: toMs,
+      written: x2.to === void 0 ? x2.from.trim() : `${x2.from.trim()} to ${x2.to.trim()}`,
+      reason: x2.reason?.trim() || DEFAULT_INCIDENT_REASON,
+      keyPath: formatKeyPath([...base, "incidents", j])
+    });
+  });
+  return out;
 }
 
 // node_modules/zod/v4/core/util.js
@@ -42764,6 +43028,9 @@ function constantCatch(value2) {
 
 // node_modules/zod/v4/core/core.js
 var _a;
+var NEVER = /* @__PURE__ */ Object.freeze({
+  status: "aborted"
+});
 var _zodDesc = { value: void 0, enumerable: false };
 var _E = "captureStackTrace" in Error ? Error : null;
 function newError(Definition) {
@@ -48159,108 +48426,24 @@ function superRefine(fn, params) {
   return _superRefine(fn, params);
 }
 
-// src/ingest/times.ts
-var TimeKind = {
-  /** ISO with an explicit offset (or Z). */
-  Offset: 0,
-  /** ISO datetime without offset: read as UTC. */
-  Naive: 1,
-  /** ISO date (or year-month) alone. */
-  Date: 2,
-  /** A plain number: epoch seconds/ms or a year, decided for the whole column. */
-  Number: 3,
-  Blank: 4,
-  Invalid: 5
-};
-var ISO = /^(\d{4})-(\d{2})(?:-(\d{2})(?:[Tt ](\d{2}):(\d{2})(?::(\d{2})(?:[.,](\d{1,9}))?)?\s*([Zz]|[+-]\d{2}(?::?\d{2})?)?)?)?$/;
-var NUMBER = /^[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/;
-var GREGORIAN_CYCLE_MS = 146097 * 864e5;
-function utcMs(y2, mo, d = 1, h = 0, mi = 0, s2 = 0) {
-  return y2 >= 0 && y2 < 100 ? Date.UTC(y2 + 400, mo, d, h, mi, s2) - GREGORIAN_CYCLE_MS : Date.UTC(y2, mo, d, h, mi, s2);
-}
-function daysInMonth(y2, m) {
-  return new Date(utcMs(y2, m, 0)).getUTCDate();
-}
-var MIN_TIME_MS = utcMs(1, 0, 1);
-var MAX_TIME_MS = Date.UTC(1e4, 0, 1) - 1;
-var TIME_FORMATS = [
-  "auto",
-  "iso",
-  "yyyymmdd",
-  "year",
-  "epoch-seconds",
-  "epoch-milliseconds"
-];
-function parseTimeCell(text2) {
-  const s2 = text2.trim();
-  if (s2 === "") return { kind: TimeKind.Blank, value: NaN };
-  if (NUMBER.test(s2)) {
-    const v = Number(s2);
-    return Number.isFinite(v) ? { kind: TimeKind.Number, value: v } : { kind: TimeKind.Invalid, value: NaN };
-  }
-  const m = ISO.exec(s2);
-  if (!m) return { kind: TimeKind.Invalid, value: NaN };
-  const y2 = Number(m[1]);
-  const mo = Number(m[2]);
-  const d = m[3] === void 0 ? 1 : Number(m[3]);
-  if (mo < 1 || mo > 12 || d < 1 || d > daysInMonth(y2, mo)) return { kind: TimeKind.Invalid, value: NaN };
-  if (m[4] === void 0) return { kind: TimeKind.Date, value: utcMs(y2, mo - 1, d) };
-  const hh = Number(m[4]);
-  const mm = Number(m[5]);
-  const ss = m[6] === void 0 ? 0 : Number(m[6]);
-  const frac = m[7] === void 0 ? 0 : Number(`0.${m[7]}`);
-  if (hh > 23 || mm > 59 || ss > 59) return { kind: TimeKind.Invalid, value: NaN };
-  let ms = utcMs(y2, mo - 1, d, hh, mm, ss) + Math.round(frac * 1e3);
-  const off = m[8];
-  if (off === void 0) return { kind: TimeKind.Naive, value: ms };
-  if (off !== "Z" && off !== "z") {
-    const sign2 = off[0] === "-" ? -1 : 1;
-    const digits = off.slice(1).replace(":", "");
-    const oh = Number(digits.slice(0, 2));
-    const om = digits.length > 2 ? Number(digits.slice(2, 4)) : 0;
-    if (oh > 23 || om > 59) return { kind: TimeKind.Invalid, value: NaN };
-    ms -= sign2 * (oh * 60 + om) * 6e4;
-  }
-  return { kind: TimeKind.Offset, value: ms };
-}
-function yyyymmddToMs(v) {
-  if (!Number.isInteger(v) || v < 10000101 || v > 99991231) return NaN;
-  const y2 = Math.floor(v / 1e4);
-  const mo = Math.floor(v / 100) % 100;
-  const d = v % 100;
-  if (mo < 1 || mo > 12 || d < 1 || d > daysInMonth(y2, mo)) return NaN;
-  return utcMs(y2, mo - 1, d);
-}
-function numberTimeUnit(values, count2) {
-  let years = count2 > 0;
-  let dates = count2 > 0;
-  let maxAbs = 0;
-  for (let i = 0; i < count2; i++) {
-    const v = values[i];
-    if (years && !(Number.isInteger(v) && v >= 1e3 && v <= 9999)) years = false;
-    if (dates && Number.isNaN(yyyymmddToMs(v))) dates = false;
-    const a2 = Math.abs(v);
-    if (a2 > maxAbs) maxAbs = a2;
-  }
-  if (years) return "years";
-  if (dates) return "yyyymmdd";
-  return maxAbs < 1e11 ? "seconds" : "milliseconds";
-}
-function numberToMs(v, unit2) {
-  if (unit2 === "years") return Number.isInteger(v) ? utcMs(v, 0, 1) : NaN;
-  if (unit2 === "yyyymmdd") return yyyymmddToMs(v);
-  return unit2 === "seconds" ? Math.round(v * 1e3) : Math.round(v);
-}
-
 // src/terms.ts
 var VERDICTS = ["ok", "alarm", "at-risk", "too-short", "error"];
 var DIRECTIONS = ["above", "below", "both"];
 var FALSE_ALARM_CONTROLS = ["none", "bonferroni", "fdr"];
 var SPACINGS = ["minute", "hour", "day", "week", "month", "quarter", "year", "row"];
+var STEP_UNIT = {
+  minute: "minute",
+  hour: "hour",
+  day: "day",
+  week: "week",
+  month: "month",
+  quarter: "quarter",
+  year: "year",
+  row: "step"
+};
 var FAIL_ON_VALUES = ["alarm", "limit", "both", "never"];
 
 // src/config/schema.ts
-var DURATION_PATTERN = /^\s*(\d+(?:\.\d+)?)\s*(mo|m|h|d|w|q|y)\s*$/;
 var wholeNumber = (min, max) => number2().int().min(min).max(max);
 var season = union([literal("auto"), wholeNumber(1, 1e5)], {
   error: 'expected a whole number of at least 1, or "auto"'
@@ -48334,6 +48517,17 @@ var timeFormat = _enum(TIME_FORMATS).meta({
   description: 'The form of the time column: "auto" decides from the cells (ISO 8601; numbers as YYYYMMDD dates when all are, four-digit years, or epoch seconds below 1e11 and milliseconds above); or state it: iso, yyyymmdd, year, epoch-seconds, epoch-milliseconds.',
   default: "auto"
 });
+var incident = strictObject({
+  from: string2().min(1).meta({
+    description: "First time of the incident: an ISO 8601 date or datetime (a date alone starts at its midnight, UTC unless an offset is given)."
+  }),
+  to: string2().min(1).optional().meta({
+    description: "Last time of the incident, inclusive (a date alone covers that whole day; a year-month the whole month). Default: the same as from."
+  }),
+  reason: string2().min(1).max(500).optional().meta({
+    description: "Why these rows are not normal, shown where they are listed."
+  })
+}).meta({ description: "One known incident: a time range of the metric to leave out of the statistics." });
 var optionShape = {
   season: season.optional(),
   methods: methods.optional(),
@@ -48368,6 +48562,18 @@ var metricSchema = strictObject({
   key: columnName.optional().meta({
     description: "Key column of a long-format file: one series per distinct key value."
   }),
+  label: columnName.optional().meta({
+    description: "Column whose text names each row in reports (for example a commit SHA of a per-commit series), shown instead of its line number."
+  }),
+  unit: string2().min(1).max(24).optional().meta({
+    description: "Unit of the values (for example ms, GB, s), shown with every value and on chart axes."
+  }),
+  incidents: array(incident).max(1e3).optional().meta({
+    description: "Known incidents: time ranges whose rows are left out of fitting, backtests and residual checks (as missing values), never raise alarms, and are still drawn and listed. Needs a time column."
+  }),
+  incidentColumn: columnName.optional().meta({
+    description: "Column marking known incidents row by row: a non-empty cell marks the row (its text is the reason); such rows are treated like the incidents list."
+  }),
   ...optionShape
 }).meta({ description: "One metric: a CSV file and the columns to watch." });
 var defaultsSchema = strictObject(optionShape).meta({ description: "Options applied to every metric unless the metric sets its own." });
@@ -48392,7 +48598,8 @@ var KEYS = {
   metric: Object.keys(metricSchema.shape),
   backtest: Object.keys(backtest.shape),
   check: Object.keys(check.shape),
-  limit: Object.keys(limit.shape)
+  limit: Object.keys(limit.shape),
+  incident: Object.keys(incident.shape)
 };
 
 // src/config/duration.ts
@@ -48415,55 +48622,20 @@ function parseDuration(text2) {
   if (!(amount > 0) || !Number.isFinite(amount)) return null;
   return { amount, unit: m[2] };
 }
-function durationToSteps(within3, spacing, stepMs) {
-  if ("steps" in within3) return within3.steps;
+function durationToSteps(within2, spacing, stepMs) {
+  if ("steps" in within2) return within2.steps;
   if (spacing === "row") return null;
   const spacingMonths = SPACING_MONTHS[spacing];
-  const unitMonths = MONTHS[within3.unit];
+  const unitMonths = MONTHS[within2.unit];
   let steps;
   if (spacingMonths !== void 0 && unitMonths !== void 0) {
-    steps = within3.amount * unitMonths / spacingMonths;
+    steps = within2.amount * unitMonths / spacingMonths;
   } else {
-    const durationMs = unitMonths !== void 0 ? within3.amount * unitMonths * MONTH_MS : within3.amount * FIXED_MS[within3.unit];
+    const durationMs = unitMonths !== void 0 ? within2.amount * unitMonths * MONTH_MS : within2.amount * FIXED_MS[within2.unit];
     const step = spacingMonths !== void 0 ? spacingMonths * MONTH_MS : stepMs ?? SPACING_MS[spacing];
     steps = durationMs / step;
   }
   return Math.max(1, Math.ceil(steps - 1e-9));
-}
-
-// src/config/locate.ts
-var import_yaml = __toESM(require_dist(), 1);
-function formatKeyPath(path9) {
-  let out = "";
-  for (const seg of path9) {
-    if (typeof seg === "number") out += `[${seg}]`;
-    else if (/^[A-Za-z_$][\w$-]*$/.test(seg)) out += out ? `.${seg}` : seg;
-    else out += `[${JSON.stringify(seg)}]`;
-  }
-  return out;
-}
-function start(lc, node2) {
-  const range2 = node2?.range;
-  if (!range2) return null;
-  const pos = lc.linePos(range2[0]);
-  return { line: pos.line, column: pos.col };
-}
-function locate(doc, lc, path9, opts = {}) {
-  if (opts.key && path9.length > 0) {
-    const parent = doc.getIn(path9.slice(0, -1), true);
-    const name = path9[path9.length - 1];
-    if ((0, import_yaml.isMap)(parent)) {
-      for (const pair of parent.items) {
-        if ((0, import_yaml.isScalar)(pair.key) && pair.key.value === name) return start(lc, pair.key);
-      }
-    }
-  }
-  for (let n = path9.length; n >= 0; n--) {
-    const node2 = n === 0 ? doc.contents : doc.getIn(path9.slice(0, n), true);
-    const pos = start(lc, node2);
-    if (pos) return pos;
-  }
-  return { line: 1, column: 1 };
 }
 
 // src/config/parse.ts
@@ -48512,7 +48684,7 @@ function parsePlan(text2, configPath) {
   if (doc.errors.length > 0) {
     const e = doc.errors[0];
     const pos = e.linePos?.[0] ?? lc.linePos(e.pos[0]);
-    const more = doc.errors.length > 1 ? ` (and ${doc.errors.length - 1} more YAML problem${doc.errors.length > 2 ? "s" : ""})` : "";
+    const more = doc.errors.length > 1 ? ` (and ${plural(doc.errors.length - 1, "more YAML problem")})` : "";
     fail(`YAML syntax error: ${firstLine(e.message)}${more}.`, { line: pos.line, column: pos.col });
   }
   let collectionKey = null;
@@ -48606,9 +48778,22 @@ function buildMetric(m, d, base, line2, falseAlarms2, problems) {
       message: `The key column "${key}" must differ from the time and value columns.`
     });
   }
+  const label = m.label ?? null;
+  const incidentColumn = m.incidentColumn ?? null;
+  for (const [name, col] of [
+    ["label", label],
+    ["incidentColumn", incidentColumn]
+  ]) {
+    if (col !== null && (col === time3 || col === key || values.includes(col)))
+      problems.push({
+        path: [...base, name],
+        message: `The ${name} column "${col}" must differ from the time, key and value columns.`
+      });
+  }
+  const incidents = buildIncidents(m, base, time3, problems);
   const season2 = pick2("season") ?? DEFAULTS.season;
   const horizon2 = pick2("horizon") ?? DEFAULTS.horizon;
-  const levels2 = [...new Set(pick2("levels") ?? DEFAULTS.levels)].sort((a2, b) => a2 - b);
+  const levels2 = normaliseLevels(pick2("levels") ?? DEFAULTS.levels);
   const methods2 = [...new Set(pick2("methods") ?? DEFAULTS.methods)];
   const alarmLevel2 = pick2("alarmLevel") ?? levels2[levels2.length - 1];
   if (!levels2.includes(alarmLevel2)) {
@@ -48636,6 +48821,10 @@ function buildMetric(m, d, base, line2, falseAlarms2, problems) {
     time: time3,
     values,
     key,
+    label,
+    unit: m.unit?.trim() || null,
+    incidents,
+    incidentColumn,
     keyPath: formatKeyPath(base),
     line: line2,
     season: season2,
@@ -48683,13 +48872,13 @@ function buildLimit(m, d, base, horizon2, problems) {
     return null;
   }
   const rawWithin = own2?.within ?? dflt?.within;
-  let within3;
+  let within2;
   let withinLabel;
   if (rawWithin === void 0) {
-    within3 = { steps: horizon2 };
+    within2 = { steps: horizon2 };
     withinLabel = String(horizon2);
   } else if (typeof rawWithin === "number") {
-    within3 = { steps: rawWithin };
+    within2 = { steps: rawWithin };
     withinLabel = String(rawWithin);
   } else {
     const parsed = parseDuration(rawWithin);
@@ -48700,13 +48889,13 @@ function buildLimit(m, d, base, horizon2, problems) {
       });
       return null;
     }
-    within3 = { amount: parsed.amount, unit: parsed.unit };
+    within2 = { amount: parsed.amount, unit: parsed.unit };
     withinLabel = rawWithin.trim();
   }
   return {
     above: above ?? null,
     below: below ?? null,
-    within: within3,
+    within: within2,
     withinLabel,
     risk: own2?.risk ?? dflt?.risk ?? DEFAULT_RISK
   };
@@ -48755,6 +48944,7 @@ function keysFor(path9) {
   if (last === "backtest") return KEYS.backtest;
   if (last === "check") return KEYS.check;
   if (last === "limit") return KEYS.limit;
+  if (typeof last === "number" && path9[path9.length - 2] === "incidents") return KEYS.incident;
   return [];
 }
 var EXPECTED = {
@@ -48828,7 +49018,7 @@ function fromIssue(issue4, root) {
         return [
           {
             path: path9,
-            message: small ? `Expected at least ${bound} entr${bound === 1 ? "y" : "ies"}, found ${found}.` : `Expected at most ${bound} entries, found ${found}.`
+            message: small ? `Expected at least ${plural(Number(bound), "entry", "entries")}, found ${found}.` : `Expected at most ${bound} entries, found ${found}.`
           }
         ];
       }
@@ -49195,15 +49385,89 @@ function lowerBound(a2, x2, n = a2.length) {
   }
   return base + Number(a2[base] < x2);
 }
-function upperBound(a2, x2, n = a2.length) {
-  if (n === 0) return 0;
-  let base = 0;
-  while (n > 1) {
-    const half = n >>> 1;
-    base += Number(a2[base + half - 1] <= x2) * half;
-    n -= half;
+function sortAscending(a2) {
+  let zeros = 0;
+  for (let i = 0; i < a2.length; i++) {
+    const x2 = a2[i];
+    if (x2 !== x2) return a2.sort();
+    if (x2 === 0) zeros++;
   }
-  return base + Number(a2[base] <= x2);
+  quicksort(a2, 0, a2.length - 1);
+  if (zeros > 1) {
+    let i = lowerBound(a2, 0);
+    let neg = 0;
+    for (let k2 = i; k2 < i + zeros; k2++) if (Object.is(a2[k2], -0)) neg++;
+    for (; neg > 0; neg--, zeros--) a2[i++] = -0;
+    for (; zeros > 0; zeros--) a2[i++] = 0;
+  }
+  return a2;
+}
+var partitionRight = 0;
+function partition(a2, lo, hi) {
+  const mid = lo + hi >>> 1;
+  let x2 = a2[lo];
+  let y2 = a2[mid];
+  let z = a2[hi];
+  if (x2 > y2) [x2, y2] = [y2, x2];
+  if (y2 > z) [y2, z] = [z, y2];
+  if (x2 > y2) [x2, y2] = [y2, x2];
+  const pivot = y2;
+  let i = lo;
+  let j = hi;
+  while (i <= j) {
+    while (a2[i] < pivot) i++;
+    while (a2[j] > pivot) j--;
+    if (i <= j) {
+      const t = a2[i];
+      a2[i] = a2[j];
+      a2[j] = t;
+      i++;
+      j--;
+    }
+  }
+  partitionRight = i;
+  return j;
+}
+function quicksort(a2, lo, hi) {
+  while (hi - lo > 16) {
+    const j = partition(a2, lo, hi);
+    const i = partitionRight;
+    if (j - lo < hi - i) {
+      quicksort(a2, lo, j);
+      lo = i;
+    } else {
+      quicksort(a2, i, hi);
+      hi = j;
+    }
+  }
+  for (let i = lo + 1; i <= hi; i++) {
+    const x2 = a2[i];
+    let j = i - 1;
+    while (j >= lo && a2[j] > x2) {
+      a2[j + 1] = a2[j];
+      j--;
+    }
+    a2[j + 1] = x2;
+  }
+}
+var sortedCache = /* @__PURE__ */ new WeakMap();
+function sortedCopy(xs) {
+  const known = sortedIfKnown(xs);
+  if (known) return known;
+  const s2 = sortAscending(xs.slice());
+  sortedCache.set(xs, s2);
+  return s2;
+}
+function sortedIfKnown(xs) {
+  let s2 = sortedCache.get(xs);
+  if (typeof s2 === "function") {
+    s2 = s2();
+    sortedCache.set(xs, s2);
+  }
+  return s2;
+}
+function rememberSorted(xs, sorted) {
+  sortedCache.set(xs, sorted);
 }
 var Fenwick = class {
   tree;
@@ -49264,11 +49528,6 @@ function fmt(x2, digits = 4) {
   if (a2 >= 1e6 || a2 < 1e-4) return x2.toExponential(digits - 1);
   return String(Number(x2.toPrecision(digits)));
 }
-function fmtP(p) {
-  if (!Number.isFinite(p)) return "p not computed";
-  if (p < 1e-4) return "p < 0.0001";
-  return `p = ${Number(p.toPrecision(2))}`;
-}
 function selectQuantiles(work, probs, out) {
   const n = work.length;
   if (n === 0) {
@@ -49301,27 +49560,8 @@ function selectQuantiles(work, probs, out) {
 }
 function select(a2, lo, hi, k2) {
   while (hi > lo) {
-    const mid = lo + hi >>> 1;
-    let x2 = a2[lo];
-    let y2 = a2[mid];
-    let z = a2[hi];
-    if (x2 > y2) [x2, y2] = [y2, x2];
-    if (y2 > z) [y2, z] = [z, y2];
-    if (x2 > y2) [x2, y2] = [y2, x2];
-    const pivot = y2;
-    let i = lo;
-    let j = hi;
-    while (i <= j) {
-      while (a2[i] < pivot) i++;
-      while (a2[j] > pivot) j--;
-      if (i <= j) {
-        const t = a2[i];
-        a2[i] = a2[j];
-        a2[j] = t;
-        i++;
-        j--;
-      }
-    }
+    const j = partition(a2, lo, hi);
+    const i = partitionRight;
     if (k2 <= j) hi = j;
     else if (k2 >= i) lo = i;
     else return;
@@ -49445,7 +49685,7 @@ function fitDifference(method, y2, season2, lag) {
     const need2 = method === "seasonal-naive" ? `at least 2 pairs of observed values one season (${season2}) apart, i.e. ${season2 + 2} values without gaps` : "at least 2 pairs of consecutive observed values, i.e. 3 values without gaps";
     return {
       method,
-      reason: `The ${LABEL[method]} method needs ${need2} to estimate sigma; the series has ${nres} such pair${nres === 1 ? "" : "s"} (${count2} observed of ${T}).`
+      reason: `The ${LABEL[method]} method needs ${need2} to estimate sigma; the series has ${plural(nres, "such pair", "such pairs")} (${count2} observed of ${T}).`
     };
   }
   const df = nres - 1;
@@ -49512,7 +49752,7 @@ function fitDifference(method, y2, season2, lag) {
       if (empty2.length > 0)
         return {
           method,
-          reason: `The seasonal naive method needs an observed value in every season position; position${empty2.length === 1 ? "" : "s"} ${empty2.slice(0, 5).join(", ")} ${empty2.length === 1 ? "has" : "have"} none.`
+          reason: `The seasonal naive method needs an observed value in every season position; ${agree(empty2.length, "position")} ${empty2.slice(0, 5).join(", ")} ${agree(empty2.length, "has", "have")} none.`
         };
       const source = (h) => {
         const t = T - 1 + h;
@@ -49563,6 +49803,7 @@ function defaultLags(n, season2) {
   return Math.max(1, Math.min(cap, fifth));
 }
 var ALPHA = 0.05;
+var MIN_CHECK_RESIDUALS = 10;
 function notComputed(name, why, df = null) {
   return {
     name,
@@ -49629,8 +49870,8 @@ function runResidualTests(fit, lags) {
     };
     family.push({
       test: ljungBox,
-      good: `No autocorrelation detected in the residuals (Ljung\u2013Box Q = ${fmt(q)} over ${L} lags, df ${df}, ${fmtP(p)})`,
-      bad: `The residuals are autocorrelated (Ljung\u2013Box Q = ${fmt(q)} over ${L} lags, df ${df}, ${fmtP(p)}): the ${label} method leaves a pattern unexplained, so the intervals are likely too narrow and neighbouring alarms are not independent`
+      good: `No autocorrelation detected in the residuals (Ljung\u2013Box Q = ${fmt(q)} over ${L} lags, df ${df}, ${pIs(p)})`,
+      bad: `The residuals are autocorrelated (Ljung\u2013Box Q = ${fmt(q)} over ${L} lags, df ${df}, ${pIs(p)}): the ${label} method leaves a pattern unexplained, so the intervals are likely too narrow and neighbouring alarms are not independent`
     });
   }
   const zero3 = fit.method === "mean" || fit.method === "drift" && noInnerGap(fit);
@@ -49676,8 +49917,8 @@ function runResidualTests(fit, lags) {
     };
     family.push({
       test: bias,
-      good: `No bias detected: the mean residual ${fmt(mean)} is consistent with zero (t = ${fmt(t)}, df ${n - 1}, ${fmtP(p)})`,
-      bad: `The residuals average ${fmt(mean)}, not zero (t = ${fmt(t)}, df ${n - 1}, ${fmtP(p)}): the one-step forecasts run ${mean > 0 ? "low" : "high"} by about that much${fit.method === "naive" || fit.method === "seasonal-naive" ? ", which a trend would explain (the drift method allows for one)" : ""}, and intervals centred on them are off-centre`
+      good: `No bias detected: the mean residual ${fmt(mean)} is consistent with zero (t = ${fmt(t)}, df ${n - 1}, ${pIs(p)})`,
+      bad: `The residuals average ${fmt(mean)}, not zero (t = ${fmt(t)}, df ${n - 1}, ${pIs(p)}): the one-step forecasts run ${mean > 0 ? "low" : "high"} by about that much${fit.method === "naive" || fit.method === "seasonal-naive" ? ", which a trend would explain (the drift method allows for one)" : ""}, and intervals centred on them are off-centre`
     });
   }
   let normality;
@@ -49722,8 +49963,8 @@ function runResidualTests(fit, lags) {
     };
     family.push({
       test: normality,
-      good: `The residuals are consistent with a normal distribution (Jarque\u2013Bera = ${fmt(jb)}, ${fmtP(p)}; skewness ${fmt(S, 2)}, kurtosis ${fmt(Ku, 3)})`,
-      bad: `The residuals are not normal (Jarque\u2013Bera = ${fmt(jb)}, ${fmtP(p)}; skewness ${fmt(S, 2)}, kurtosis ${fmt(Ku, 3)} against 3 for a normal): Student-t intervals may misstate the tails${Ku > 3 ? " (heavy tails make extreme values commoner than they allow)" : ""}; bootstrap and empirical intervals do not assume normality`
+      good: `The residuals are consistent with a normal distribution (Jarque\u2013Bera = ${fmt(jb)}, ${pIs(p)}; skewness ${fmt(S, 2)}, kurtosis ${fmt(Ku, 3)})`,
+      bad: `The residuals are not normal (Jarque\u2013Bera = ${fmt(jb)}, ${pIs(p)}; skewness ${fmt(S, 2)}, kurtosis ${fmt(Ku, 3)} against 3 for a normal): Student-t intervals may misstate the tails${Ku > 3 ? " (heavy tails make extreme values commoner than they allow)" : ""}; bootstrap and empirical intervals do not assume normality`
     });
   }
   const third = Math.floor(n / 3);
@@ -49750,7 +49991,7 @@ function runResidualTests(fit, lags) {
       const F = bf.statistic;
       const p = 1 - fCdf(F, 1, df2);
       const grows = bf.last > bf.first;
-      const words = `Brown\u2013Forsythe F = ${fmt(F)}, absolute deviations from the median in the last third against the first, df 1 and ${df2}, ${fmtP(p)}`;
+      const words = `Brown\u2013Forsythe F = ${fmt(F)}, absolute deviations from the median in the last third against the first, df 1 and ${df2}, ${pIs(p)}`;
       spread = { name: spreadName, statistic: F, df: df2, pValue: p, adjustedP: p, ok: true, finding: "" };
       family.push({
         test: spread,
@@ -49759,7 +50000,7 @@ function runResidualTests(fit, lags) {
       });
     }
   }
-  const computed = finiteOnly(family);
+  const computed = n < MIN_CHECK_RESIDUALS ? tooFew(family, n) : finiteOnly(family);
   const flagged = holm(computed);
   return {
     acf,
@@ -49769,10 +50010,16 @@ function runResidualTests(fit, lags) {
     normality,
     spread,
     family: computed.length,
-    caveat: flagged || [ljungBox, bias, normality, spread].some((t) => !t.ok)
+    caveat: flagged || [ljungBox, bias, normality, spread].some((t) => !t.ok),
+    residuals: n
   };
 }
 var NOT_FINITE = "the residuals are too large for double-precision arithmetic (the statistic is not finite).";
+function tooFew(family, n) {
+  const why = `${plural(n, "residual")}; at least ${MIN_CHECK_RESIDUALS} are needed.`;
+  for (const { test } of family) Object.assign(test, notComputed(test.name, why, test.df));
+  return [];
+}
 function finiteOnly(family) {
   return family.filter(({ test }) => {
     if (Number.isFinite(test.statistic) && Number.isFinite(test.pValue)) return true;
@@ -49791,7 +50038,7 @@ function holm(family) {
     t.test.adjustedP = running;
     t.test.ok = !(running < ALPHA);
     any ||= !t.test.ok;
-    const adj = m > 1 ? `; Holm-adjusted over the ${m} checks, ${fmtP(running)}` : "";
+    const adj = m > 1 ? `; Holm-adjusted over the ${m} checks, ${pIs(running)}` : "";
     if (t.test.ok)
       t.test.finding = t.test.pValue < ALPHA ? `${t.good}: below 5% on its own, but not once the ${m} checks run on these residuals are allowed for${adj}.` : `${t.good}.`;
     else t.test.finding = `${t.bad}${adj}. This is a caveat about the model, not about the newest data.`;
@@ -49819,6 +50066,102 @@ function absDeviations(x2) {
 function noInnerGap(fit) {
   const span = fit.coefficients.span;
   return span !== void 0 && fit.residualCount === span;
+}
+
+// src/engine/errorspread.ts
+function sharedShocks(method, season2, h) {
+  if (method === "mean") return 1;
+  if (method === "seasonal-naive") return Math.ceil(h / Math.max(1, season2));
+  return h;
+}
+function covariance(method, m, h, i, j) {
+  const d = j - i;
+  switch (method) {
+    case "mean":
+      return d === 0 ? 1 + 1 / (i + 1) : d < h ? 1 / (j + 1) : 0;
+    case "naive":
+      return Math.max(0, h - d);
+    case "drift":
+      return j > 0 ? Math.max(0, h - d) * (1 + h / j) : NaN;
+    case "seasonal-naive": {
+      const k2 = Math.ceil(h / m);
+      return d % m === 0 ? Math.max(0, k2 - d / m) : 0;
+    }
+  }
+}
+function nextVariance(method, m, h, T) {
+  switch (method) {
+    case "mean":
+      return 1 + 1 / T;
+    case "naive":
+      return h;
+    case "drift":
+      return h * (1 + h / (T - 1));
+    case "seasonal-naive":
+      return Math.ceil(h / m);
+  }
+}
+var ErrorSpreadSums = class {
+  constructor(method, season2, h, first) {
+    this.method = method;
+    this.h = h;
+    this.first = first;
+    this.m = Math.max(1, Math.floor(season2));
+    this.reach = method === "seasonal-naive" ? this.m * Math.ceil(h / this.m) : h;
+  }
+  method;
+  h;
+  first;
+  n = 0;
+  trace = 0;
+  total = 0;
+  frob = 0;
+  rows2 = 0;
+  rows = [];
+  m;
+  reach;
+  /** Adds the next error (origin first + count so far). */
+  add() {
+    const { method, m, h, rows } = this;
+    const j = this.first + this.n;
+    const cjj = covariance(method, m, h, j, j);
+    let rj = cjj;
+    this.trace += cjj;
+    this.frob += cjj * cjj;
+    this.total += cjj;
+    const stride = method === "seasonal-naive" ? m : 1;
+    for (let q = this.n - stride; q >= Math.max(0, this.n - this.reach + 1); q -= stride) {
+      const c = covariance(method, m, h, this.first + q, j);
+      if (c === 0) continue;
+      const r = rows[q];
+      this.rows2 += (r + c) * (r + c) - r * r;
+      rows[q] = r + c;
+      rj += c;
+      this.frob += 2 * c * c;
+      this.total += 2 * c;
+    }
+    rows.push(rj);
+    this.rows2 += rj * rj;
+    this.n++;
+  }
+  /** R and the df for the errors added so far, the next error made from a prefix of T values. */
+  spread(T) {
+    const { n, total } = this;
+    if (!(n >= 2) || this.first < 0) return { ratio: NaN, df: NaN };
+    const ss = this.trace - total / n;
+    const ss2 = this.frob - 2 * this.rows2 / n + total * total / (n * n);
+    if (!(ss > 0 && ss2 > 0)) return { ratio: NaN, df: NaN };
+    return {
+      ratio: (nextVariance(this.method, this.m, this.h, T) + total / (n * n)) / ss,
+      df: ss * ss / ss2
+    };
+  }
+};
+function nextErrorSpread(method, season2, h, n, T) {
+  const sums = new ErrorSpreadSums(method, season2, h, T - h - n);
+  if (T - h - n < 0) return { ratio: NaN, df: NaN };
+  for (let k2 = 0; k2 < n; k2++) sums.add();
+  return sums.spread(T);
 }
 
 // src/engine/simulate.ts
@@ -49888,7 +50231,7 @@ function simulateInto(out, spec, H, P, rnd, mode) {
   const boot = mode === "bootstrap" && len > 0;
   const sigma = Number.isFinite(spec.sigma) ? spec.sigma : 0;
   const per = shocksPerPath(spec, H);
-  const u = new Uint32Array(boot ? per : 0);
+  const u2 = new Uint32Array(boot ? per : 0);
   const sh = new Float64Array(per);
   const ratio = len / 4294967296;
   const { method, gap, paramScale } = spec;
@@ -49898,9 +50241,9 @@ function simulateInto(out, spec, H, P, rnd, mode) {
     const row = p * H;
     const f2 = df > 0 ? Math.sqrt(df / chiSquareDraw(rnd, df)) : 1;
     if (boot) {
-      rnd.fill(u);
+      rnd.fill(u2);
       const sc = scale * f2;
-      for (let k2 = 0; k2 < per; k2++) sh[k2] = (pool[Math.floor(u[k2] * ratio)] - shift) * sc;
+      for (let k2 = 0; k2 < per; k2++) sh[k2] = (pool[Math.floor(u2[k2] * ratio)] - shift) * sc;
     } else {
       const sd = sigma * f2;
       for (let k2 = 0; k2 < per; k2++) sh[k2] = sd * rnd.normal();
@@ -49942,9 +50285,9 @@ function chiSquareDraw(rnd, k2) {
     const t = 1 + c * x2;
     if (t <= 0) continue;
     const v = t * t * t;
-    const u = 1 - rnd.uniform();
+    const u2 = 1 - rnd.uniform();
     const x22 = x2 * x2;
-    if (u < 1 - 0.0331 * x22 * x22 || Math.log(u) < 0.5 * x22 + d * (1 - v + Math.log(v)))
+    if (u2 < 1 - 0.0331 * x22 * x22 || Math.log(u2) < 0.5 * x22 + d * (1 - v + Math.log(v)))
       return 2 * d * v * boost;
   }
 }
@@ -49966,15 +50309,6 @@ function columnsOf(paths2, nPaths, horizon2) {
   }
   return cols;
 }
-var sortedCache = /* @__PURE__ */ new WeakMap();
-function sortedCopy(xs) {
-  let s2 = sortedCache.get(xs);
-  if (!s2) {
-    s2 = xs.slice().sort();
-    sortedCache.set(xs, s2);
-  }
-  return s2;
-}
 function fewestErrors(bt) {
   if (!bt || bt.errors.length === 0) return 0;
   let least = Infinity;
@@ -49983,7 +50317,7 @@ function fewestErrors(bt) {
 }
 function chooseIntervalKind(checks, bt, minErrors = DEFAULT_MIN_ERRORS) {
   const problems = [];
-  const p = (t) => Number.isFinite(t.adjustedP) ? `, Holm-adjusted ${fmtP(t.adjustedP)}` : "";
+  const p = (t) => Number.isFinite(t.adjustedP) ? `, Holm-adjusted ${pIs(t.adjustedP)}` : "";
   if (!checks.ljungBox.ok) problems.push(`autocorrelated (Ljung\u2013Box${p(checks.ljungBox)})`);
   if (!checks.bias.ok) problems.push(`biased (t-test${p(checks.bias)})`);
   if (!checks.spread.ok) problems.push(`of changing spread (${checks.spread.name}${p(checks.spread)})`);
@@ -50009,8 +50343,7 @@ function chooseIntervalKind(checks, bt, minErrors = DEFAULT_MIN_ERRORS) {
 function validate2(o) {
   if (!Number.isInteger(o.horizon) || o.horizon < 1)
     throw new RangeError(`horizon must be a whole number of at least 1; got ${o.horizon}`);
-  for (const l of o.levels)
-    if (!(l > 0 && l < 100)) throw new RangeError(`each level must be between 0 and 100 (percent); got ${l}`);
+  checkLevels(o.levels);
   if (!Number.isInteger(o.paths) || o.paths < 1)
     throw new RangeError(`paths must be a whole number of at least 1; got ${o.paths}`);
 }
@@ -50050,7 +50383,7 @@ function makeForecast(fit, o) {
       }
       if (thin.length > 0)
         notes2.push(
-          `Empirical intervals: step${thin.length === 1 ? "" : "s"} ${ranges(thin)} ${thin.length === 1 ? "has" : "have"} fewer than ${minErrors} backtest errors (or ${thin.length === 1 ? "lies" : "lie"} beyond the backtest horizon of ${bt.errors.length}) and ${thin.length === 1 ? "uses" : "use"} analytic bands.`
+          `Empirical intervals: ${agree(thin.length, "step")} ${ranges(thin)} ${agree(thin.length, "has", "have")} fewer than ${minErrors} backtest errors (or ${agree(thin.length, "lies", "lie")} beyond the backtest horizon of ${bt.errors.length}) and ${agree(thin.length, "uses", "use")} analytic bands.`
         );
     }
   }
@@ -50061,8 +50394,12 @@ function makeForecast(fit, o) {
     paths2 = simulatePaths(fit, H, nPaths, o.seed, "bootstrap");
   }
   const base = [];
-  for (let h = 1; h <= H; h++)
-    base.push(paths2 ? fit.residualCount : (empiricalErrors?.[h - 1]?.length ?? 0) / sharedShocks(fit, h));
+  const spread = [];
+  for (let h = 1; h <= H; h++) {
+    const n = empiricalErrors?.[h - 1]?.length ?? 0;
+    base.push(paths2 ? fit.residualCount : n / sharedShocks(fit.method, fit.season, h));
+    spread.push(paths2 ? null : nextErrorSpread(fit.method, fit.season, h, n, fit.n));
+  }
   const work = paths2 ? new Float64Array(nPaths) : null;
   const bands = o.levels.map((level) => ({
     level,
@@ -50074,10 +50411,11 @@ function makeForecast(fit, o) {
     let q = null;
     if (paths2 && work) {
       for (let p = 0; p < nPaths; p++) work[p] = paths2[p * H + h];
-      q = splicedQuantiles(work, 0, base[h], df, o.levels);
-    } else if (errs && errs.length > 0) q = splicedQuantiles(errs, mean[h], base[h], df, o.levels, true);
+      q = splicedQuantiles(work, 0, base[h], df, o.levels, null);
+    } else if (errs && errs.length > 0)
+      q = splicedQuantiles(errs, mean[h], base[h], df, o.levels, spread[h] ?? { ratio: NaN, df: NaN });
     o.levels.forEach((level, k2) => {
-      const a2 = (1 - level / 100) / 2;
+      const a2 = levelTail(level);
       const band = bands[k2];
       if (q) {
         band.lower[h] = q(a2);
@@ -50103,13 +50441,9 @@ function makeForecast(fit, o) {
     nPaths,
     empiricalErrors,
     sampleBase: paths2 || empiricalErrors ? base : null,
+    sampleSpread: empiricalErrors && !paths2 ? spread : null,
     notes: notes2
   };
-}
-function sharedShocks(fit, h) {
-  if (fit.method === "mean") return 1;
-  if (fit.method === "seasonal-naive") return Math.ceil(h / Math.max(1, fit.season));
-  return h;
 }
 function tailStart(base, n) {
   return Math.max(0.8, 1 - 5 / Math.min(base, n));
@@ -50117,17 +50451,27 @@ function tailStart(base, n) {
 function def6(p, n) {
   return n > 1 ? Math.min(1, Math.max(0, (p * (n + 1) - 1) / (n - 1))) : 0;
 }
-function tailOf(sample, offset, lo, hi, base, df) {
-  const n = sample.length;
-  const u = tailStart(base, n);
+function tailScale(sq, base, df, observed) {
+  const n = sq.n;
+  if (!(n >= 2)) return { s: NaN, nu: NaN };
+  if (observed) {
+    const known = observed.ratio > 0 && observed.df > 0;
+    return {
+      s: sq.sd(known ? 1 / observed.ratio : (n - 1) / (1 + 1 / n)),
+      nu: known ? observed.df : n - 1
+    };
+  }
   const nu = Math.max(1, Math.min(df > 0 ? df : Infinity, base - 1));
-  const sq = meanAndSquares(sample);
   const sd = sq.sd(n - 1);
-  const s2 = nu > 2 && Number.isFinite(nu) ? sd * Math.sqrt((nu - 2) / nu) : sd;
+  return { s: nu > 2 && Number.isFinite(nu) ? sd * Math.sqrt((nu - 2) / nu) : sd, nu };
+}
+function tailOf(sq, offset, lo, hi, base, df, observed) {
+  const u2 = tailStart(base, sq.n);
+  const { s: s2, nu } = tailScale(sq, base, df, observed);
   const m = offset + sq.mean;
   const ok = Number.isFinite(s2) && s2 > 0;
   return {
-    u,
+    u: u2,
     lo,
     hi,
     m,
@@ -50136,6 +50480,40 @@ function tailOf(sample, offset, lo, hi, base, df) {
     beyondHi: ok ? 1 - tCdf((hi - m) / s2, nu) : 0,
     belowLo: ok ? tCdf((lo - m) / s2, nu) : 0
   };
+}
+function def6Quantile(order, n, p) {
+  const pos = p * (n + 1);
+  if (pos <= 1) return order(1);
+  if (pos >= n) return order(n);
+  const j = Math.floor(pos);
+  const g = pos - j;
+  const lo = order(j);
+  return g === 0 ? lo : lo + g * (order(j + 1) - lo);
+}
+function splicedQuantile({ q6, sq, offset, base, df, observed }, prob) {
+  const u2 = tailStart(base, sq.n);
+  if (prob >= 1 - u2 && prob <= u2) return offset + q6(prob);
+  return tailQuantile(tailOf(sq, offset, offset + q6(1 - u2), offset + q6(u2), base, df, observed), prob);
+}
+function splicedCovers({ q6, sq, offset, base, df, observed }, x2, alphas, inside2) {
+  const u2 = tailStart(base, sq.n);
+  const lo = offset + q6(1 - u2);
+  const hi = offset + q6(u2);
+  if (x2 >= lo && x2 <= hi) {
+    alphas.forEach((a2, l) => {
+      if (a2 < 1 - u2 || x2 >= offset + q6(a2) && x2 <= offset + q6(1 - a2)) inside2[l]++;
+    });
+    return;
+  }
+  let mass = -1;
+  alphas.forEach((a2, l) => {
+    if (a2 >= 1 - u2) return;
+    if (mass < 0) {
+      const t = tailOf(sq, offset, lo, hi, base, df, observed);
+      mass = t.s > 0 && t.beyondHi > 0 && t.belowLo > 0 ? tailMass(t, x2) : 0;
+    }
+    if (mass >= a2) inside2[l]++;
+  });
 }
 function tailQuantile(t, prob) {
   if (!(t.s > 0 && t.beyondHi > 0 && t.belowLo > 0)) return prob > t.u ? t.hi : t.lo;
@@ -50146,13 +50524,14 @@ function tailMass(t, x2) {
   if (x2 > t.hi) return (1 - t.u) * (1 - tCdf((x2 - t.m) / t.s, t.nu)) / t.beyondHi;
   return (1 - t.u) * tCdf((x2 - t.m) / t.s, t.nu) / t.belowLo;
 }
-function splicedQuantiles(work, offset, base, df, levels2, sorted = false) {
+function splicedQuantiles(work, offset, base, df, levels2, observed) {
+  const sorted = observed !== null;
   const n = work.length;
-  const u = tailStart(base, n);
-  const probs = [1 - u, u];
+  const u2 = tailStart(base, n);
+  const probs = [1 - u2, u2];
   for (const l of levels2) {
-    const a2 = (1 - l / 100) / 2;
-    if (a2 >= 1 - u) probs.push(a2, 1 - a2);
+    const a2 = levelTail(l);
+    if (a2 >= 1 - u2) probs.push(a2, 1 - a2);
   }
   const at = /* @__PURE__ */ new Map();
   if (sorted) for (const p of probs) at.set(p, offset + sortedQuantile(work, def6(p, n)));
@@ -50165,7 +50544,7 @@ function splicedQuantiles(work, offset, base, df, levels2, sorted = false) {
     );
     probs.forEach((p, k2) => at.set(p, offset + out[k2]));
   }
-  const tail = tailOf(work, offset, at.get(1 - u), at.get(u), base, df);
+  const tail = tailOf(meanAndSquares(work), offset, at.get(1 - u2), at.get(u2), base, df, observed);
   return (prob) => at.get(prob) ?? tailQuantile(tail, prob);
 }
 function ranges(xs) {
@@ -50184,10 +50563,15 @@ function stepOk(fc, step) {
 function sampleAt(fc, step) {
   const base = fc.sampleBase?.[step - 1] ?? 0;
   if (fc.kind === "bootstrap" && fc.paths)
-    return { sorted: columnsOf(fc.paths, fc.nPaths, fc.horizon)[step - 1], offset: 0, base };
+    return { sorted: columnsOf(fc.paths, fc.nPaths, fc.horizon)[step - 1], offset: 0, base, observed: null };
   const errs = fc.empiricalErrors?.[step - 1];
   if (fc.kind === "empirical" && errs && errs.length > 0)
-    return { sorted: errs, offset: fc.mean[step - 1], base };
+    return {
+      sorted: errs,
+      offset: fc.mean[step - 1],
+      base,
+      observed: fc.sampleSpread?.[step - 1] ?? { ratio: NaN, df: NaN }
+    };
   return null;
 }
 function tailProbability(fc, step, value2, side) {
@@ -50203,20 +50587,21 @@ function tailProbability(fc, step, value2, side) {
   let boundAbove = false;
   let boundBelow = false;
   if (sample) {
-    const { sorted, offset, base } = sample;
+    const { sorted, offset, base, observed } = sample;
     const n = sorted.length;
     const x2 = value2 - offset;
-    const u = tailStart(base, n);
+    const u2 = tailStart(base, n);
     const t = tailOf(
-      sorted,
+      meanAndSquares(sorted),
       0,
-      sortedQuantile(sorted, def6(1 - u, n)),
-      sortedQuantile(sorted, def6(u, n)),
+      sortedQuantile(sorted, def6(1 - u2, n)),
+      sortedQuantile(sorted, def6(u2, n)),
       base,
-      fc.df
+      fc.df,
+      observed
     );
     const shareAbove = (n - lowerBound2(sorted, x2)) / n;
-    const shareBelow = upperBound2(sorted, x2) / n;
+    const shareBelow = upperBound(sorted, x2) / n;
     basis2 = "sample";
     if (x2 > t.hi || x2 < t.lo) {
       basis2 = "tail-model";
@@ -50256,12 +50641,10 @@ function quantileAt(fc, step, prob) {
   const s2 = fc.se[step - 1];
   const sample = sampleAt(fc, step);
   if (sample) {
-    const { sorted, offset, base } = sample;
+    const { sorted, offset, base, observed } = sample;
     const n = sorted.length;
-    const u = tailStart(base, n);
-    const q = (p) => offset + sortedQuantile(sorted, def6(p, n));
-    if (prob >= 1 - u && prob <= u) return q(prob);
-    return tailQuantile(tailOf(sorted, offset, q(1 - u), q(u), base, fc.df), prob);
+    const q6 = (p) => sortedQuantile(sorted, def6(p, n));
+    return splicedQuantile({ q6, sq: meanAndSquares(sorted), offset, base, df: fc.df, observed }, prob);
   }
   if (!(s2 > 0)) return mu;
   return mu + tQuantile(prob, fc.df) * s2;
@@ -50276,7 +50659,7 @@ function lowerBound2(a2, x2) {
   }
   return lo;
 }
-function upperBound2(a2, x2) {
+function upperBound(a2, x2) {
   let lo = 0;
   let hi = a2.length;
   while (lo < hi) {
@@ -50349,6 +50732,8 @@ function runBacktest(y2, methods2, o) {
     if (scored.analytic) coverage.analytic = scored.analytic;
     if (scored.origins)
       coverage.empirical = empiricalCoverage({
+        method,
+        season: o.season,
         errors: scored.errors,
         origins: scored.origins,
         originStride: scored.originStride,
@@ -50387,6 +50772,8 @@ function measureCoverage(y2, mb, kind, o) {
     for (let i = T - 1 - h; j >= 0 && i >= 0; i--) if (present(y2[i + h])) origins[k2 * maxO + j--] = i;
   });
   return empiricalCoverage({
+    method: mb.method,
+    season: o.season,
     errors: mb.errors,
     origins,
     originStride: maxO,
@@ -50394,16 +50781,86 @@ function measureCoverage(y2, mb, kind, o) {
     minErrors: o.minErrors ?? DEFAULT_MIN_ERRORS
   });
 }
+function prefixBacktest(y2, P, full, o) {
+  const prefix = y2.subarray(0, P);
+  if (extremeUnit(y2) !== 1 || extremeUnit(prefix) !== 1 || full.errors.length !== o.horizon)
+    return runBacktest(prefix, [full.method], { ...o, levels: [], coverage: [] }).methods[full.method];
+  const scale = maseScale(prefix, Math.max(1, Math.floor(o.season)));
+  let after = 0;
+  for (let k2 = P; k2 < y2.length; k2++) if (present(y2[k2])) after++;
+  const most = Math.max(0, ...full.errors.map((e) => e.length - after));
+  const back = scratch.i32("prefix.actual", most);
+  for (let k2 = P - 1, j = 0; j < most; k2--) if (present(y2[k2])) back[j++] = k2;
+  const steps = [];
+  const errors = [];
+  for (let h = 1; h <= o.horizon; h++) {
+    const all = full.errors[h - 1];
+    const c = Math.max(0, all.length - after);
+    const e = all.subarray(0, c);
+    let sE = 0;
+    let sE2 = 0;
+    let sA = 0;
+    let cP = 0;
+    let sP = 0;
+    let sAP = 0;
+    for (let j = 0; j < c; j++) {
+      const x2 = e[j];
+      sE += x2;
+      sE2 += x2 * x2;
+      sA += Math.abs(x2);
+      const a2 = y2[back[c - 1 - j]];
+      if (a2 !== 0) {
+        const pct2 = x2 * (100 / a2);
+        cP++;
+        sP += pct2;
+        sAP += Math.abs(pct2);
+      }
+    }
+    steps.push({
+      step: h,
+      origins: c,
+      me: c > 0 ? sE / c : NaN,
+      rmse: c > 0 ? Math.sqrt(sE2 / c) : NaN,
+      mae: c > 0 ? sA / c : NaN,
+      mpe: cP > 0 ? sP / cP : NaN,
+      mape: cP > 0 ? sAP / cP : NaN,
+      mase: c > 0 && scale > 0 ? sA / c / scale : NaN
+    });
+    const known = sortedIfKnown(all);
+    if (known && c > 0) rememberSorted(e, () => withoutValues(known, all.subarray(c)));
+    errors.push(e);
+  }
+  return methodBacktest(full.method, steps, errors, {});
+}
+function withoutValues(sorted, drop) {
+  const gone = new Uint8Array(sorted.length);
+  for (const x2 of drop) {
+    let k2 = lowerBound(sorted, x2);
+    while (gone[k2] === 1 || !Object.is(sorted[k2], x2)) k2++;
+    gone[k2] = 1;
+  }
+  const out = new Float64Array(sorted.length - drop.length);
+  for (let k2 = 0, j = 0; k2 < sorted.length; k2++) if (gone[k2] === 0) out[j++] = sorted[k2];
+  return out;
+}
 function prepare(y2, season2) {
   const unit2 = extremeUnit(y2);
   return { ys: inUnits(y2, unit2), unit: unit2, m: Math.max(1, Math.floor(season2)) };
 }
 function scoringOf(ys, m) {
   const T = ys.length;
+  const inv100 = scratch.f64("backtest.inv100", T);
+  for (let i = 0; i < T; i++) {
+    const a2 = ys[i];
+    inv100[i] = a2 !== 0 && Number.isFinite(a2) ? 100 / a2 : NaN;
+  }
+  return { scale: maseScale(ys, m), inv100 };
+}
+function maseScale(ys, m) {
   const lag = m > 1 ? m : 1;
   let sAbs = 0;
   let nAbs = 0;
-  for (let i = lag; i < T; i++) {
+  for (let i = lag; i < ys.length; i++) {
     const a2 = ys[i];
     const b = ys[i - lag];
     if (present(a2) && present(b)) {
@@ -50411,12 +50868,7 @@ function scoringOf(ys, m) {
       nAbs++;
     }
   }
-  const inv100 = scratch.f64("backtest.inv100", T);
-  for (let i = 0; i < T; i++) {
-    const a2 = ys[i];
-    inv100[i] = a2 !== 0 && Number.isFinite(a2) ? 100 / a2 : NaN;
-  }
-  return { scale: nAbs > 0 ? sAbs / nAbs : NaN, inv100 };
+  return nAbs > 0 ? sAbs / nAbs : NaN;
 }
 var Welford = class {
   n = 0;
@@ -50741,14 +51193,14 @@ function methodBacktest(method, steps, errors, coverage) {
 }
 function shares(levels2, inside2, total) {
   const r = {};
-  levels2.forEach((l, k2) => r[String(l)] = total > 0 ? inside2[k2] / total : NaN);
+  levels2.forEach((l, k2) => r[levelKey(l)] = total > 0 ? inside2[k2] / total : NaN);
   return r;
 }
 var AnalyticCount = class {
   constructor(levels2, T) {
     this.levels = levels2;
     this.T = T;
-    this.probs = levels2.map((l) => 1 - (1 - l / 100) / 2);
+    this.probs = levels2.map((l) => 1 - levelTail(l));
     this.tables = this.probs.map((p) => tQuantileTable(p));
     this.halfWidth2 = scratch.f64("backtest.halfWidth2", levels2.length * T);
     this.inside = new Float64Array(levels2.length);
@@ -50788,7 +51240,7 @@ var AnalyticCount = class {
 function empiricalCoverage(o) {
   const { errors, levels: levels2, minErrors } = o;
   const L = levels2.length;
-  const alphas = levels2.map((l) => (1 - l / 100) / 2);
+  const alphas = levels2.map(levelTail);
   const inside2 = new Int32Array(L);
   let total = 0;
   const tree = new Fenwick(0);
@@ -50801,27 +51253,32 @@ function empiricalCoverage(o) {
     const lo = scratch.i32("empirical.lo", N);
     for (let j = 0; j < N; j++) lo[j] = lowerBound(sorted, e[j]);
     tree.reset(N);
-    const kth = (k2) => sorted[tree.kth(k2)];
-    const exact = (c, p) => {
-      const pos = (c - 1) * p;
-      const j = Math.floor(pos);
-      const g = pos - j;
-      const lo2 = kth(j + 1);
-      return g === 0 || j + 1 >= c ? lo2 : lo2 + g * (kth(j + 2) - lo2);
-    };
+    const order = (k2) => sorted[tree.kth(k2)];
+    const stats = new Welford();
+    const spread = new ErrorSpreadSums(o.method, o.season, h + 1, orig[0]);
+    const shared = sharedShocks(o.method, o.season, h + 1);
     const stride = Math.max(1, Math.floor(N / EMPIRICAL_COVERAGE_POINTS));
     let known = 0;
     for (let j = 0; j < N; j++) {
       const oj = orig[j];
       while (known < j && orig[known] + h + 1 <= oj) {
         tree.add(lo[known]);
+        stats.add(e[known]);
+        spread.add();
         known++;
       }
       if (known < minErrors || j % stride !== 0) continue;
       const x2 = e[j];
-      const lt = tree.below(lo[j]);
-      const le = tree.below(upperBound(sorted, x2));
-      for (let l = 0; l < L; l++) if (within2(x2, known, alphas[l], lt, le, exact)) inside2[l]++;
+      const n = known;
+      const sq = {
+        n,
+        mean: stats.mean,
+        ss: stats.m2,
+        sd: (df) => Math.sqrt(Math.max(0, stats.m2) / df)
+      };
+      const q6 = (p) => def6Quantile(order, n, p);
+      const observed = spread.spread(oj + 1);
+      splicedCovers({ q6, sq, offset: 0, base: n / shared, df: 0, observed }, x2, alphas, inside2);
       total++;
     }
   }
@@ -50831,7 +51288,7 @@ function bootstrapCoverage(s2, method, o) {
   const { ys } = s2;
   const T = ys.length;
   const H = o.horizon;
-  const alphas = o.levels.map((l) => (1 - l / 100) / 2);
+  const alphas = o.levels.map(levelTail);
   const marks = bootstrapPlan(T, o.minTrain);
   const fit = runningFit(method, s2, new Float64Array(T));
   const rnd = createRandom(o.seed);
@@ -50842,8 +51299,9 @@ function bootstrapCoverage(s2, method, o) {
   fitOrigins(fit, T, o.minTrain, (i) => {
     if (marks[i] !== 1) return;
     const hMax = Math.min(H, T - 1 - i);
-    simulateInto(paths2, fit.spec(i), hMax, BOOTSTRAP_PATHS, rnd, "bootstrap");
-    total += countInside(paths2, hMax, ys, i, col, alphas, inside2);
+    const spec = fit.spec(i);
+    simulateInto(paths2, spec, hMax, BOOTSTRAP_PATHS, rnd, "bootstrap");
+    total += countInside(paths2, hMax, ys, i, col, alphas, inside2, spec.poolLength, spec.df ?? 0);
   });
   return shares(o.levels, inside2, total);
 }
@@ -50859,46 +51317,20 @@ function bootstrapPlan(T, minTrain) {
   }
   return marks;
 }
-function countInside(paths2, hMax, ys, i, col, alphas, inside2) {
+function countInside(paths2, hMax, ys, i, col, alphas, inside2, base, df) {
   const P = col.length;
-  let sortedCol = false;
-  const exact = (_c, p) => {
-    if (!sortedCol) {
-      col.sort();
-      sortedCol = true;
-    }
-    return sortedQuantile(col, p);
-  };
   let total = 0;
   for (let h = 0; h < hMax; h++) {
     const a2 = ys[i + h + 1];
     if (!Number.isFinite(a2)) continue;
-    let lt = 0;
-    let le = 0;
-    for (let p = 0; p < P; p++) {
-      const v = paths2[p * hMax + h];
-      col[p] = v;
-      lt += Number(v < a2);
-      le += Number(v <= a2);
-    }
-    sortedCol = false;
-    for (let l = 0; l < alphas.length; l++) if (within2(a2, P, alphas[l], lt, le, exact)) inside2[l]++;
+    for (let p = 0; p < P; p++) col[p] = paths2[p * hMax + h];
+    col.sort();
+    const q6 = (p) => def6Quantile((k2) => col[k2 - 1], P, p);
+    const sq = meanAndSquares(col);
+    splicedCovers({ q6, sq, offset: 0, base, df, observed: null }, a2, alphas, inside2);
     total++;
   }
   return total;
-}
-function within2(x2, c, a2, lt, le, exact) {
-  const pl = (c - 1) * a2;
-  const jl = Math.floor(pl);
-  const gl = pl - jl;
-  if (le < jl + 1) return false;
-  if (!(le >= (gl > 0 ? jl + 2 : jl + 1)) && x2 < exact(c, a2)) return false;
-  const pu = (c - 1) * (1 - a2);
-  const ju = Math.floor(pu);
-  const gu = pu - ju;
-  if (lt < ju + 1) return true;
-  if (lt >= (gu > 0 ? ju + 2 : ju + 1)) return false;
-  return x2 <= exact(c, 1 - a2);
 }
 
 // src/engine/select.ts
@@ -50982,9 +51414,7 @@ function validate3(o) {
   whole(o.backtest.horizon, 1, "backtest.horizon");
   whole(o.paths, 1, "paths");
   if (o.methods.length === 0) throw new RangeError("methods must list at least one method");
-  if (o.levels.length === 0) throw new RangeError("levels must list at least one level");
-  for (const l of o.levels)
-    if (!(l > 0 && l < 100)) throw new RangeError(`each level must be between 0 and 100; got ${l}`);
+  checkLevels(o.levels);
 }
 function analyse(y2, o) {
   validate3(o);
@@ -51054,8 +51484,7 @@ function checkedIndices(values, rows, last, newFromLine) {
   return out;
 }
 function sideAlpha(level, direction2) {
-  const alpha = 1 - level / 100;
-  return direction2 === "both" ? alpha : alpha / 2;
+  return direction2 === "both" ? levelOutside(level) : levelTail(level);
 }
 function checkObservations(c) {
   const notes2 = [];
@@ -51076,13 +51505,11 @@ function checkObservations(c) {
   let mb;
   if (mayBeEmpirical) {
     const full = c.analysis.backtest;
-    mb = runBacktest(prefix, [fit.method], {
+    mb = prefixBacktest(c.values, origin, full.methods[fit.method], {
       season: c.season,
       minTrain: full.minTrain,
-      horizon: full.horizon,
-      levels: [c.options.alarmLevel],
-      coverage: []
-    }).methods[fit.method];
+      horizon: full.horizon
+    });
   }
   let kind = auto ? c.analysis.forecast.kind : c.options.intervals;
   if (auto) {
@@ -51103,7 +51530,7 @@ function checkObservations(c) {
     checks
   });
   for (const n of fc.notes) if (!notes2.includes(n)) notes2.push(n);
-  const band = fc.bands.find((b) => b.level === c.options.alarmLevel) ?? fc.bands[0];
+  const band = bandAt(fc.bands, c.options.alarmLevel);
   const checked = c.indices.map((index) => {
     const step = index - origin + 1;
     const value2 = c.values[index];
@@ -51160,12 +51587,12 @@ function assessLimit(c) {
   const side = c.limit.above !== null ? "above" : "below";
   const value2 = side === "above" ? c.limit.above : c.limit.below;
   const beyond = (x2) => side === "above" ? x2 >= value2 : x2 <= value2;
-  const within3 = Math.max(1, Math.min(c.within, c.forecast.horizon));
+  const within2 = Math.max(1, Math.min(c.within, c.forecast.horizon));
   const alreadyCrossed = beyond(c.lastValue);
   let pointCrossing = null;
   let boundCrossing = null;
   const prob = side === "above" ? 1 - c.limit.risk : c.limit.risk;
-  for (let h = 1; h <= within3; h++) {
+  for (let h = 1; h <= within2; h++) {
     if (!pointCrossing && beyond(c.forecast.mean[h - 1])) pointCrossing = { step: h, time: c.timeAtStep(h) };
     if (!boundCrossing && beyond(quantileAt(c.forecast, h, prob)))
       boundCrossing = { step: h, time: c.timeAtStep(h) };
@@ -51175,13 +51602,13 @@ function assessLimit(c) {
   let simulated = 0;
   if (!alreadyCrossed) {
     const mode = c.forecast.kind === "analytic" ? "gaussian" : "bootstrap";
-    const paths2 = c.forecast.paths && c.forecast.horizon >= within3 && mode === "bootstrap" ? c.forecast.paths : simulatePaths(c.fit, within3, c.paths, c.seed, mode);
-    const width = paths2 === c.forecast.paths ? c.forecast.horizon : within3;
+    const paths2 = c.forecast.paths && c.forecast.horizon >= within2 && mode === "bootstrap" ? c.forecast.paths : simulatePaths(c.fit, within2, c.paths, c.seed, mode);
+    const width = paths2 === c.forecast.paths ? c.forecast.horizon : within2;
     const nPaths = Math.floor(paths2.length / width);
     let hits = 0;
     for (let p = 0; p < nPaths; p++) {
       const base = p * width;
-      for (let h = 0; h < within3; h++) {
+      for (let h = 0; h < within2; h++) {
         if (beyond(paths2[base + h])) {
           hits++;
           break;
@@ -51194,7 +51621,7 @@ function assessLimit(c) {
   return {
     side,
     value: value2,
-    within: within3,
+    within: within2,
     withinLabel: c.limit.withinLabel,
     risk: c.limit.risk,
     pointCrossing,
@@ -51208,6 +51635,26 @@ function assessLimit(c) {
 
 // src/alarms/scope.ts
 function checkScope(s2, last, newRows) {
+  const scope = rowsToCheck(s2, last, newRows);
+  const known = new Set((s2.incidents ?? []).map((x2) => x2.index));
+  const kept = scope.indices.filter((i) => !known.has(i));
+  const left = scope.indices.length - kept.length;
+  if (left === 0) return scope;
+  return {
+    indices: kept,
+    notes: [
+      ...scope.notes,
+      `${plural(left, "row that would be checked is a known incident: it is", "rows that would be checked are known incidents: they are")} not judged, never an alarm.`
+    ]
+  };
+}
+function withoutIncidents(s2) {
+  if (!s2.incidents || s2.incidents.length === 0) return s2.values;
+  const y2 = Float64Array.from(s2.values);
+  for (const x2 of s2.incidents) y2[x2.index] = NaN;
+  return y2;
+}
+function rowsToCheck(s2, last, newRows) {
   if (!newRows) return { indices: checkedIndices(s2.values, s2.rows, last), notes: [] };
   const newFrom = newRows[s2.file];
   if (newFrom === void 0)
@@ -51220,11 +51667,11 @@ function checkScope(s2, last, newRows) {
 }
 function limitWindow(limit2, s2) {
   if (!limit2) return { within: null, note: null };
-  const within3 = durationToSteps(limit2.within, s2.spacing, s2.stepMs);
-  return within3 === null ? {
-    within: within3,
+  const within2 = durationToSteps(limit2.within, s2.spacing, s2.stepMs);
+  return within2 === null ? {
+    within: within2,
     note: `The limit window "${limit2.withinLabel}" is a duration but the series is in row order; give it in steps.`
-  } : { within: within3, note: null };
+  } : { within: within2, note: null };
 }
 function settleRunAlarms(series, control) {
   const every = series.flatMap((r) => {
@@ -51279,9 +51726,9 @@ function inferSpacing(distinct) {
     [HOUR, "hour"],
     [MINUTE2, "minute"]
   ];
-  for (const [u, name] of units2) {
-    const k2 = Math.round(d / u);
-    if (k2 >= 1 && Math.abs(d - k2 * u) <= 0.02 * k2 * u) return { spacing: name, stepMs: k2 * u, months: null };
+  for (const [u2, name] of units2) {
+    const k2 = Math.round(d / u2);
+    if (k2 >= 1 && Math.abs(d - k2 * u2) <= 0.02 * k2 * u2) return { spacing: name, stepMs: k2 * u2, months: null };
   }
   return {
     spacing: "minute",
@@ -51330,10 +51777,10 @@ function describeMs(ms) {
     [MINUTE2, "minute"],
     [SECOND, "second"]
   ];
-  for (const [u, name] of pick2) {
-    if (a2 >= u) {
-      const v = Math.round(a2 / u * 10) / 10;
-      return `${v} ${name}${v === 1 ? "" : "s"}`;
+  for (const [u2, name] of pick2) {
+    if (a2 >= u2) {
+      const v = Math.round(a2 / u2 * 10) / 10;
+      return plural(v, name);
     }
   }
   return `${a2} ms`;
@@ -51341,8 +51788,8 @@ function describeMs(ms) {
 function describeStep(spec) {
   if (spec.months !== null) return spec.spacing;
   const unit2 = { week: WEEK, day: DAY2, hour: HOUR, minute: MINUTE2 };
-  const u = unit2[spec.spacing];
-  const k2 = spec.stepMs / u;
+  const u2 = unit2[spec.spacing];
+  const k2 = spec.stepMs / u2;
   return Number.isInteger(k2) && k2 !== 1 ? `${k2} ${spec.spacing}s` : k2 === 1 ? spec.spacing : describeMs(spec.stepMs);
 }
 
@@ -51375,6 +51822,10 @@ function runVerdict(series) {
   return "ok";
 }
 var PLAIN = { grouping: false };
+function tooShortForChecks(r) {
+  const n = r.residualChecks?.residuals;
+  return n !== void 0 && n < MIN_CHECK_RESIDUALS;
+}
 function seriesVerdict(r) {
   const alarms = r.checked.filter((c) => c.alarm);
   const parts = [];
@@ -51383,22 +51834,30 @@ function seriesVerdict(r) {
     const bound = first.side === "below" ? first.lower : first.upper;
     const [value2, shownBound] = numsApart([first.value, bound], 6, PLAIN);
     parts.push(
-      `${alarms.length} of ${plural(r.checked.length, "checked observation")} outside the ${first.level}% interval (${value2} ${first.side} ${shownBound}${first.row ? `, line ${first.row}` : ""})`
+      `${alarms.length} of ${plural(r.checked.length, "checked observation")} outside the ${levelLabel(first.level)} interval (${withUnit(value2, r.unit)} ${first.side} ${withUnit(shownBound, r.unit)}${first.row !== null || first.label ? `, ${rowRef(first)}` : ""})`
     );
   }
   if (r.limit?.atRisk) {
     parts.push(
-      r.limit.alreadyCrossed ? `already ${r.limit.side} the limit ${num(r.limit.value, 6, PLAIN)}` : `${pct(r.limit.probability)} chance of crossing ${num(r.limit.value, 6, PLAIN)} within ${r.limit.withinLabel} (risk allowed ${pct(r.limit.risk)})`
+      r.limit.alreadyCrossed ? `already ${r.limit.side} the limit ${withUnit(num(r.limit.value, 6, PLAIN), r.unit)}` : `${chance(r.limit.probability, r.limit.paths)} chance of crossing ${withUnit(num(r.limit.value, 6, PLAIN), r.unit)} within ${windowWords(r.limit.withinLabel, r.limit.within, STEP_UNIT[r.spacing])} (risk allowed ${pct(r.limit.risk)})`
     );
   }
   const verdict = alarms.length > 0 ? "alarm" : r.limit?.atRisk ? "at-risk" : "ok";
   if (parts.length > 0) return { verdict, reason: parts.join("; ") };
+  if (tooShortForChecks(r)) {
+    const c = r.residualChecks;
+    const history = c.basis === "before-checked" ? "the history before the checked rows" : "the history";
+    return {
+      verdict: "too-short",
+      reason: `Too short to judge: the residual checks need at least ${plural(MIN_CHECK_RESIDUALS, "residual")} and ${history} gives ${c.residuals}.`
+    };
+  }
   if (r.checked.length > 0) {
     const outside = r.checked.filter((c) => c.outside).length;
     const inside2 = r.checked.length - outside;
     const said = [];
     if (inside2 > 0)
-      said.push(`${plural(inside2, "checked observation")} within the ${r.alarmLevel}% interval`);
+      said.push(`${plural(inside2, "checked observation")} within the ${levelLabel(r.alarmLevel)} interval`);
     if (outside > 0)
       said.push(
         `${outside} outside it on ${r.direction === "both" ? "a side, but not an alarm after the false-alarm adjustment" : `the side that is not watched (watching ${r.direction})`}`
@@ -51481,19 +51940,40 @@ function seriesName(m, column, key) {
 }
 function baseFindings(s2, m, season2, notes2, cap) {
   const observations = countObserved(s2.values);
+  const incidents = incidentRows(s2);
+  if (incidents.length > 0)
+    notes2.push(
+      `${plural(incidents.length, "row is a known incident: it is", "rows are known incidents: they are")} left out of fitting, backtests and residual checks (as missing values), drawn and listed, and never an alarm.`
+    );
   return blankFindings(m, {
     name: s2.name,
     file: s2.file,
     column: s2.column,
     key: s2.key,
+    ...m.unit !== null ? { unit: m.unit } : {},
     observations,
     missing: s2.values.length - observations,
     spacing: s2.spacing,
     season: season2.season,
     seasonSource: season2.source,
     history: historyFrom(s2, Math.max(0, s2.values.length - cap)),
+    ...incidents.length > 0 ? { incidents } : {},
     notes: notes2
   });
+}
+function incidentRows(s2) {
+  return (s2.incidents ?? []).map(({ index, reason }) => ({
+    index,
+    row: s2.rows[index] > 0 ? s2.rows[index] : null,
+    time: timeAtIndex(s2, index),
+    value: s2.values[index],
+    ...labelAt(s2, index),
+    reason
+  }));
+}
+function labelAt(s2, index) {
+  const label = s2.labels?.[index];
+  return label ? { label } : {};
 }
 function failedDraft(f2) {
   const m = f2.metric;
@@ -51503,6 +51983,7 @@ function failedDraft(f2) {
       file: m.file,
       column: f2.column ?? m.values.join(", "),
       key: f2.key,
+      ...m.unit !== null ? { unit: m.unit } : {},
       season: m.season === "auto" ? 1 : m.season,
       seasonSource: m.season === "auto" ? "auto" : "config"
     }),
@@ -51523,13 +52004,14 @@ function problemOf(f2) {
   };
 }
 function blankFindings(m, fields) {
-  const { name, file, column, key, season: season2, seasonSource, ...rest } = fields;
+  const { name, file, column, key, unit: unit2, season: season2, seasonSource, incidents, ...rest } = fields;
   return {
     name,
     metric: m.name,
     file,
     column,
     key,
+    ...unit2 !== void 0 ? { unit: unit2 } : {},
     observations: 0,
     missing: 0,
     spacing: "row",
@@ -51546,6 +52028,7 @@ function blankFindings(m, fields) {
     residualChecks: null,
     backtest: null,
     checked: [],
+    ...incidents !== void 0 ? { incidents } : {},
     limit: null,
     history: [],
     residuals: [],
@@ -51566,7 +52049,7 @@ function analysedFindings(base, s2, a2, found) {
     forecast: forecastPoints(a2, s2, found.horizon),
     residualChecks: summariseChecks(judge?.checks ?? a2.checks, judge ? "before-checked" : "all", fit.n),
     backtest: summariseBacktest(a2, found.full),
-    checked: found.checked,
+    checked: found.checked.map((c) => ({ ...c, ...labelAt(s2, c.index) })),
     limit: found.limit,
     ...chartData(s2, a2, found.checked[0]?.index, notes2, found.cap),
     notes: notes2
@@ -51646,28 +52129,40 @@ function chartData(s2, a2, firstChecked, notes2, cap) {
 }
 function historyFrom(s2, start2) {
   const history = [];
+  const known = new Set((s2.incidents ?? []).map((x2) => x2.index));
   for (let i = start2; i < s2.values.length; i++) {
     const v = s2.values[i];
     history.push({
       index: i,
       row: s2.rows[i] > 0 ? s2.rows[i] : null,
       time: timeAtIndex(s2, i),
-      value: Number.isNaN(v) ? null : v
+      value: Number.isNaN(v) ? null : v,
+      ...labelAt(s2, i),
+      ...known.has(i) ? { incident: true } : {}
     });
   }
   return history;
+}
+function compactDraft(d) {
+  const f2 = d.findings;
+  const again = (r) => levelRecord(Object.keys(r).map(Number), (l) => r[levelKey(l)]);
+  for (const p of f2.forecast) {
+    p.lower = again(p.lower);
+    p.upper = again(p.upper);
+  }
+  for (const mb of Object.values(f2.backtest?.methods ?? {}))
+    for (const kind of Object.keys(mb.coverage))
+      mb.coverage[kind] = again(mb.coverage[kind]);
+  return d;
 }
 function forecastPoints(a2, s2, horizon2) {
   const out = [];
   const fc = a2.forecast;
   for (let h = 1; h <= Math.min(horizon2, fc.horizon); h++) {
     const se = fc.se[h - 1];
-    const lower = {};
-    const upper = {};
-    for (const b of fc.bands) {
-      lower[String(b.level)] = toScale(b.lower[h - 1], se);
-      upper[String(b.level)] = toScale(b.upper[h - 1], se);
-    }
+    const levels2 = fc.bands.map((b) => b.level);
+    const lower = levelRecord(levels2, (_, k2) => toScale(fc.bands[k2].lower[h - 1], se));
+    const upper = levelRecord(levels2, (_, k2) => toScale(fc.bands[k2].upper[h - 1], se));
     out.push({ step: h, time: timeAfterLast(s2, h), mean: toScale(fc.mean[h - 1], se), lower, upper });
   }
   return out;
@@ -51696,7 +52191,8 @@ function summariseChecks(c, basis2, observations) {
     family: c.family,
     caveat: c.caveat,
     basis: basis2,
-    observations
+    observations,
+    residuals: c.residuals
   };
 }
 function measures(x2) {
@@ -51715,7 +52211,7 @@ function summariseBacktest(a2, full) {
   for (const [name, mb] of Object.entries(a2.backtest.methods)) {
     const coverage = {};
     for (const [kind, levels2] of Object.entries(mb.coverage))
-      coverage[kind] = Object.fromEntries(Object.entries(levels2).map(([l, v]) => [l, significant(v)]));
+      coverage[kind] = levelRecord(Object.keys(levels2).map(Number), (l) => significant(levels2[levelKey(l)]));
     methods2[name] = {
       ...measures(mb),
       steps: full ? mb.steps.map((st) => ({ step: st.step, ...measures(st) })) : [],
@@ -51802,7 +52298,9 @@ var residualChecks = strictObject({
    */
   basis: _enum(["before-checked", "all"]).optional(),
   /** Length of the history (rows, missing ones included) that model was fitted to. */
-  observations: count.optional()
+  observations: count.optional(),
+  /** Residuals the checks were computed on; below the engine's minimum (10) no check is computed. */
+  residuals: count.optional()
 });
 var measures2 = {
   origins: count,
@@ -51863,7 +52361,9 @@ var checkedObservation = strictObject({
   /** Standard errors away from the point forecast (signed). */
   z: real,
   /** Outside on the side that matters, after adjustment. */
-  alarm: boolean2()
+  alarm: boolean2(),
+  /** The row's label (the metric's `label` column, e.g. a commit SHA), when it has one. */
+  label: text(200).optional()
 });
 var crossing = strictObject({ step: int2, time: time2 }).nullable();
 var limitResult = strictObject({
@@ -51888,15 +52388,42 @@ var historyPoint = strictObject({
   index: count,
   row: count.nullable(),
   time: time2,
-  value: number2().nullable()
+  value: number2().nullable(),
+  /** The row's label (the metric's `label` column), when it has one. */
+  label: text(200).optional(),
+  /** A known incident: drawn, but left out of fitting, backtests and residual checks, never an alarm. */
+  incident: literal(true).optional()
 });
-var seriesResultSchema = strictObject({
+var incidentRow = strictObject({
+  index: count,
+  row: count.nullable(),
+  time: time2,
+  value: real,
+  label: text(200).optional(),
+  reason: text()
+});
+var historyColumns = strictObject({
+  from: count,
+  values: array(number2().nullable()).max(MAX_POINTS),
+  rows: array(count.nullable()).max(MAX_POINTS).optional(),
+  rowOffset: int2.optional(),
+  times: array(time2).max(MAX_POINTS).optional(),
+  start: text(64).optional(),
+  stepMs: number2().positive().optional(),
+  /** Each point's label, when any has one (null for none). */
+  labels: array(text(200).nullable()).max(MAX_POINTS).optional(),
+  /** Indices of the points that are known incidents. */
+  incidentAt: array(count).max(MAX_POINTS).optional()
+}).meta({ description: "The history points in columns; `history` is empty when this is present." });
+var seriesFields = strictObject({
   /** Display name: metric name, plus column and key where a metric yields several series. */
   name: text(),
   metric: text(),
   file: text(),
   column: text(),
   key: text().nullable(),
+  /** Unit of the values (the metric's `unit`), when configured. */
+  unit: text(24).optional(),
   observations: count,
   missing: count,
   spacing: spacingSchema,
@@ -51918,11 +52445,17 @@ var seriesResultSchema = strictObject({
   residualChecks: residualChecks.nullable(),
   backtest: backtestSummary.nullable(),
   checked: array(checkedObservation).max(MAX_POINTS),
+  /**
+   * Known incidents: rows left out of fitting, backtests and residual checks (passed to the engine as
+   * missing values) and never judged, listed with their reason.
+   */
+  incidents: array(incidentRow).max(MAX_POINTS).optional(),
   limit: limitResult.nullable(),
   /** The last observations (capped; see notes) for charts. */
   history: array(historyPoint).max(MAX_POINTS),
   /** Residuals of the chosen method aligned with `history` (null where undefined). */
   residuals: array(number2().nullable()).max(MAX_POINTS),
+  historyColumns: historyColumns.optional(),
   verdict: verdictSchema,
   /** One line saying why the verdict is what it is. */
   reason: text(),
@@ -51936,6 +52469,77 @@ var seriesResultSchema = strictObject({
    */
   judged: boolean2().optional()
 });
+var seriesResultSchema = seriesFields.transform((s2, ctx) => {
+  const { historyColumns: cols, ...rest } = s2;
+  if (!cols) return rest;
+  const history = historyFromColumns(cols);
+  if (typeof history === "string" || rest.history.length > 0) {
+    ctx.addIssue({
+      code: "custom",
+      path: ["historyColumns"],
+      message: typeof history === "string" ? history : "history and historyColumns cannot both hold points"
+    });
+    return NEVER;
+  }
+  return { ...rest, history };
+});
+function historyFromColumns(c) {
+  const n = c.values.length;
+  if (c.rows && c.rows.length !== n) return "rows must have one entry per value";
+  if (c.times && c.times.length !== n) return "times must have one entry per value";
+  if (c.labels && c.labels.length !== n) return "labels must have one entry per value";
+  const incidents = new Set(c.incidentAt);
+  for (const i of incidents)
+    if (i < c.from || i >= c.from + n) return "incidentAt must name points of the history";
+  const t03 = c.start === void 0 ? NaN : Date.parse(c.start);
+  if (c.start !== void 0 && !(Number.isFinite(t03) && new Date(t03).toISOString() === c.start))
+    return "start must be an ISO 8601 UTC time as Leadline writes it";
+  const step = c.stepMs ?? 0;
+  const out = [];
+  for (let k2 = 0; k2 < n; k2++) {
+    const index = c.from + k2;
+    const row = c.rows ? c.rows[k2] : c.rowOffset !== void 0 ? index + c.rowOffset : null;
+    const time3 = c.times ? c.times[k2] : c.start !== void 0 ? new Date(t03 + k2 * step).toISOString() : null;
+    const label = c.labels?.[k2];
+    out.push({
+      index,
+      row,
+      time: time3,
+      value: c.values[k2],
+      ...label != null ? { label } : {},
+      ...incidents.has(index) ? { incident: true } : {}
+    });
+  }
+  return out;
+}
+function seriesForFile(s2) {
+  const h = s2.history;
+  if (h.length === 0 || !h.every((p, k2) => p.index === h[0].index + k2)) return s2;
+  const out = {};
+  for (const [k2, v] of Object.entries(s2)) {
+    out[k2] = k2 === "history" ? [] : v;
+    if (k2 === "residuals") out.historyColumns = historyToColumns(s2.history);
+  }
+  return out;
+}
+function historyToColumns(h) {
+  const from = h[0].index;
+  const cols = { from, values: h.map((p) => p.value) };
+  const offset = h[0].row === null ? null : h[0].row - from;
+  if (offset !== null && h.every((p) => p.row === p.index + offset)) cols.rowOffset = offset;
+  else cols.rows = h.map((p) => p.row);
+  if (h.some((p) => p.label !== void 0)) cols.labels = h.map((p) => p.label ?? null);
+  if (h.some((p) => p.incident)) cols.incidentAt = h.filter((p) => p.incident).map((p) => p.index);
+  if (h.every((p) => p.time === null)) return cols;
+  const t03 = h[0].time === null ? NaN : Date.parse(h[0].time);
+  const step = h.length > 1 && h[1].time !== null ? Date.parse(h[1].time) - t03 : NaN;
+  const regular = step > 0 && new Date(t03).toISOString() === h[0].time && h.every((p, k2) => p.time === new Date(t03 + k2 * step).toISOString());
+  if (regular) {
+    cols.start = h[0].time;
+    cols.stepMs = step;
+  } else cols.times = h.map((p) => p.time);
+  return cols;
+}
 var problemSchema = strictObject({
   kind: _enum(["config", "data", "internal"]),
   message: text(),
@@ -52283,7 +52887,7 @@ function checkHeads(files, heads, expect) {
   if (missing.length > 0)
     throw new LeadlineError(
       "data",
-      `shard${missing.length === 1 ? "" : "s"} ${missing.slice(0, 10).join(", ")}${missing.length > 10 ? ", \u2026" : ""} ${missing.length === 1 ? "is" : "are"} missing: ${files.length} file${files.length === 1 ? "" : "s"} given for a run split into ${count2}. Give every shard's results file.`
+      `${agree(missing.length, "shard")} ${missing.slice(0, 10).join(", ")}${missing.length > 10 ? ", \u2026" : ""} ${agree(missing.length, "is", "are")} missing: ${plural(files.length, "file")} given for a run split into ${count2}. Give every shard's results file.`
     );
 }
 async function mergeResults(files, o) {
@@ -52561,7 +53165,7 @@ function resultsJsonHead(head) {
   return start2.slice(0, start2.length - 2) + ',\n  "series": [';
 }
 function resultsJsonSeries(s2, i) {
-  return (i === 0 ? "\n    " : ",\n    ") + JSON.stringify(s2);
+  return (i === 0 ? "\n    " : ",\n    ") + JSON.stringify(seriesForFile(s2));
 }
 function resultsJsonEnd(count2) {
   return count2 > 0 ? "\n  ]\n}\n" : "]\n}\n";
@@ -54691,7 +55295,7 @@ async function readTable(abs, file, wanted) {
       const comma = table2.delimiter === "," ? decimalComma(record2) : null;
       throw new LeadlineError(
         "data",
-        comma ? `This row has ${record2.length} fields but the header has ${width}: "${comma}" looks like a number with a decimal comma. Write it with a point (${comma.replace(",", ".")}), or quote it ("${comma}"), or use ";" as the delimiter.` : `This row has ${record2.length} field${record2.length === 1 ? "" : "s"} but the header has ${width}; a value containing the delimiter ${JSON.stringify(table2.delimiter)} must be quoted.`,
+        comma ? `This row has ${record2.length} fields but the header has ${width}: "${comma}" looks like a number with a decimal comma. Write it with a point (${comma.replace(",", ".")}), or quote it ("${comma}"), or use ";" as the delimiter.` : `This row has ${plural(record2.length, "field")} but the header has ${width}; a value containing the delimiter ${JSON.stringify(table2.delimiter)} must be quoted.`,
         { file, line: startLine }
       );
     }
@@ -54739,7 +55343,7 @@ async function readTable(abs, file, wanted) {
           });
           table2.times.set(i, col);
         }
-        if (roles.key) {
+        if (roles.key || roles.text) {
           const col = { ids: new Int32Array(0), names: [] };
           keyCols.push({ index: i, ids: new Grow((n) => new Int32Array(n)), lookup: /* @__PURE__ */ new Map(), col });
           table2.keys.set(i, col);
@@ -54909,12 +55513,14 @@ async function ingest(plan, cwd) {
       const roles = wanted.get(f2) ?? /* @__PURE__ */ new Map();
       wanted.set(f2, roles);
       const add = (name, role) => {
-        const r = roles.get(name) ?? { value: false, time: false, key: false };
+        const r = roles.get(name) ?? { value: false, time: false, key: false, text: false };
         r[role] = true;
         roles.set(name, r);
       };
       if (metric.time !== null) add(metric.time, "time");
       if (metric.key !== null) add(metric.key, "key");
+      if (metric.label !== null) add(metric.label, "text");
+      if (metric.incidentColumn !== null) add(metric.incidentColumn, "text");
       for (const v of metric.values) add(v, "value");
     }
   }
@@ -54938,7 +55544,7 @@ async function ingest(plan, cwd) {
   return { series, failures, filesRead: tables.size, parseMs: performance2.now() - started };
 }
 var insufficient = /* @__PURE__ */ new WeakSet();
-function tooFew(message, file) {
+function tooFew2(message, file) {
   const e = new LeadlineError("data", message, { file });
   insufficient.add(e);
   return e;
@@ -55135,15 +55741,19 @@ function buildMetric2(m, t, multi, series, failures, configPath) {
     return header.indexOf(name);
   };
   let timeIndex = -1;
+  const textIndex = { label: -1, incident: -1 };
   for (const [role, name] of [
     ["time", m.time],
-    ["key", m.key]
+    ["key", m.key],
+    ["label", m.label],
+    ["incident", m.incidentColumn]
   ]) {
     if (name === null) continue;
     const i = indexOf(name);
     if (i instanceof LeadlineError) return void fail(i, "error");
     if (i < 0) return void fail(missingColumn(t, role, name), "error");
     if (role === "time") timeIndex = i;
+    if (role === "label" || role === "incident") textIndex[role] = i;
   }
   const valueIndex = /* @__PURE__ */ new Map();
   for (const v of m.values) {
@@ -55186,7 +55796,7 @@ function buildMetric2(m, t, multi, series, failures, configPath) {
       const s2 = buildSeries(t, m, layout, column, ci, g.key, multi);
       if (s2 instanceof LeadlineError) {
         fail(s2, verdictOf(s2), column, g.key);
-      } else series.push(s2);
+      } else series.push(markRows(t, m, layout, s2, textIndex));
     }
   }
 }
@@ -55216,21 +55826,21 @@ function layoutTimed(t, m, rows, key, times, timeIndex) {
   if (outOfOrder > 0) {
     order.sort((a2, b) => ms[a2] - ms[b] || a2 - b);
     notes2.push(
-      `${outOfOrder} row${outOfOrder === 1 ? " was" : "s were"} out of time order in the file; the series is sorted by time.`
+      `${plural(outOfOrder, "row was", "rows were")} out of time order in the file; the series is sorted by time.`
     );
   }
   const distinct = [];
   for (const r of order)
     if (distinct.length === 0 || ms[r] !== distinct[distinct.length - 1]) distinct.push(ms[r]);
   if (order.length < MIN_OBSERVATIONS) {
-    return tooFew(
-      `Only ${order.length} row${order.length === 1 ? "" : "s"}${key !== null ? ` for key "${displayName(key)}"` : ""}; at least ${MIN_OBSERVATIONS} observations are needed.`,
+    return tooFew2(
+      `Only ${plural(order.length, "row")}${key !== null ? ` for key "${displayName(key)}"` : ""}; at least ${MIN_OBSERVATIONS} observations are needed.`,
       t.file
     );
   }
   if (distinct.length < 2) {
     if (m.duplicates === "error") return duplicateError(t, order[0], order[1], timeIndex, true, null);
-    return tooFew(
+    return tooFew2(
       `All ${order.length} rows${key !== null ? ` for key "${displayName(key)}"` : ""} have the same time, which leaves 1 observation; at least ${MIN_OBSERVATIONS} are needed.`,
       t.file
     );
@@ -55272,18 +55882,18 @@ function layoutTimed(t, m, rows, key, times, timeIndex) {
   if (merged > 0) {
     const how = m.duplicates === "mean" ? "their values averaged" : `the ${m.duplicates} row kept`;
     notes2.push(
-      `${merged} row${merged === 1 ? "" : "s"} fell on a time already taken; ${how} (duplicates: ${m.duplicates}).`
+      `${plural(merged, "row")} fell on a time already taken; ${how} (duplicates: ${m.duplicates}).`
     );
   }
   if (moved > 0) {
     notes2.push(
-      `${moved} time${moved === 1 ? " was" : "s were"} off the ${describeStep(spec)} grid and moved to the nearest grid point (at most ${describeMs(maxOffset)}).`
+      `${plural(moved, "time was", "times were")} off the ${describeStep(spec)} grid and moved to the nearest grid point (at most ${describeMs(maxOffset)}).`
     );
   }
   if (n > slots.length) {
     const gaps = n - slots.length;
     notes2.push(
-      `${gaps} missing ${describeStep(spec)}${gaps === 1 ? "" : "s"} in the time grid ${gaps === 1 ? "is" : "are"} treated as missing values.`
+      `${plural(gaps, `missing ${describeStep(spec)}`)} in the time grid ${agree(gaps, "is", "are")} treated as missing values.`
     );
   }
   const grid = new Float64Array(n);
@@ -55364,14 +55974,14 @@ function buildSeries(t, m, layout, column, ci, key, multi) {
   let observed = 0;
   for (let i = 0; i < values.length; i++) if (!Number.isNaN(values[i])) observed++;
   if (observed < MIN_OBSERVATIONS) {
-    return tooFew(
-      `Only ${observed} observation${observed === 1 ? "" : "s"} in column "${visible(column)}"${key !== null ? ` for key "${displayName(key)}"` : ""}; at least ${MIN_OBSERVATIONS} are needed.`,
+    return tooFew2(
+      `Only ${plural(observed, "observation")} in column "${visible(column)}"${key !== null ? ` for key "${displayName(key)}"` : ""}; at least ${MIN_OBSERVATIONS} are needed.`,
       t.file
     );
   }
   const notes2 = [...layout.notes];
   if (blanks2 > 0)
-    notes2.push(`${blanks2} blank cell${blanks2 === 1 ? " was" : "s were"} read as missing (blanks: missing).`);
+    notes2.push(`${plural(blanks2, "blank cell was", "blank cells were")} read as missing (blanks: missing).`);
   return {
     name: seriesName2(m, column, key, t.file, multi),
     metric: m.name,
@@ -55385,6 +55995,44 @@ function buildSeries(t, m, layout, column, ci, key, multi) {
     stepMs: layout.spec?.stepMs ?? null,
     notes: notes2
   };
+}
+function markRows(t, m, layout, s2, textIndex) {
+  const text2 = (col, r) => {
+    const c = t.keys.get(col);
+    return c.names[c.ids[r]];
+  };
+  let labels = null;
+  if (textIndex.label >= 0) {
+    labels = new Array(layout.n).fill("");
+    for (const slot of layout.slots) {
+      const row = slot.rows.find((r) => t.lines[r] === s2.rows[slot.index]) ?? slot.rows.at(-1);
+      labels[slot.index] = text2(textIndex.label, row);
+    }
+  }
+  const reasons = /* @__PURE__ */ new Map();
+  if (textIndex.incident >= 0)
+    for (const slot of layout.slots) {
+      const marked = slot.rows.find((r) => text2(textIndex.incident, r) !== "");
+      if (marked !== void 0 && !Number.isNaN(s2.values[slot.index]))
+        reasons.set(slot.index, text2(textIndex.incident, marked));
+    }
+  const notes2 = [...s2.notes];
+  if (layout.times)
+    for (const range2 of m.incidents) {
+      let matched = 0;
+      for (let i = 0; i < layout.n; i++) {
+        const ms = layout.times[i];
+        if (ms < range2.from || ms > range2.to || Number.isNaN(s2.values[i])) continue;
+        matched++;
+        if (!reasons.has(i)) reasons.set(i, range2.reason);
+      }
+      if (matched === 0)
+        notes2.push(
+          `The known incident ${range2.written} (${range2.keyPath}) matches no row of this series; check its times.`
+        );
+    }
+  const incidents = [...reasons.entries()].sort((a2, b) => a2[0] - b[0]).map(([index, reason]) => ({ index, reason }));
+  return { ...s2, notes: notes2, labels, incidents };
 }
 
 // src/job.ts
@@ -55432,7 +56080,7 @@ async function analyseFleet(plan, outcome, o) {
   const jobs = Math.min(o.jobs ?? defaultJobs(), Math.floor(todo.length / SERIES_PER_WORKER));
   const analysed = [];
   await runPool(analyseTask, todo, { jobs, init: analyseInit(plan, o) }, (r, i) => {
-    analysed.push(r);
+    analysed.push(jobs > 1 ? compactDraft(r) : r);
     o.onProgress?.(i + 1, todo.length);
   });
   return analysed;
@@ -55494,7 +56142,8 @@ function analyseSeries(s2, m, o) {
     };
   const window2 = limitWindow(m.limit, s2);
   if (window2.note) notes2.push(window2.note);
-  const a2 = analyse(s2.values, {
+  const y2 = withoutIncidents(s2);
+  const a2 = analyse(y2, {
     season: season2.season,
     methods: methods2,
     horizon: Math.max(m.horizon, window2.within ?? 0),
@@ -55514,7 +56163,7 @@ function analyseSeries(s2, m, o) {
   const scope = checkScope(s2, m.check.last, o.newRows);
   notes2.push(...scope.notes);
   const check2 = checkObservations({
-    values: s2.values,
+    values: y2,
     rows: s2.rows,
     timeAt: (i) => timeAtIndex(s2, i),
     analysis: a2,
@@ -55526,7 +56175,7 @@ function analyseSeries(s2, m, o) {
   const limit2 = m.limit && window2.within !== null ? assessLimit({
     fit: a2.chosen,
     forecast: a2.forecast,
-    lastValue: lastObserved(s2.values),
+    lastValue: lastObserved(y2),
     limit: m.limit,
     within: window2.within,
     paths: m.paths,
@@ -55579,16 +56228,6 @@ var METHOD_LABEL = {
   "seasonal-naive": "seasonal naive",
   drift: "drift"
 };
-var STEP_UNIT = {
-  minute: "minute",
-  hour: "hour",
-  day: "day",
-  week: "week",
-  month: "month",
-  quarter: "quarter",
-  year: "year",
-  row: "step"
-};
 var SPACING_WORD = {
   minute: "every minute",
   hour: "hourly",
@@ -55608,13 +56247,13 @@ function reportName(text2) {
 var import_handlebars = __toESM(require_lib(), 1);
 
 // src/report/templates/brief.hbs
-var brief_default = "## {{verdict.icon}} Leadline: {{verdict.label}}\n\n**{{headline}}** {{gate}}\n{{#if scope}}\n\n{{scope}}\n{{/if}}\n{{#each runNotes}}\n\n> {{this}}\n{{/each}}\n{{#if problems.length}}\n\n### Problems\n\n| Where | What went wrong |\n|---|---|\n{{#each problems}}\n| {{where}} | {{message}} |\n{{/each}}\n{{/if}}\n{{#if attention.length}}\n\n### Needs attention\n\n| | Metric | Why | Recent | Latest | Judged against |\n|---|---|---|---|---|---|\n{{#each attention}}\n| {{verdict.icon}} | {{name}} | {{why}} | {{spark}} | {{latest}} | {{expected}} |\n{{/each}}\n{{#if attentionNote}}\n\n{{attentionNote}}\n{{/if}}\n{{#each charts}}\n\n**{{name}}**. {{legend}}\n\n```mermaid\n{{source}}\n```\n{{/each}}\n{{else}}\n\nNothing needs attention.\n{{/if}}\n{{#if others}}\n\n{{others}}\n{{/if}}\n{{#if elsewhere}}\n\n{{elsewhere}}\n{{/if}}\n{{#if caveats}}\n\n{{caveats}}\n{{/if}}\n\n{{falseAlarms}} {{caution}}\n{{#if omitted}}\n\n> \u2702\uFE0F {{omitted}}\n{{else}}\n\n{{fullReport}}\n{{/if}}\n\n<sub>{{generated}}</sub>\n";
+var brief_default = "## {{verdict.icon}} Leadline: {{verdict.label}}\n\n**{{headline}}** {{gate}}\n{{#if scope}}\n\n{{scope}}\n{{/if}}\n{{#each runNotes}}\n\n> {{this}}\n{{/each}}\n{{#if problems.length}}\n\n### Problems\n\n| Where | What went wrong |\n|---|---|\n{{#each problems}}\n| {{where}} | {{message}} |\n{{/each}}\n{{/if}}\n{{#if attention.length}}\n\n### Needs attention\n\n| | Metric | Why | Recent | Latest | Judged against |\n|---|---|---|---|---|---|\n{{#each attention}}\n| {{verdict.icon}} | {{name}} | {{why}} | {{spark}} | {{latest}} | {{expected}} |\n{{/each}}\n{{#if attentionNote}}\n\n{{attentionNote}}\n{{/if}}\n{{#each charts}}\n\n**{{name}}**. {{legend}}\n\n```mermaid\n{{source}}\n```\n{{/each}}\n{{else}}\n\nNothing needs attention.\n{{/if}}\n{{#if others}}\n\n{{others}}\n{{/if}}\n{{#if elsewhere}}\n\n{{elsewhere}}\n{{/if}}\n{{#if caveats}}\n\n{{caveats}}\n{{/if}}\n{{#if incidents}}\n\n{{incidents}}\n{{/if}}\n\n{{falseAlarms}} {{caution}}\n{{#if omitted}}\n\n> \u2702\uFE0F {{omitted}}\n{{else}}\n\n{{fullReport}}\n{{/if}}\n\n<sub>{{generated}}</sub>\n";
 
 // src/report/templates/report.hbs
-var report_default = "## {{verdict.icon}} Leadline: {{verdict.label}}\n\n**{{headline}}** {{gate}}\n{{#if scope}}\n\n{{scope}}\n{{/if}}\n\n{{counts}}\n\n{{falseAlarms}} {{caution}}\n{{#each runNotes}}\n\n> {{this}}\n{{/each}}\n{{#if problems.length}}\n\n### Problems\n\n| Where | What went wrong |\n|---|---|\n{{#each problems}}\n| {{where}} | {{message}} |\n{{/each}}\n{{/if}}\n\n### Needs attention\n\n{{#if attention.length}}\n| | Metric | Why | Recent | Latest | Judged against | Source |\n|---|---|---|---|---|---|---|\n{{#each attention}}\n| {{verdict.icon}} | {{name}} | {{why}} | {{spark}} | {{latest}} | {{expected}} | {{where}} |\n{{/each}}\n{{#if attentionNote}}\n\n{{attentionNote}}\n{{/if}}\n{{else}}\nNothing needs attention.\n{{/if}}\n{{#if elsewhere}}\n\n{{elsewhere}}\n{{/if}}\n{{#if caveats}}\n\n{{caveats}}\n{{/if}}\n{{#if charts.length}}\n\n### Charts\n{{#each charts}}\n\n**{{name}}**. {{legend}}\n\n```mermaid\n{{source}}\n```\n{{/each}}\n{{/if}}\n{{#if limits.length}}\n\n### Limits\n\n| | Metric | Limit | Window | Chance of crossing | Allowed | Forecast crosses | Bound crosses |\n|---|---|---|---|---|---|---|---|\n{{#each limits}}\n| {{verdict.icon}} | {{name}} | {{limit}} | {{within}} | {{chance}} | {{allowed}} | {{pointCrossing}} | {{boundCrossing}} |\n{{/each}}\n{{#if limitsNote}}\n\n{{limitsNote}}\n{{/if}}\n{{/if}}\n{{#if series.length}}\n\n### Every metric\n{{#each series}}\n{{> series}}\n{{/each}}\n{{/if}}\n{{#if omitted}}\n\n> \u2702\uFE0F {{omitted}}\n{{/if}}\n\n<sub>{{generated}}</sub>\n";
+var report_default = "## {{verdict.icon}} Leadline: {{verdict.label}}\n\n**{{headline}}** {{gate}}\n{{#if scope}}\n\n{{scope}}\n{{/if}}\n\n{{counts}}\n\n{{falseAlarms}} {{caution}}\n{{#each runNotes}}\n\n> {{this}}\n{{/each}}\n{{#if problems.length}}\n\n### Problems\n\n| Where | What went wrong |\n|---|---|\n{{#each problems}}\n| {{where}} | {{message}} |\n{{/each}}\n{{/if}}\n\n### Needs attention\n\n{{#if attention.length}}\n| | Metric | Why | Recent | Latest | Judged against | Source |\n|---|---|---|---|---|---|---|\n{{#each attention}}\n| {{verdict.icon}} | {{name}} | {{why}} | {{spark}} | {{latest}} | {{expected}} | {{where}} |\n{{/each}}\n{{#if attentionNote}}\n\n{{attentionNote}}\n{{/if}}\n{{else}}\nNothing needs attention.\n{{/if}}\n{{#if elsewhere}}\n\n{{elsewhere}}\n{{/if}}\n{{#if caveats}}\n\n{{caveats}}\n{{/if}}\n{{#if incidents}}\n\n{{incidents}}\n{{/if}}\n{{#if charts.length}}\n\n### Charts\n{{#each charts}}\n\n**{{name}}**. {{legend}}\n\n```mermaid\n{{source}}\n```\n{{/each}}\n{{/if}}\n{{#if limits.length}}\n\n### Limits\n\n| | Metric | Limit | Window | Chance of crossing | Allowed | Forecast crosses | Bound crosses |\n|---|---|---|---|---|---|---|---|\n{{#each limits}}\n| {{verdict.icon}} | {{name}} | {{limit}} | {{within}} | {{chance}} | {{allowed}} | {{pointCrossing}} | {{boundCrossing}} |\n{{/each}}\n{{#if limitsNote}}\n\n{{limitsNote}}\n{{/if}}\n{{/if}}\n{{#if series.length}}\n\n### Every metric\n{{#each series}}\n{{> series}}\n{{/each}}\n{{/if}}\n{{#if omitted}}\n\n> \u2702\uFE0F {{omitted}}\n{{/if}}\n\n<sub>{{generated}}</sub>\n";
 
 // src/report/templates/series.hbs
-var series_default = "\n<details>\n<summary>{{verdict.icon}} <b>{{name}}</b>: {{verdict.label}}{{#if reason}}. {{reason}}{{/if}}</summary>\n\n{{facts}}\n{{#if limit}}\n\n{{limit}}\n{{/if}}\n{{#if checked.length}}\n\n**Checked observations**\n\n| When | Value | Forecast | Interval | Result | p | z |\n|---|---|---|---|---|---|---|\n{{#each checked}}\n| {{where}} | {{value}} | {{expected}} | {{interval}} | {{#if alarm}}\u{1F534} {{/if}}{{result}} | {{p}} | {{z}} |\n{{/each}}\n{{/if}}\n{{#if forecast.length}}\n\n**Forecast**\n\n| Step | When | Forecast |{{#each forecastLevels}} {{this}} interval |{{/each}}\n|---|---|---|{{#each forecastLevels}}---|{{/each}}\n{{#each forecast}}\n| {{step}} | {{time}} | {{mean}} |{{#each bands}} {{this}} |{{/each}}\n{{/each}}\n{{#if forecastNote}}\n\n{{forecastNote}}\n{{/if}}\n{{/if}}\n{{#if backtest.length}}\n\n**Backtest of the candidates**\n\n| Method | | Score ({{backtestScore}}) | RMSE | MAE | MASE | MAPE | ME | Origins |\n|---|---|---|---|---|---|---|---|---|\n{{#each backtest}}\n| {{method}} | {{#if chosen}}\u2705 chosen{{/if}} | {{score}} | {{rmse}} | {{mae}} | {{mase}} | {{mape}} | {{me}} | {{origins}} |\n{{/each}}\n\nWhy this method: {{backtestReason}} {{backtestNote}}\n{{/if}}\n{{#if checks.length}}\n\n**Residual checks**\n\n| Check | Result | Statistic | p | What it means |\n|---|---|---|---|---|\n{{#each checks}}\n| {{name}} | {{mark}}{{result}} | {{statistic}} | {{p}} | {{finding}} |\n{{/each}}\n\n{{checksNote}}\n{{/if}}\n{{#if calibration.length}}\n\n**Calibration**\n\n| Interval kind | Level | Backtest coverage | Judgement |\n|---|---|---|---|\n{{#each calibration}}\n| {{kind}}{{#if used}} (used){{/if}} | {{level}} | {{coverage}} | {{judgement}} |\n{{/each}}\n\n{{calibrationNote}}\n{{/if}}\n{{#if chart}}\n\n{{chart.legend}}\n\n```mermaid\n{{chart.source}}\n```\n{{/if}}\n{{#if notes.length}}\n\n**Notes**\n\n{{#each notes}}\n- {{this}}\n{{/each}}\n{{/if}}\n\n</details>\n";
+var series_default = "\n<details>\n<summary>{{verdict.icon}} <b>{{name}}</b>: {{verdict.label}}{{#if reason}}. {{reason}}{{/if}}</summary>\n\n{{facts}}\n{{#if limit}}\n\n{{limit}}\n{{/if}}\n{{#if checked.length}}\n\n**Checked observations**\n\n| When | Value | Forecast | Interval | Result | p | z |\n|---|---|---|---|---|---|---|\n{{#each checked}}\n| {{where}} | {{value}} | {{expected}} | {{interval}} | {{#if alarm}}\u{1F534} {{/if}}{{result}} | {{p}} | {{z}} |\n{{/each}}\n{{/if}}\n{{#if incidents.length}}\n\n**Known incidents** (left out of fitting, backtests and residual checks; drawn, never alarms)\n\n| When | Value | Why |\n|---|---|---|\n{{#each incidents}}\n| {{where}} | {{value}} | {{reason}} |\n{{/each}}\n{{/if}}\n{{#if forecast.length}}\n\n**Forecast**\n\n| Step | When | Forecast{{#if unit}} ({{unit}}){{/if}} |{{#each levels}} {{label}} interval |{{/each}}\n|---|---|---|{{#each levels}}---|{{/each}}\n{{#each forecast}}\n| {{step}} | {{time}} | {{mean}} |{{#each bands}} {{this}} |{{/each}}\n{{/each}}\n{{#if forecastNote}}\n\n{{forecastNote}}\n{{/if}}\n{{/if}}\n{{#if backtest.length}}\n\n**Backtest of the candidates**\n\n| Method | | Score ({{backtestScore}}) | RMSE | MAE | MASE | MAPE | ME | Origins |\n|---|---|---|---|---|---|---|---|---|\n{{#each backtest}}\n| {{method}} | {{#if chosen}}\u2705 chosen{{/if}} | {{score}} | {{rmse}} | {{mae}} | {{mase}} | {{mape}} | {{me}} | {{origins}} |\n{{/each}}\n\nWhy this method: {{backtestReason}} {{backtestNote}}\n{{/if}}\n{{#if checks.length}}\n\n**Residual checks**\n\n| Check | Result | Statistic | p | What it means |\n|---|---|---|---|---|\n{{#each checks}}\n| {{name}} | {{mark}}{{result}} | {{statistic}} | {{p}} | {{finding}} |\n{{/each}}\n\n{{checksNote}}\n{{/if}}\n{{#if calibration.length}}\n\n**Calibration**\n\n| Interval kind | Level | Backtest coverage | Judgement |\n|---|---|---|---|\n{{#each calibration}}\n| {{kind}}{{#if used}} (used){{/if}} | {{level}} | {{coverage}} | {{judgement}} |\n{{/each}}\n\n{{calibrationNote}}\n{{/if}}\n{{#if chart}}\n\n{{chart.legend}}\n\n```mermaid\n{{chart.source}}\n```\n{{/if}}\n{{#if notes.length}}\n\n**Notes**\n\n{{#each notes}}\n- {{this}}\n{{/each}}\n{{/if}}\n\n</details>\n";
 
 // src/report/mermaid.ts
 var CHART_HISTORY = 30;
@@ -55622,6 +56261,7 @@ var CHART_FORECAST = 14;
 var MAIN = "#2563eb";
 var BOUND = "#d97706";
 var LIMIT = "#6b7280";
+var INCIDENT = "#0f766e40";
 function mermaidNumber(x2) {
   if (x2 === null || x2 === void 0 || !Number.isFinite(x2) || Math.abs(x2) >= 1e15) return null;
   if (x2 === 0 || Math.abs(x2) < 1e-9) return "0";
@@ -55642,7 +56282,8 @@ var AXIS_UNIT = {
 };
 function mermaidChart(s2) {
   if (s2.forecast.length === 0 || s2.history.length === 0) return null;
-  const level = String(s2.alarmLevel);
+  const key = levelKey(s2.alarmLevel);
+  const level = levelLabel(s2.alarmLevel);
   const firstChecked = s2.checked.length > 0 ? Math.min(...s2.checked.map((c) => c.index)) : Infinity;
   let from = Math.max(0, s2.history.length - CHART_HISTORY);
   const firstCheckedPos = s2.history.findIndex((h) => h.index === firstChecked);
@@ -55663,11 +56304,11 @@ function mermaidChart(s2) {
   const main = [...observed, ...fc.map((f2) => f2.mean)];
   const upper = [
     ...hist.map((h, i) => checked.get(h.index)?.upper ?? observed[i]),
-    ...fc.map((f2) => f2.upper[level])
+    ...fc.map((f2) => f2.upper[key])
   ];
   const lower = [
     ...hist.map((h, i) => checked.get(h.index)?.lower ?? observed[i]),
-    ...fc.map((f2) => f2.lower[level])
+    ...fc.map((f2) => f2.lower[key])
   ];
   const hasLimit = s2.limit !== null && Number.isFinite(s2.limit.value);
   const lines2 = hasLimit ? [main.map(() => s2.limit.value), upper, lower, main] : [upper, lower, main];
@@ -55687,15 +56328,21 @@ function mermaidChart(s2) {
   const lastObs = hist.at(-1);
   const start2 = when(lastObs.time, s2.spacing);
   const unit2 = AXIS_UNIT[s2.spacing];
-  const zero3 = start2 ?? (lastObs.row !== null ? `line ${lastObs.row}` : "the last row");
+  const zero3 = start2 ?? (lastObs.row !== null || lastObs.label ? rowRef(lastObs) : "the last row");
   const xTitle = mermaidLabel(`${unit2} from ${zero3}`, 40, unit2);
   const xFrom = -(hist.length - 1);
   const xTo = fc.length;
   const title = mermaidLabel(s2.name, 60, "metric");
-  const axis = mermaidLabel(s2.column, 30, "value");
-  const names2 = [`upper ${level}% bound`, `lower ${level}% bound`, "observed then forecast"];
+  const axis = mermaidLabel(s2.unit ? `${s2.column} (${s2.unit})` : s2.column, 30, "value");
+  const names2 = [`upper ${level} bound`, `lower ${level} bound`, "observed then forecast"];
   if (hasLimit) names2.unshift("limit");
   const colours = hasLimit ? [LIMIT, BOUND, BOUND, MAIN] : [BOUND, BOUND, MAIN];
+  const incidentCount = hist.filter((h) => h.incident).length;
+  const bars = incidentCount > 0 ? [...hist.map((h, i) => h.incident ? observed[i] : null), ...fc.map(() => null)] : null;
+  if (bars) {
+    names2.unshift("columns at known incidents");
+    colours.unshift(INCIDENT);
+  }
   const source = [
     `%%{init: {"themeVariables": {"xyChart": {"plotColorPalette": "${colours.join(", ")}"}}}}%%`,
     "xychart-beta",
@@ -55704,6 +56351,7 @@ function mermaidChart(s2) {
     `  accDescr: Lines in order, ${names2.map((n, i) => `${i + 1} ${n}`).join(", ")}`,
     `  x-axis "${xTitle}" ${xFrom} --> ${xTo}`,
     `  y-axis "${axis}" ${yMin} --> ${yMax}`,
+    ...bars ? [`  bar [${bars.map((b) => b === null ? yMin : mermaidNumber(b)).join(", ")}]`] : [],
     ...written.map((l) => `  line [${l.join(", ")}]`)
   ].join("\n");
   const checkedX = hist.map((h, i) => checked.has(h.index) ? i + xFrom : null).filter((x2) => x2 !== null);
@@ -55711,12 +56359,16 @@ function mermaidChart(s2) {
   const one2 = checkedX.length === 1;
   const parts = [
     `Blue: the observed values up to ${zero3} (0 on the x axis), then the point forecast for ${plural(fc.length, unit2.replace(/s$/, ""))}`,
-    checkedX.length > 0 ? `orange: the ${level}% interval the ${one2 ? "checked observation was" : `${checkedX.length} checked observations were`} judged against (${span(checkedX)}), then the forecast's; before ${one2 ? "it" : "them"} the orange lines mean nothing and lie hidden under the blue one` : `orange: the forecast's ${level}% interval, opening from the last observation`
+    checkedX.length > 0 ? `orange: the ${level} interval the ${one2 ? "checked observation was" : `${checkedX.length} checked observations were`} judged against (${span(checkedX)}), then the forecast's; before ${one2 ? "it" : "them"} the orange lines mean nothing and lie hidden under the blue one` : `orange: the forecast's ${level} interval, opening from the last observation`
   ];
-  if (hasLimit) parts.push(`grey: the limit, ${num(s2.limit.value, 6)}`);
+  if (hasLimit) parts.push(`grey: the limit, ${withUnit(num(s2.limit.value, 6), s2.unit)}`);
+  if (bars)
+    parts.push(
+      `teal columns: ${plural(incidentCount, "known incident")}, left out of the statistics and never an alarm`
+    );
   let legend = parts.join("; ") + ".";
   if (filled > 0)
-    legend += ` ${filled} missing value${filled === 1 ? " is" : "s are"} drawn at the previous value.`;
+    legend += ` ${plural(filled, "missing value is", "missing values are")} drawn at the previous value.`;
   return { source, legend };
 }
 function signed(x2) {
@@ -55743,6 +56395,9 @@ function sparkline(values, width = 20) {
 }
 
 // src/report/view.ts
+function levelViews(levels2) {
+  return normaliseLevels(levels2).map((value2) => ({ value: value2, key: levelKey(value2), label: levelLabel(value2) }));
+}
 function shownName(text2) {
   return escapeMarkdown(reportName(text2));
 }
@@ -55769,12 +56424,15 @@ function reportOrder(results) {
   });
   return indexed.map((x2) => x2.s);
 }
-function locate2(file, row) {
-  return row === null ? escapeMarkdown(file) : `${escapeMarkdown(file)} line ${row}`;
+function locate2(file, p) {
+  return p.row === null && !p.label ? escapeMarkdown(file) : `${escapeMarkdown(file)} ${escapeMarkdown(rowRef(p))}`;
+}
+function u(s2, text2) {
+  return escapeMarkdown(withUnit(text2, s2.unit));
 }
 function checkedWhere(s2, c) {
   const t = when(c.time, s2.spacing);
-  const line2 = c.row === null ? "gap-filled point" : `line ${c.row}`;
+  const line2 = escapeMarkdown(rowRef(c));
   return t ? `${t} (${line2})` : line2;
 }
 function placement(s2, c) {
@@ -55790,9 +56448,9 @@ function checkedRow(s2, c) {
   return {
     alarm: c.alarm,
     where: checkedWhere(s2, c),
-    value: value2,
-    expected: num(c.mean),
-    interval: `${lower} to ${upper} (${c.level}%)`,
+    value: u(s2, value2),
+    expected: u(s2, num(c.mean)),
+    interval: `${u(s2, `${lower} to ${upper}`)} (${levelLabel(c.level)})`,
     result,
     p: c.adjustedP !== c.pValue ? `${pval(c.pValue)} (adjusted ${pval(c.adjustedP)})` : pval(c.pValue),
     z: Number.isFinite(c.z) ? `${c.z >= 0 ? "+" : "\u2212"}${Math.abs(c.z).toFixed(2)}` : "n/a"
@@ -55812,9 +56470,9 @@ function attentionRow(s2, section) {
     verdict: verdictView(s2.verdict),
     why: escapeMarkdown(s2.reason) || escapeMarkdown(VERDICT_LABEL[s2.verdict]),
     spark: sparkline(s2.history.map((h) => h.value)),
-    latest: lastIsChecked ? valueAndBounds(last)[0] : lastValue ? num(lastValue.value, 6) : "n/a",
-    expected: lastIsChecked ? `${valueAndBounds(last).slice(1).join(" to ")} (${last.level}%)` : "",
-    where: lastValue ? locate2(s2.file, lastValue.row) : escapeMarkdown(s2.file)
+    latest: u(s2, lastIsChecked ? valueAndBounds(last)[0] : lastValue ? num(lastValue.value, 6) : "n/a"),
+    expected: lastIsChecked ? `${u(s2, valueAndBounds(last).slice(1).join(" to "))} (${levelLabel(last.level)})` : "",
+    where: lastValue ? locate2(s2.file, lastValue) : escapeMarkdown(s2.file)
   };
 }
 function crossing2(s2, c) {
@@ -55830,9 +56488,9 @@ function limitRow(s2) {
   return {
     name: shownName(s2.name),
     verdict: verdictView(s2.verdict),
-    limit: `${l.side} ${num(l.value, 6)}`,
-    within: plural(l.within, STEP_UNIT[s2.spacing]),
-    chance: pct(l.probability),
+    limit: `${l.side} ${u(s2, num(l.value, 6))}`,
+    within: windowWords(l.withinLabel, l.within, STEP_UNIT[s2.spacing]),
+    chance: l.alreadyCrossed ? "already beyond" : chance(l.probability, l.paths),
     allowed: pct(l.risk),
     pointCrossing: crossing2(s2, l.pointCrossing),
     boundCrossing: crossing2(s2, l.boundCrossing),
@@ -55843,9 +56501,9 @@ function limitSentence(s2) {
   const l = s2.limit;
   if (!l) return null;
   const unit2 = STEP_UNIT[s2.spacing];
-  const head = `Limit: ${l.side} ${num(l.value, 6)} within the next ${plural(l.within, unit2)}.`;
+  const head = `Limit: ${l.side} ${u(s2, num(l.value, 6))} within the next ${windowWords(l.withinLabel, l.within, unit2)}.`;
   if (l.alreadyCrossed) return `${head} The last observation is already ${l.side} it.`;
-  return `${head} Chance of crossing at any point in the window: ${pct(l.probability)} from ${num(l.paths)} simulated paths (allowed ${pct(l.risk)}): ${l.atRisk ? "at risk" : "within the allowed risk"}. The point forecast crosses ${crossing2(s2, l.pointCrossing)}; the ${pct(1 - l.risk, 0)} bound crosses ${crossing2(s2, l.boundCrossing)}.`;
+  return `${head} Chance of crossing at any point in the window: ${chance(l.probability, l.paths)} from ${num(l.paths)} simulated paths (allowed ${pct(l.risk)}): ${l.atRisk ? "at risk" : "within the allowed risk"}. The point forecast crosses ${crossing2(s2, l.pointCrossing)}; the ${pct(1 - l.risk, 0)} bound crosses ${crossing2(s2, l.boundCrossing)}.`;
 }
 function backtestRows(s2) {
   const bt = s2.backtest;
@@ -55923,7 +56581,7 @@ function checkRows(s2) {
   return rows.filter((r) => r !== null);
 }
 function calibrationWords(coverage, level, origins) {
-  const p = level / 100;
+  const p = levelShare(level);
   if (!Number.isFinite(coverage) || origins <= 0) return "not measured";
   const tol = 2 * Math.sqrt(p * (1 - p) / origins);
   const gap = coverage - p;
@@ -55938,14 +56596,14 @@ function calibrationRows(s2) {
   const rows = [];
   for (const [kind, levels2] of Object.entries(chosen.coverage)) {
     if (!levels2) continue;
-    const entries = Object.entries(levels2).sort((a2, b) => Number(a2[0]) - Number(b[0]));
-    for (const [level, cov] of entries) {
+    for (const level of levelViews(Object.keys(levels2).map(Number))) {
+      const cov = levels2[level.key];
       rows.push({
         kind: escapeMarkdown(kind),
         used: kind === s2.intervalKind,
-        level: `${escapeMarkdown(level)}%`,
+        level: level.label,
         coverage: pct(cov),
-        judgement: calibrationWords(cov, Number(level), chosen.origins)
+        judgement: calibrationWords(cov, level.value, chosen.origins)
       });
     }
   }
@@ -55954,6 +56612,7 @@ function calibrationRows(s2) {
 }
 function facts(s2) {
   const parts = [`File ${escapeMarkdown(s2.file)}`, `column ${escapeMarkdown(s2.column)}`];
+  if (s2.unit) parts.push(`in ${escapeMarkdown(s2.unit)}`);
   if (s2.key !== null) parts.push(`key ${shownName(s2.key)}`);
   parts.push(plural(s2.observations, "observation"));
   if (s2.missing > 0) parts.push(`${s2.missing} missing`);
@@ -55966,21 +56625,23 @@ function facts(s2) {
       parts.push(`${escapeMarkdown(s2.intervalKind)} intervals`);
     else
       parts.push(
-        `${escapeMarkdown(s2.intervalKind)} intervals for the forecast, ${judged.map(escapeMarkdown).join(" and ")} for the checked ${s2.checked.length === 1 ? "row" : "rows"}`
+        `${escapeMarkdown(s2.intervalKind)} intervals for the forecast, ${judged.map(escapeMarkdown).join(" and ")} for the checked ${agree(s2.checked.length, "row")}`
       );
   }
   if (s2.sigma !== null && s2.sigma !== void 0)
     parts.push(`residual sd ${num(s2.sigma)}${s2.sigmaDf ? ` (df ${s2.sigmaDf})` : ""}`);
-  parts.push(`watching ${s2.direction === "both" ? "both sides" : s2.direction} at ${s2.alarmLevel}%`);
+  parts.push(
+    `watching ${s2.direction === "both" ? "both sides" : s2.direction} at ${levelLabel(s2.alarmLevel)}`
+  );
   return parts.join(" \xB7 ");
 }
 function seriesView(s2, section, chart) {
-  const levels2 = [...s2.levels].sort((a2, b) => a2 - b);
+  const levels2 = levelViews(s2.levels);
   const forecast = s2.forecast.slice(0, FORECAST_ROWS).map((f2) => ({
     step: f2.step,
     time: when(f2.time, s2.spacing) ?? `+${f2.step}`,
     mean: num(f2.mean),
-    bands: levels2.map((l) => `${num(f2.lower[String(l)])} to ${num(f2.upper[String(l)])}`)
+    bands: levels2.map((l) => `${num(f2.lower[l.key])} to ${num(f2.upper[l.key])}`)
   }));
   const bt = s2.backtest;
   return {
@@ -55992,7 +56653,7 @@ function seriesView(s2, section, chart) {
     facts: facts(s2),
     checked: s2.checked.slice(-CHECKED_ROWS).map((c) => checkedRow(s2, c)),
     forecast,
-    forecastLevels: levels2.map((l) => `${l}%`),
+    levels: levels2,
     forecastNote: s2.forecast.length > FORECAST_ROWS ? `The first ${FORECAST_ROWS} of ${s2.forecast.length} steps; the results JSON has all of them.` : null,
     backtest: backtestRows(s2),
     backtestScore: bt ? escapeMarkdown(bt.score.toUpperCase()) : "",
@@ -56004,8 +56665,29 @@ function seriesView(s2, section, chart) {
     calibrationNote: bt ? "Share of backtest actuals that fell inside each interval, against the level it claims." : null,
     limit: limitSentence(s2),
     notes: s2.notes.map(escapeMarkdown),
+    unit: s2.unit ? escapeMarkdown(s2.unit) : null,
+    incidents: (s2.incidents ?? []).map((x2) => ({
+      where: checkedWhere(s2, x2),
+      value: u(s2, num(x2.value, 6)),
+      reason: escapeMarkdown(shorten(x2.reason, 300))
+    })),
     chart
   };
+}
+function missWords(level) {
+  const miss = levelOutside(level);
+  const oneIn = 1 / miss;
+  const whole = Math.round(oneIn);
+  return Math.abs(oneIn - whole) <= 0.01 * oneIn ? `one time in ${num(whole)}` : `${num(miss * 100, 3)} times in 100`;
+}
+function cautionLine(results) {
+  const first = "Forecasts are estimates with stated uncertainty, not guarantees";
+  const levels2 = levelViews(results.series.map((s2) => s2.alarmLevel));
+  if (levels2.length === 0) return `${first}.`;
+  const said = levels2.map(
+    (l, k2) => `${k2 === 0 ? "an interval" : "one"} at ${l.label} ${k2 === 0 ? "is expected to miss " : ""}about ${missWords(l.value)}`
+  );
+  return `${first}: ${said.join(", ")}.`;
 }
 function chanceSentence(results) {
   const sum = results.summary;
@@ -56040,7 +56722,7 @@ function scopeLine(results) {
   if (parts.length > 0) sentences.push(`This pull request adds ${list2(parts)}.`);
   if (added.length > 0)
     sentences.push(
-      `It adds the new metric ${added.length === 1 ? "file" : "files"} ${list2(added.map((f2) => escapeMarkdown(f2.file)))}; only ${added.length === 1 ? "its" : "their"} last row is checked.`
+      `It adds the new metric ${agree(added.length, "file")} ${list2(added.map((f2) => escapeMarkdown(f2.file)))}; only ${agree(added.length, "its", "their")} last row is checked.`
     );
   if (sentences.length === 0) return "This pull request adds no row to any metric file: nothing was checked.";
   if (sc.gate === "all") sentences.push("Every series is judged (pullRequestGate: all).");
@@ -56074,6 +56756,12 @@ function caveatsLine(series) {
   const flagged = series.filter((s2) => failedChecks(s2).length > 0);
   if (flagged.length === 0) return null;
   return `Residual checks flagged ${plural(flagged.length, "series", "series")} (${names(flagged)}): their intervals may be less trustworthy than stated; each series' details say which check and why.`;
+}
+function incidentsLine(series) {
+  const marked = series.filter((s2) => (s2.incidents ?? []).length > 0);
+  if (marked.length === 0) return null;
+  const rows = marked.reduce((n, s2) => n + s2.incidents.length, 0);
+  return `Known incidents: ${plural(rows, "row")} of ${names(marked)} left out of fitting, backtests and residual checks; they are never alarms themselves, and each series' details list them with their reason.`;
 }
 function buildView(results, opts = {}) {
   const maxCharts = Math.max(0, Math.floor(opts.maxCharts ?? 5));
@@ -56115,7 +56803,7 @@ function buildView(results, opts = {}) {
     gatePassed: results.gate.passed,
     counts: countParts.join(" \xB7 "),
     falseAlarms: falseAlarms2,
-    caution: "Forecasts are estimates with stated uncertainty, not guarantees: an interval at 95% is expected to miss about one time in twenty.",
+    caution: cautionLine(results),
     generated: `Leadline ${escapeMarkdown(results.generator.version)}${results.config ? ` \xB7 config ${escapeMarkdown(results.config)}` : ""} \xB7 ${escapeMarkdown(when(results.generatedAt, "minute") ?? results.generatedAt)}`,
     runNotes: (results.notes ?? []).map(escapeMarkdown),
     problems: results.problems.map((p) => ({
@@ -56137,6 +56825,7 @@ function buildView(results, opts = {}) {
     ),
     elsewhere: elsewhereLine(ordered.filter((s2) => !isJudged(s2))),
     caveats: caveatsLine(ordered),
+    incidents: incidentsLine(ordered),
     scope: scopeLine(results),
     fullReport: opts.fullReportNote ?? "The results JSON has every series in full."
   };
@@ -56150,7 +56839,7 @@ hb.registerPartial("series", series_default);
 var builtIn = hb.compile(report_default, { noEscape: true, strict: false });
 var builtInBrief = hb.compile(brief_default, { noEscape: true, strict: false });
 var BRIEF_CHARTS = 3;
-function compile(source) {
+function compile2(source) {
   let fn;
   try {
     fn = hb.compile(source, { noEscape: true, strict: false });
@@ -56190,8 +56879,8 @@ function units(view) {
 }
 function trimmed(view, all, keep, rows, note) {
   const kept = all.slice(0, keep);
-  const charts = new Set(kept.filter((u) => u.chart !== null).map((u) => u.chart));
-  const sections = new Set(kept.filter((u) => u.section !== null).map((u) => u.section));
+  const charts = new Set(kept.filter((u2) => u2.chart !== null).map((u2) => u2.chart));
+  const sections = new Set(kept.filter((u2) => u2.section !== null).map((u2) => u2.section));
   const series = view.series.filter((_, i) => sections.has(i));
   const chartCount = view.charts.filter((_, i) => charts.has(i)).length + series.filter((s2) => s2.chart).length;
   const totalCharts = view.charts.length + view.series.filter((s2) => s2.chart).length;
@@ -56234,7 +56923,7 @@ function renderMarkdown(results, opts = {}) {
   const maxChars = Math.floor(opts.maxChars ?? DEFAULT_MAX_CHARS);
   if (!(maxChars > 0)) throw new RangeError(`maxChars must be a positive number, got ${opts.maxChars}`);
   const brief = opts.detail === "brief";
-  const render = opts.template !== void 0 ? compile(opts.template) : brief ? builtInBrief : builtIn;
+  const render = opts.template !== void 0 ? compile2(opts.template) : brief ? builtInBrief : builtIn;
   const head = opts.marker ? `${opts.marker}
 ` : "";
   const note = opts.fullReportNote ?? "The results JSON has every metric in full.";
@@ -57253,10 +57942,10 @@ var zoom = (function zoomRho(rho, rho2, rho4) {
       var d1 = Math.sqrt(d2), b0 = (w1 * w1 - w0 * w0 + rho4 * d2) / (2 * w0 * rho2 * d1), b1 = (w1 * w1 - w0 * w0 - rho4 * d2) / (2 * w1 * rho2 * d1), r0 = Math.log(Math.sqrt(b0 * b0 + 1) - b0), r1 = Math.log(Math.sqrt(b1 * b1 + 1) - b1);
       S = (r1 - r0) / rho;
       i = function(t) {
-        var s2 = t * S, coshr0 = cosh(r0), u = w0 / (rho2 * d1) * (coshr0 * tanh(rho * s2 + r0) - sinh(r0));
+        var s2 = t * S, coshr0 = cosh(r0), u2 = w0 / (rho2 * d1) * (coshr0 * tanh(rho * s2 + r0) - sinh(r0));
         return [
-          ux0 + u * dx,
-          uy0 + u * dy,
+          ux0 + u2 * dx,
+          uy0 + u2 * dy,
           w0 * coshr0 / cosh(rho * s2 + r0)
         ];
       };
@@ -58516,8 +59205,8 @@ function transformer$2() {
   scale.unknown = function(_) {
     return arguments.length ? (unknown2 = _, scale) : unknown2;
   };
-  return function(t, u) {
-    transform3 = t, untransform = u;
+  return function(t, u2) {
+    transform3 = t, untransform = u2;
     return rescale();
   };
 }
@@ -58661,11 +59350,11 @@ function loggish(transform3) {
   };
   scale.ticks = (count2) => {
     const d = domain();
-    let u = d[0];
+    let u2 = d[0];
     let v = d[d.length - 1];
-    const r = v < u;
-    if (r) [u, v] = [v, u];
-    let i = logs(u);
+    const r = v < u2;
+    if (r) [u2, v] = [v, u2];
+    let i = logs(u2);
     let j = logs(v);
     let k2;
     let t;
@@ -58673,10 +59362,10 @@ function loggish(transform3) {
     let z = [];
     if (!(base % 1) && j - i < n) {
       i = Math.floor(i), j = Math.ceil(j);
-      if (u > 0) for (; i <= j; ++i) {
+      if (u2 > 0) for (; i <= j; ++i) {
         for (k2 = 1; k2 < base; ++k2) {
           t = i < 0 ? k2 / pows(-i) : k2 * pows(i);
-          if (t < u) continue;
+          if (t < u2) continue;
           if (t > v) break;
           z.push(t);
         }
@@ -58684,12 +59373,12 @@ function loggish(transform3) {
       else for (; i <= j; ++i) {
         for (k2 = base - 1; k2 >= 1; --k2) {
           t = i > 0 ? k2 / pows(-i) : k2 * pows(i);
-          if (t < u) continue;
+          if (t < u2) continue;
           if (t > v) break;
           z.push(t);
         }
       }
-      if (z.length * 2 < n) z = ticks(u, v, n);
+      if (z.length * 2 < n) z = ticks(u2, v, n);
     } else {
       z = ticks(i, j, Math.min(j - i, n)).map(pows);
     }
@@ -59886,6 +60575,19 @@ Step.prototype = {
 var W = 760;
 var M = { top: 14, right: 18, bottom: 30, left: 64 };
 var f = (x2) => (Math.round(x2 * 100) / 100).toString();
+function dots(pts, r) {
+  const byClass = /* @__PURE__ */ new Map();
+  for (const p of pts) {
+    if (!Number.isFinite(p.x) || !Number.isFinite(p.y)) continue;
+    const list2 = byClass.get(p.cls) ?? [];
+    list2.push(`M${f1(p.x)} ${f1(p.y)}h0`);
+    byClass.set(p.cls, list2);
+  }
+  return [...byClass.entries()].map(
+    ([cls, segs]) => `<path class="dots ${cls}" data-dots="${segs.length}" stroke-width="${2 * r}" d="${segs.join("")}"/>`
+  ).join("");
+}
+var f1 = (x2) => (Math.round(x2 * 10) / 10).toString();
 function isNum(x2) {
   return typeof x2 === "number" && Number.isFinite(x2);
 }
@@ -59928,7 +60630,7 @@ function timeTick(ms, spacing, multiYear) {
     return `${String(d.getUTCHours()).padStart(2, "0")}:${String(d.getUTCMinutes()).padStart(2, "0")}`;
   return day;
 }
-function xAxis(x2, timeAxis, y0, spacing) {
+function xAxis(x2, timeAxis, y0, spacing, labels = /* @__PURE__ */ new Map()) {
   const all = x2.ticks(6);
   const ticks2 = [];
   for (const t of all) {
@@ -59939,11 +60641,22 @@ function xAxis(x2, timeAxis, y0, spacing) {
   const multiYear = timeAxis && new Date(d[0]).getUTCFullYear() !== new Date(d[1]).getUTCFullYear();
   return ticks2.map((t) => {
     const xx = f(x2(t));
-    const label = timeAxis ? timeTick(+t, spacing, multiYear) : `#${+t + 1}`;
+    const label = timeAxis ? timeTick(+t, spacing, multiYear) : rowTick(+t, labels);
     const px = x2(t);
     const anchor2 = px > W - M.right - 40 ? "end" : px < M.left + 20 ? "start" : "middle";
     return `<line class="axis" x1="${xx}" x2="${xx}" y1="${y0}" y2="${y0 + 4}"/><text class="tick" x="${xx}" y="${y0 + 16}" text-anchor="${anchor2}">${escapeHtml(label)}</text>`;
   }).join("");
+}
+function rowTick(index, labels) {
+  const label = labels.get(index);
+  if (label) return [...label].slice(0, 10).join("");
+  const last = Math.max(-1, ...labels.keys());
+  return labels.size > 0 && index > last ? `+${index - last}` : `#${index + 1}`;
+}
+function unitLabel(s2, height) {
+  if (!s2.unit) return "";
+  const mid = f((M.top + height - M.bottom) / 2);
+  return `<text class="unit" transform="translate(12,${mid}) rotate(-90)" text-anchor="middle">${escapeHtml(s2.unit)}</text>`;
 }
 function timeline(s2) {
   const timeAxis = s2.spacing !== "row" && s2.history.some((p) => p.time !== null);
@@ -59965,7 +60678,7 @@ function timeline(s2) {
   return { timeAxis, ofIndex: (i) => i, ofStep: (step) => lastIndex + step };
 }
 var FAN_HISTORY = 120;
-function fanChart(s2, id) {
+function fanChart(s2, id, ascending2) {
   const height = 300;
   const tl = timeline(s2);
   let from = Math.max(0, s2.history.length - FAN_HISTORY);
@@ -59973,7 +60686,7 @@ function fanChart(s2, id) {
   const pos = s2.history.findIndex((p) => p.index === firstChecked);
   if (pos >= 0) from = Math.min(from, Math.max(0, pos - 10));
   const hist = s2.history.slice(from);
-  const levels2 = [...s2.levels].sort((a2, b) => b - a2);
+  const levels2 = [...ascending2].reverse();
   const lastObs = [...hist].reverse().find((p) => isNum(p.value));
   const xs = [];
   const ys = [];
@@ -59984,7 +60697,7 @@ function fanChart(s2, id) {
   for (const q of fc) {
     xs.push(q.x);
     ys.push(q.p.mean);
-    for (const l of levels2) ys.push(q.p.lower[String(l)], q.p.upper[String(l)]);
+    for (const l of levels2) ys.push(q.p.lower[l.key], q.p.upper[l.key]);
   }
   const checked = s2.checked.map((c) => ({ c, x: tl.ofIndex(c.index, c.time) })).filter((q) => q.x !== null && isNum(q.c.value));
   for (const q of checked) ys.push(q.c.value, q.c.lower, q.c.upper);
@@ -60003,27 +60716,28 @@ function fanChart(s2, id) {
   }
   const { x: x2, y: y2, X } = planeScales(tl.timeAxis, xe, ye, height);
   const out = [];
-  const desc = `Observed values${hist.length ? ` (${hist.length} most recent)` : ""}, the ${s2.method ? METHOD_LABEL[s2.method] ?? s2.method : ""} forecast over ${s2.forecast.length} steps with ${levels2.map((l) => `${l}%`).join(" and ")} prediction intervals` + (checked.length ? `, ${checked.length} checked observations (${checked.filter((q) => q.c.alarm).length} alarms)` : "") + (lim ? `, and the limit ${num(lim.value, 6)}` : "") + ".";
+  const desc = `Observed values${hist.length ? ` (${hist.length} most recent)` : ""}, the ${s2.method ? METHOD_LABEL[s2.method] ?? s2.method : ""} forecast over ${s2.forecast.length} steps with ${ascending2.map((l) => l.label).join(" and ")} prediction intervals` + (checked.length ? `, ${checked.length} checked observations (${checked.filter((q) => q.c.alarm).length} alarms)` : "") + (lim ? `, and the limit ${num(lim.value, 6)}` : "") + ".";
   out.push(svgOpen(id, height, title, desc, "fan"));
   out.push(plotGroup(x2, y2, tl.timeAxis));
   out.push(yAxis(y2, M.left, W - M.right));
-  out.push(xAxis(x2, tl.timeAxis, height - M.bottom, s2.spacing));
+  const labels = new Map(hist.filter((p) => p.label).map((p) => [p.index, p.label]));
+  out.push(xAxis(x2, tl.timeAxis, height - M.bottom, s2.spacing, labels));
+  out.push(unitLabel(s2, height));
   const origin = lastObs ? { x: tl.ofIndex(lastObs.index, lastObs.time), v: lastObs.value } : null;
-  levels2.forEach((l, k2) => {
-    const key = String(l);
+  levels2.forEach(({ key, label, value: value2 }, k2) => {
     const pts = fc.filter((q) => isNum(q.p.lower[key]) && isNum(q.p.upper[key])).map((q) => ({ x: q.x, lo: q.p.lower[key], hi: q.p.upper[key] }));
     if (origin && origin.x !== null) pts.unshift({ x: origin.x, lo: origin.v, hi: origin.v });
-    const d = area().x((p) => X(p.x)).y0((p) => y2(p.lo)).y1((p) => y2(p.hi))(pts);
+    const d = area().digits(1).x((p) => X(p.x)).y0((p) => y2(p.lo)).y1((p) => y2(p.hi))(pts);
     if (d)
       out.push(
-        `<path class="band band-${Math.min(k2, 3)}" data-level="${l}" d="${d}"><title>${l}% interval</title></path>`
+        `<path class="band band-${Math.min(k2, 3)}" data-level="${value2}" d="${d}"><title>${label} interval</title></path>`
       );
   });
-  const histLine = line().defined((p) => p.x !== null && isNum(p.y)).x((p) => X(p.x)).y((p) => y2(p.y))(histPts);
+  const histLine = line().digits(1).defined((p) => p.x !== null && isNum(p.y)).x((p) => X(p.x)).y((p) => y2(p.y))(histPts);
   if (histLine) out.push(`<path class="history" d="${histLine}"/>`);
   const meanPts = fc.map((q) => ({ x: q.x, y: q.p.mean }));
   if (origin && origin.x !== null) meanPts.unshift({ x: origin.x, y: origin.v });
-  const meanLine = line().x((p) => X(p.x)).y((p) => y2(p.y))(meanPts);
+  const meanLine = line().digits(1).x((p) => X(p.x)).y((p) => y2(p.y))(meanPts);
   if (meanLine) out.push(`<path class="forecast" d="${meanLine}"/>`);
   if (origin && origin.x !== null)
     out.push(
@@ -60032,7 +60746,7 @@ function fanChart(s2, id) {
   if (lim) {
     const ly = f(y2(lim.value));
     out.push(
-      `<line class="limit" x1="${M.left}" x2="${W - M.right}" y1="${ly}" y2="${ly}" data-limit="${lim.value}"/><text class="limit-label" x="${M.left + 4}" y="${ly}" dy="${lim.side === "above" ? "-0.4em" : "1.1em"}">limit ${escapeHtml(num(lim.value, 6))}</text>`
+      `<line class="limit" x1="${M.left}" x2="${W - M.right}" y1="${ly}" y2="${ly}" data-limit="${lim.value}"/><text class="limit-label" x="${M.left + 4}" y="${ly}" dy="${lim.side === "above" ? "-0.4em" : "1.1em"}">limit ${escapeHtml(withUnit(num(lim.value, 6), s2.unit))}</text>`
     );
     if (crossX !== null && lim.pointCrossing) {
       const cx = f(X(crossX));
@@ -60042,10 +60756,20 @@ function fanChart(s2, id) {
       );
     }
   }
+  const reasons = new Map((s2.incidents ?? []).map((x3) => [x3.index, x3.reason]));
+  for (const p of hist) {
+    if (!p.incident || !isNum(p.value)) continue;
+    const px = tl.ofIndex(p.index, p.time);
+    if (px === null) continue;
+    const tip = `${when(p.time, s2.spacing) ?? rowRef(p)}: ${withUnit(num(p.value, 6), s2.unit)}, known incident: ${reasons.get(p.index) ?? "known incident"} (left out of the statistics)`;
+    out.push(
+      `<rect class="incident" data-index="${p.index}" x="${f(X(px) - 4.5)}" y="${f(y2(p.value) - 4.5)}" width="9" height="9"><title>${escapeHtml(tip)}</title></rect>`
+    );
+  }
   for (const { c, x: cxv } of checked) {
     const cx = f(X(cxv));
     const cy = f(y2(c.value));
-    const tip = `${when(c.time, s2.spacing) ?? `point ${c.index + 1}`}: ${num(c.value, 6)}, interval ${num(c.lower)} to ${num(c.upper)} (${c.level}%)${c.alarm ? ", alarm" : c.outside ? ", outside" : ""}`;
+    const tip = `${when(c.time, s2.spacing) ?? rowRef(c)}: ${withUnit(num(c.value, 6), s2.unit)}, interval ${withUnit(`${num(c.lower)} to ${num(c.upper)}`, s2.unit)} (${levelLabel(c.level)})${c.alarm ? ", alarm" : c.outside ? ", outside" : ""}`;
     out.push(
       `<line class="check-range" x1="${cx}" x2="${cx}" y1="${f(y2(c.lower))}" y2="${f(y2(c.upper))}"/><line class="check-range" x1="${f(X(cxv) - 4)}" x2="${f(X(cxv) + 4)}" y1="${f(y2(c.lower))}" y2="${f(y2(c.lower))}"/><line class="check-range" x1="${f(X(cxv) - 4)}" x2="${f(X(cxv) + 4)}" y1="${f(y2(c.upper))}" y2="${f(y2(c.upper))}"/>`
     );
@@ -60111,9 +60835,14 @@ function spreadChart(s2, id) {
   const ticks2 = y2.ticks(4).map(
     (t) => `<line class="grid" x1="${m.left}" x2="${HALF - m.right}" y1="${f(y2(t))}" y2="${f(y2(t))}"/><text class="tick" x="${m.left - 6}" y="${f(y2(t))}" dy="0.32em" text-anchor="end">${escapeHtml(num(t))}</text>`
   ).join("");
-  return svgOpenHalf(id, height, title, desc, "spread") + plotGroup(x2, y2, tl.timeAxis) + ticks2 + band(first, s1, "first", "first third") + band(last, s3, "last", "last third") + `<line class="zero" x1="${m.left}" x2="${HALF - m.right}" y1="${f(y2(0))}" y2="${f(y2(0))}"/>` + pts.map(
-    (p, i) => `<circle class="resid-dot${i < third || i >= n - third ? "" : " middle"}" cx="${f(X(p.x))}" cy="${f(y2(p.r))}" r="${n > 150 ? 1.2 : 1.8}"/>`
-  ).join("") + `<text class="tick" x="${HALF - m.right}" y="${height - 8}" text-anchor="end">time \u2192</text></g></svg>`;
+  return svgOpenHalf(id, height, title, desc, "spread") + plotGroup(x2, y2, tl.timeAxis) + ticks2 + band(first, s1, "first", "first third") + band(last, s3, "last", "last third") + `<line class="zero" x1="${m.left}" x2="${HALF - m.right}" y1="${f(y2(0))}" y2="${f(y2(0))}"/>` + dots(
+    pts.map((p, i) => ({
+      cls: i < third || i >= n - third ? "resid-dot" : "resid-dot middle",
+      x: X(p.x),
+      y: y2(p.r)
+    })),
+    n > 150 ? 1.2 : 1.8
+  ) + `<text class="tick" x="${HALF - m.right}" y="${height - 8}" text-anchor="end">time \u2192</text></g></svg>`;
 }
 function qqChart(s2, id) {
   const title = `${reportName(s2.name)}: residuals against normal quantiles`;
@@ -60137,9 +60866,10 @@ function qqChart(s2, id) {
   ).join("");
   const beyond = z.filter((v, i) => Math.abs(v - q[i]) > 1).length;
   const desc = `${n} residuals, standardised, against the normal quantiles of their ranks. ${beyond === 0 ? "All lie within one unit of the diagonal." : `${beyond} lie more than one unit off the diagonal.`}`;
-  return svgOpenHalf(id, height, title, desc, "qq") + plotGroup(x2, y2, false) + ticks2 + `<line class="qq-line" x1="${f(x2(d0))}" y1="${f(y2(d0))}" x2="${f(x2(d1))}" y2="${f(y2(d1))}"/>` + z.map(
-    (v, i) => `<circle class="qq-dot${Math.abs(v - q[i]) > 1 ? " off" : ""}" cx="${f(x2(q[i]))}" cy="${f(y2(v))}" r="2.2"/>`
-  ).join("") + `<text class="tick" x="${HALF - m.right}" y="${height - 4}" text-anchor="end">normal quantile</text><text class="tick" x="${m.left + 4}" y="${m.top + 4}">residual (sd units)</text></g></svg>`;
+  return svgOpenHalf(id, height, title, desc, "qq") + plotGroup(x2, y2, false) + ticks2 + `<line class="qq-line" x1="${f(x2(d0))}" y1="${f(y2(d0))}" x2="${f(x2(d1))}" y2="${f(y2(d1))}"/>` + dots(
+    z.map((v, i) => ({ cls: Math.abs(v - q[i]) > 1 ? "qq-dot off" : "qq-dot", x: x2(q[i]), y: y2(v) })),
+    2.2
+  ) + `<text class="tick" x="${HALF - m.right}" y="${height - 4}" text-anchor="end">normal quantile</text><text class="tick" x="${m.left + 4}" y="${m.top + 4}">residual (sd units)</text></g></svg>`;
 }
 function ljungBoxChart(s2, id) {
   const title = `${reportName(s2.name)}: Ljung\u2013Box p-value by number of lags`;
@@ -60165,7 +60895,7 @@ function ljungBoxChart(s2, id) {
   const x2 = linear2().domain([0.5, acf.length + 0.5]).range([m.left, HALF - m.right]);
   const y2 = log2().domain([FLOOR, 1]).range([height - m.bottom, m.top]);
   const Y = (p) => y2(Math.max(FLOOR, Math.min(1, p)));
-  const path9 = line().x((d) => x2(d.lag)).y((d) => Y(d.p))(pts);
+  const path9 = line().digits(1).x((d) => x2(d.lag)).y((d) => Y(d.p))(pts);
   const below = pts.filter((d) => d.p < 0.05).length;
   const desc = `Ljung\u2013Box p-values for ${pts[0].lag} to ${pts.at(-1).lag} lags; the check used ${lb.lags} (p ${pval(lb.pValue)}). ${below === 0 ? "None is below 5%." : `${below} of ${pts.length} are below 5%.`}`;
   const ticks2 = [1, 0.1, 0.01, 1e-3, 1e-4].map(
@@ -60226,11 +60956,11 @@ function planeScales(timeAxis, xe, ye, height) {
 var CSS = `
 :root{color-scheme:light dark;--bg:#fbfaf7;--fg:#1f2328;--muted:#5b6470;--line:#d8dce1;--card:#ffffff;
 --hist:#1f3a5f;--fc:#7b2cbf;--b0:#e9ddf7;--b1:#d3bdf0;--b2:#bb9ae6;--b3:#a37adb;--ok:#2f7d4f;--alarm:#c62828;
---risk:#b45309;--na:#6b7280;--limit:#b45309;--grid:#eceef1;--resid:#2a6f97;--bar:#8aa8c7;--chosen:#2f7d4f;
+--risk:#b45309;--na:#6b7280;--limit:#b45309;--grid:#eceef1;--resid:#2a6f97;--bar:#8aa8c7;--chosen:#2f7d4f;--incident:#0f766e;
 font-family:system-ui,-apple-system,"Segoe UI",Roboto,"Noto Sans",sans-serif;}
 @media (prefers-color-scheme:dark){:root{--bg:#14171c;--fg:#e6e8eb;--muted:#9aa4b1;--line:#2d333b;--card:#1b2027;
 --hist:#9cc3f0;--fc:#d0a8ff;--b0:#2b2340;--b1:#3a2d5a;--b2:#4c3a75;--b3:#604a91;--ok:#5cc48a;--alarm:#ff6b6b;
---risk:#f0a04b;--na:#9aa4b1;--limit:#f0a04b;--grid:#242a31;--resid:#7fc1e6;--bar:#4f6f91;--chosen:#5cc48a;}}
+--risk:#f0a04b;--na:#9aa4b1;--limit:#f0a04b;--grid:#242a31;--resid:#7fc1e6;--bar:#4f6f91;--chosen:#5cc48a;--incident:#5eead4;}}
 *{box-sizing:border-box}
 body{margin:0;background:var(--bg);color:var(--fg);line-height:1.45;font-size:15px}
 main{max-width:1080px;margin:0 auto;padding:24px 20px 64px}
@@ -60264,10 +60994,12 @@ svg .check-range{stroke:var(--fg);stroke-width:1.2;opacity:.65}
 svg .checked{fill:var(--bg);stroke:var(--hist);stroke-width:2}
 svg .checked.outside{stroke:var(--risk)}
 svg .checked.alarm{fill:var(--alarm);stroke:var(--bg);stroke-width:1.5}
+svg .incident{fill:var(--bg);stroke:var(--incident);stroke-width:2}svg .unit{fill:var(--muted)}
 svg .zero{stroke:var(--muted)}svg .resid-line{fill:none;stroke:var(--resid);stroke-width:1;opacity:.6}
-svg .resid-dot{fill:var(--resid)}
+svg .resid-dot{stroke:var(--resid)}
 svg .resid-dot.middle{opacity:.35}svg .third{stroke:var(--muted);stroke-dasharray:3 3}svg .spread-band{fill:var(--b0);opacity:.8}
-svg .qq-line{stroke:var(--fc);stroke-width:1.5}svg .qq-dot{fill:var(--resid)}svg .qq-dot.off{fill:var(--risk)}
+svg .qq-line{stroke:var(--fc);stroke-width:1.5}svg .dots{fill:none;stroke-linecap:round}
+svg .qq-dot{stroke:var(--resid)}svg .qq-dot.off{stroke:var(--risk)}
 svg .p-line{stroke:var(--risk);stroke-dasharray:4 3}svg .lb-line{fill:none;stroke:var(--resid);stroke-width:1.2}
 svg .lb-dot{fill:var(--resid)}svg .lb-dot.low{fill:var(--alarm)}svg .lb-used{fill:none;stroke:var(--fg);stroke-width:1.5}
 svg .bt-bar{fill:var(--bar)}svg .bt-bar.chosen{fill:var(--chosen)}svg .bt-label{fill:var(--fg)}
@@ -60279,6 +61011,7 @@ svg .empty{fill:var(--muted);font-size:13px}
 .key .k-band::before{background:var(--b1)}
 .key .k-alarm::before{background:var(--alarm);width:10px;transform:rotate(45deg)}
 .key .k-limit::before{border-top:2px dashed var(--limit);height:0}
+.key .k-incident::before{border:2px solid var(--incident);width:8px;height:8px}
 details>summary{cursor:pointer;color:var(--muted)}
 footer{margin-top:32px;font-size:.8rem;color:var(--muted)}
 `;
@@ -60300,7 +61033,7 @@ function metricSection(s2, v, id) {
   );
   out.push(`<p class="facts">${v.facts}</p>`);
   out.push(
-    `<figure>${fanChart(s2, `${id}-fan`)}<figcaption class="key"><span class="k-hist">observed</span><span class="k-fc">point forecast</span><span class="k-band">prediction intervals (${[...s2.levels].sort((a2, b) => a2 - b).map((l) => `${l}%`).join(", ")}; darker is narrower)</span><span>\u25CB checked observation with its interval</span><span class="k-alarm">alarm</span>${s2.limit ? '<span class="k-limit">limit and forecast crossing</span>' : ""}</figcaption></figure>`
+    `<figure>${fanChart(s2, `${id}-fan`, v.levels)}<figcaption class="key"><span class="k-hist">observed</span><span class="k-fc">point forecast</span><span class="k-band">prediction intervals (${v.levels.map((l) => l.label).join(", ")}; darker is narrower)</span><span>\u25CB checked observation with its interval</span><span class="k-alarm">alarm</span>${v.incidents.length > 0 ? '<span class="k-incident">known incident (left out of the statistics)</span>' : ""}${s2.limit ? '<span class="k-limit">limit and forecast crossing</span>' : ""}</figcaption></figure>`
   );
   if (v.limit) out.push(`<p>${v.limit}</p>`);
   if (v.checked.length > 0) {
@@ -60313,11 +61046,29 @@ function metricSection(s2, v, id) {
       )
     );
   }
+  if (v.incidents.length > 0) {
+    out.push("<h3>Known incidents</h3>");
+    out.push(
+      table(
+        ["When", "Value", "Why"],
+        v.incidents.map((x2) => [x2.where, x2.value, x2.reason]),
+        [1]
+      )
+    );
+    out.push(
+      '<p class="note">Left out of fitting, backtests and residual checks (as missing values); drawn, never alarms.</p>'
+    );
+  }
   if (v.forecast.length > 0) {
     out.push(`<details><summary>Forecast table (${s2.forecast.length} steps)</summary>`);
     out.push(
       table(
-        ["Step", "When", "Forecast", ...v.forecastLevels.map((l) => `${l} interval`)],
+        [
+          "Step",
+          "When",
+          v.unit ? `Forecast (${v.unit})` : "Forecast",
+          ...v.levels.map((l) => `${l.label} interval`)
+        ],
         v.forecast.map((r) => [String(r.step), r.time, r.mean, ...r.bands]),
         [0, 2]
       )
@@ -60395,7 +61146,7 @@ function renderHtml(results) {
       escapeHtml(s2.reason),
       escapeHtml(s2.method ? METHOD_LABEL[s2.method] ?? s2.method : "n/a"),
       s2.checked.length === 0 ? "none" : `${plural(s2.checked.filter((c) => c.alarm).length, "alarm")} in ${s2.checked.length} checked`,
-      s2.limit ? `${pct(s2.limit.probability)} (allowed ${pct(s2.limit.risk)})` : ""
+      s2.limit ? `${s2.limit.alreadyCrossed ? "already beyond" : chance(s2.limit.probability, s2.limit.paths)} (allowed ${pct(s2.limit.risk)})` : ""
     ])
   );
   const problems = results.problems.length > 0 ? `<h2>Problems</h2><ul>${results.problems.map(
@@ -60454,7 +61205,7 @@ function planAnnotations(results, where, used2 = { error: 0, warning: 0 }) {
         level: fails.alarms ? "error" : "warning",
         title: oneLine(`Leadline alarm: ${s2.name}`, 120),
         message: oneLine(
-          `${value2} is ${c.side ?? "outside"} the ${c.level}% prediction interval [${lower}, ${upper}] (forecast ${mean}, ${num(Math.abs(c.z), 3, PLAIN2)} standard errors ${c.side === "below" ? "under" : "over"}, ${pIs(c.adjustedP)}). Bound crossed: ${c.side === "below" ? lower : upper}.`,
+          `${withUnit(value2, s2.unit)}${c.label ? ` at ${rowRef(c)}` : ""} is ${c.side ?? "outside"} the ${levelLabel(c.level)} prediction interval [${lower}, ${upper}] (forecast ${mean}, ${num(Math.abs(c.z), 3, PLAIN2)} standard errors ${c.side === "below" ? "under" : "over"}, ${pIs(c.adjustedP)}). Bound crossed: ${c.side === "below" ? lower : upper}.`,
           1e3
         ),
         ...rel(s2.file) ? { file: rel(s2.file) } : {},
@@ -60470,7 +61221,7 @@ function planAnnotations(results, where, used2 = { error: 0, warning: 0 }) {
         level: fails.limits ? "error" : "warning",
         title: oneLine(`Leadline limit at risk: ${s2.name}`, 120),
         message: oneLine(
-          lim.alreadyCrossed ? `Already ${lim.side} the limit ${num(lim.value, 6, PLAIN2)} at the last observation.` : `${num(lim.probability * 100, 3, PLAIN2)}% chance of going ${lim.side} ${num(lim.value, 6, PLAIN2)} within ${lim.withinLabel} (risk accepted: ${num(lim.risk * 100, 3, PLAIN2)}%).${when2} Forecasts are estimates, not guarantees.`,
+          lim.alreadyCrossed ? `Already ${lim.side} the limit ${num(lim.value, 6, PLAIN2)} at the last observation.` : `${chance(lim.probability, lim.paths)} chance of going ${lim.side} ${num(lim.value, 6, PLAIN2)} within ${windowWords(lim.withinLabel, lim.within, STEP_UNIT[s2.spacing])} (risk accepted: ${num(lim.risk * 100, 3, PLAIN2)}%).${when2} Forecasts are estimates, not guarantees.`,
           1e3
         ),
         ...rel(s2.file) ? { file: rel(s2.file) } : {},
@@ -65242,7 +65993,7 @@ function need(ok, value2, call) {
   return value2;
 }
 var isObject2 = (x2) => typeof x2 === "object" && x2 !== null;
-var login = (u) => isObject2(u) && typeof u.login === "string" ? u.login : null;
+var login = (u2) => isObject2(u2) && typeof u2.login === "string" ? u2.login : null;
 function comment(raw, call) {
   const c = raw;
   need(isObject2(raw) && typeof c.id === "number" && typeof c.html_url === "string", null, call);
@@ -65439,7 +66190,7 @@ function ignoredNote(foreign, me, what) {
   if (foreign.length === 0) return [];
   const by = [...new Set(foreign.map((f2) => visible(f2.author ?? "an unknown author")))].join(", ");
   return [
-    `Ignored ${foreign.length} ${what}${foreign.length === 1 ? "" : "s"} carrying Leadline's marker but written by ${by}, not by ${visible(me)} (this token): Leadline edits, deletes and closes only its own (${foreign.slice(0, 3).map((f2) => f2.url).join(", ")}).`
+    `Ignored ${plural(foreign.length, what)} carrying Leadline's marker but written by ${by}, not by ${visible(me)} (this token): Leadline edits, deletes and closes only its own (${foreign.slice(0, 3).map((f2) => f2.url).join(", ")}).`
   ];
 }
 function byIdentity(items, mark, me) {
@@ -65894,7 +66645,7 @@ async function runAction(d) {
       mergeFiles.push(...await resultsFiles(s2));
       const trusted = await trustedPullRequest(d, s2, event.facts, token);
       if (trusted?.dest) dest = trusted.dest;
-      info2(`Merging ${mergeFiles.length} results file${mergeFiles.length === 1 ? "" : "s"}.`);
+      info2(`Merging ${plural(mergeFiles.length, "results file")}.`);
       const merged = await mergeResults(mergeFiles, {
         failOn: s2.failOn,
         ...trusted?.expect ? { expect: trusted.expect } : {}
