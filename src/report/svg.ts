@@ -538,7 +538,8 @@ export function ljungBoxChart(s: SeriesResult, id: string): string {
   if (!c || !lb || !isNum(lb.statistic) || acf.length === 0 || !acf.every(isNum))
     return emptyHalf(id, title, 'The autocorrelation check was not computed.', 'lb');
   const K = lb.df === null ? 0 : Math.max(0, lb.lags - lb.df);
-  const n = residualCount(lb.statistic, acf.slice(0, lb.lags));
+  // The residual count the check used; older results files without it: recovered from Q and the ACF.
+  const n = c.residuals ?? residualCount(lb.statistic, acf.slice(0, lb.lags));
   if (n === null) return emptyHalf(id, title, 'The autocorrelation check was not computed.', 'lb');
   const pts: { lag: number; p: number }[] = [];
   let sum = 0;

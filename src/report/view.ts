@@ -419,7 +419,8 @@ function testRow(
     name,
     result: CHECK_STATE_WORD[state],
     statistic: state === 'not-computed' && !t.zeroByConstruction ? '' : statistic,
-    p: pval(t.pValue),
+    // A check that was not computed has no p-value to show (a mean's bias is 0 by construction: p = 1 says nothing).
+    p: state === 'not-computed' ? '' : pval(t.pValue),
     finding: md(t.finding ?? ''),
   };
 }
