@@ -56544,7 +56544,8 @@ function testRow(key, name, t, statistic) {
     name,
     result: CHECK_STATE_WORD[state],
     statistic: state === "not-computed" && !t.zeroByConstruction ? "" : statistic,
-    p: pval(t.pValue),
+    // A check that was not computed has no p-value to show (a mean's bias is 0 by construction: p = 1 says nothing).
+    p: state === "not-computed" ? "" : pval(t.pValue),
     finding: escapeMarkdown(t.finding ?? "")
   };
 }
@@ -60879,7 +60880,7 @@ function ljungBoxChart(s2, id) {
   if (!c || !lb || !isNum(lb.statistic) || acf.length === 0 || !acf.every(isNum))
     return emptyHalf(id, title, "The autocorrelation check was not computed.", "lb");
   const K2 = lb.df === null ? 0 : Math.max(0, lb.lags - lb.df);
-  const n = residualCount(lb.statistic, acf.slice(0, lb.lags));
+  const n = c.residuals ?? residualCount(lb.statistic, acf.slice(0, lb.lags));
   if (n === null) return emptyHalf(id, title, "The autocorrelation check was not computed.", "lb");
   const pts = [];
   let sum = 0;
@@ -61127,7 +61128,7 @@ function checkCards(s2, v, id) {
   };
   return v.checks.map((c) => {
     const chart = chartOf[c.key];
-    return `<figure class="check c-${c.state}"><figcaption><strong>${c.name}</strong> <span class="state">${c.result}</span>${c.statistic ? ` \xB7 ${c.statistic}` : ""}${c.p !== "n/a" ? ` \xB7 p ${c.p}` : ""}<br>${c.finding}</figcaption>${chart ? chart(s2, `${id}-${c.key}`) : ""}</figure>`;
+    return `<figure class="check c-${c.state}"><figcaption><strong>${c.name}</strong> <span class="state">${c.result}</span>${c.statistic ? ` \xB7 ${c.statistic}` : ""}${c.p && c.p !== "n/a" ? ` \xB7 p ${c.p}` : ""}<br>${c.finding}</figcaption>${chart ? chart(s2, `${id}-${c.key}`) : ""}</figure>`;
   }).join("");
 }
 var HTML_SECTIONS = 250;
