@@ -195,7 +195,7 @@ function checkCards(s: SeriesResult, v: SeriesView, id: string): string {
       const chart = chartOf[c.key];
       return (
         `<figure class="check c-${c.state}"><figcaption><strong>${c.name}</strong> <span class="state">${c.result}</span>` +
-        `${c.statistic ? ` · ${c.statistic}` : ''}${c.p && c.p !== 'n/a' ? ` · p ${c.p}` : ''}<br>${c.finding}</figcaption>` +
+        `${c.statistic ? ` · ${c.statistic}` : ''}${c.p !== 'n/a' ? ` · p ${c.p}` : ''}<br>${c.finding}</figcaption>` +
         `${chart ? chart(s, `${id}-${c.key}`) : ''}</figure>`
       );
     })

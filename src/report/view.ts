@@ -420,7 +420,7 @@ function testRow(
     result: CHECK_STATE_WORD[state],
     statistic: state === 'not-computed' && !t.zeroByConstruction ? '' : statistic,
     // A check that was not computed has no p-value to show (a mean's bias is 0 by construction: p = 1 says nothing).
-    p: state === 'not-computed' ? '' : pval(t.pValue),
+    p: state === 'not-computed' ? 'n/a' : pval(t.pValue),
     finding: md(t.finding ?? ''),
   };
 }
