@@ -56545,7 +56545,7 @@ function testRow(key, name, t, statistic) {
     result: CHECK_STATE_WORD[state],
     statistic: state === "not-computed" && !t.zeroByConstruction ? "" : statistic,
     // A check that was not computed has no p-value to show (a mean's bias is 0 by construction: p = 1 says nothing).
-    p: state === "not-computed" ? "" : pval(t.pValue),
+    p: state === "not-computed" ? "n/a" : pval(t.pValue),
     finding: escapeMarkdown(t.finding ?? "")
   };
 }
@@ -61128,7 +61128,7 @@ function checkCards(s2, v, id) {
   };
   return v.checks.map((c) => {
     const chart = chartOf[c.key];
-    return `<figure class="check c-${c.state}"><figcaption><strong>${c.name}</strong> <span class="state">${c.result}</span>${c.statistic ? ` \xB7 ${c.statistic}` : ""}${c.p && c.p !== "n/a" ? ` \xB7 p ${c.p}` : ""}<br>${c.finding}</figcaption>${chart ? chart(s2, `${id}-${c.key}`) : ""}</figure>`;
+    return `<figure class="check c-${c.state}"><figcaption><strong>${c.name}</strong> <span class="state">${c.result}</span>${c.statistic ? ` \xB7 ${c.statistic}` : ""}${c.p !== "n/a" ? ` \xB7 p ${c.p}` : ""}<br>${c.finding}</figcaption>${chart ? chart(s2, `${id}-${c.key}`) : ""}</figure>`;
   }).join("");
 }
 var HTML_SECTIONS = 250;
