@@ -23,7 +23,9 @@ describe('residual checks: caption and picture agree', () => {
     }
     const html = renderHtml(results);
     // The bias card of a mean-method series: not computed, and no p-value beside it.
-    expect(html).toMatch(/Bias \(mean residual zero\)<\/strong> <span class="state">not computed<\/span> · zero by construction<br>/);
+    expect(html).toMatch(
+      /Bias \(mean residual zero\)<\/strong> <span class="state">not computed<\/span> · zero by construction<br>/,
+    );
     const md = renderMarkdown(results);
     expect(md).not.toMatch(/not computed \| zero by construction \| 1 \|/);
   }, 120_000);
