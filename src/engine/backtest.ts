@@ -219,16 +219,7 @@ export function prefixBacktest(
         sAP += Math.abs(pct);
       }
     }
-    steps.push({
-      step: h,
-      origins: c,
-      me: c > 0 ? sE / c : NaN,
-      rmse: c > 0 ? Math.sqrt(sE2 / c) : NaN,
-      mae: c > 0 ? sA / c : NaN,
-      mpe: cP > 0 ? sP / cP : NaN,
-      mape: cP > 0 ? sAP / cP : NaN,
-      mase: c > 0 && scale > 0 ? sA / c / scale : NaN,
-    });
+    steps.push(stepMeasures(h, { c, sE, sE2, sA, cP, sP, sAP }, scale, 1));
     // Made only if asked for (a forecast sorts the steps it reaches, often step 1 alone).
     const known = sortedIfKnown(all);
     if (known && c > 0) rememberSorted(e, () => withoutValues(known, all.subarray(c)));
@@ -678,21 +669,41 @@ function scoreSteps(s: Prepared, method: MethodName, scoring: Scoring, o: ScoreO
       }
       analytic?.step(i0, iEnd, e2col, vcol, c);
     }
-    steps.push({
-      step: h,
-      origins: c,
-      me: c > 0 ? (sE / c) * unit : NaN,
-      rmse: c > 0 ? Math.sqrt(sE2 / c) * unit : NaN,
-      mae: c > 0 ? (sA / c) * unit : NaN,
-      mpe: cP > 0 ? sP / cP : NaN,
-      mape: cP > 0 ? sAP / cP : NaN,
-      mase: c > 0 && scale > 0 ? sA / c / scale : NaN,
-    });
+    steps.push(stepMeasures(h, { c, sE, sE2, sA, cP, sP, sAP }, scale, unit));
     const e = errBuf.subarray(off, off + c);
     if (unit !== 1) for (let j = 0; j < c; j++) e[j] = e[j]! * unit;
     errors.push(e);
   }
   return { steps, errors, origins, originStride: maxO, analytic: analytic?.shares() ?? null };
+}
+
+/** A step's running sums over its errors: count, sum, sum of squares and of absolutes, and the same for percentage errors. */
+interface StepSums {
+  c: number;
+  sE: number;
+  sE2: number;
+  sA: number;
+  cP: number;
+  sP: number;
+  sAP: number;
+}
+
+/**
+ * A step's measures from its sums; errors in units of `unit` (power-of-two rescaling, so multiplying
+ * back is exact), MASE against `scale` in the same units.
+ */
+function stepMeasures(step: number, t: StepSums, scale: number, unit: number): StepMeasures {
+  const { c, sE, sE2, sA, cP, sP, sAP } = t;
+  return {
+    step,
+    origins: c,
+    me: c > 0 ? (sE / c) * unit : NaN,
+    rmse: c > 0 ? Math.sqrt(sE2 / c) * unit : NaN,
+    mae: c > 0 ? (sA / c) * unit : NaN,
+    mpe: cP > 0 ? sP / cP : NaN,
+    mape: cP > 0 ? sAP / cP : NaN,
+    mase: c > 0 && scale > 0 ? sA / c / scale : NaN,
+  };
 }
 
 function methodBacktest(
