@@ -50816,16 +50816,7 @@ function prefixBacktest(y2, P, full, o) {
         sAP += Math.abs(pct2);
       }
     }
-    steps.push({
-      step: h,
-      origins: c,
-      me: c > 0 ? sE / c : NaN,
-      rmse: c > 0 ? Math.sqrt(sE2 / c) : NaN,
-      mae: c > 0 ? sA / c : NaN,
-      mpe: cP > 0 ? sP / cP : NaN,
-      mape: cP > 0 ? sAP / cP : NaN,
-      mase: c > 0 && scale > 0 ? sA / c / scale : NaN
-    });
+    steps.push(stepMeasures(h, { c, sE, sE2, sA, cP, sP, sAP }, scale, 1));
     const known = sortedIfKnown(all);
     if (known && c > 0) rememberSorted(e, () => withoutValues(known, all.subarray(c)));
     errors.push(e);
@@ -51155,21 +51146,25 @@ function scoreSteps(s2, method, scoring, o) {
       }
       analytic?.step(i0, iEnd, e2col, vcol, c);
     }
-    steps.push({
-      step: h,
-      origins: c,
-      me: c > 0 ? sE / c * unit2 : NaN,
-      rmse: c > 0 ? Math.sqrt(sE2 / c) * unit2 : NaN,
-      mae: c > 0 ? sA / c * unit2 : NaN,
-      mpe: cP > 0 ? sP / cP : NaN,
-      mape: cP > 0 ? sAP / cP : NaN,
-      mase: c > 0 && scale > 0 ? sA / c / scale : NaN
-    });
+    steps.push(stepMeasures(h, { c, sE, sE2, sA, cP, sP, sAP }, scale, unit2));
     const e = errBuf.subarray(off, off + c);
     if (unit2 !== 1) for (let j = 0; j < c; j++) e[j] = e[j] * unit2;
     errors.push(e);
   }
   return { steps, errors, origins, originStride: maxO, analytic: analytic?.shares() ?? null };
+}
+function stepMeasures(step, t, scale, unit2) {
+  const { c, sE, sE2, sA, cP, sP, sAP } = t;
+  return {
+    step,
+    origins: c,
+    me: c > 0 ? sE / c * unit2 : NaN,
+    rmse: c > 0 ? Math.sqrt(sE2 / c) * unit2 : NaN,
+    mae: c > 0 ? sA / c * unit2 : NaN,
+    mpe: cP > 0 ? sP / cP : NaN,
+    mape: cP > 0 ? sAP / cP : NaN,
+    mase: c > 0 && scale > 0 ? sA / c / scale : NaN
+  };
 }
 function methodBacktest(method, steps, errors, coverage) {
   const s1 = steps[0];
