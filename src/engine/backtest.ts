@@ -14,8 +14,9 @@
 // whole series), and the number of origins. Coverage is pooled over all steps and origins:
 // - analytic: at every origin, with that origin's sigma and df;
 // - empirical: at an origin, the errors known by then (actuals at or before the origin), from the
-//   first origin with at least minErrors of them, kept in a Fenwick tree of ranks so each origin
-//   costs O(log T), with their running mean and squares and errorspread.ts's sums (O(h) each);
+//   first origin with at least minErrors of them, kept in a Fenwick tree of ranks (the ranks come
+//   from the errors' sort, numeric.ts sortedRanks) so each origin costs O(log T), with their
+//   running mean and squares and errorspread.ts's sums (O(h) each);
 // - bootstrap: at most BOOTSTRAP_ORIGINS origins spread evenly, BOOTSTRAP_PATHS paths each, to keep
 //   the cost bounded; the paths resample that origin's own centred residuals (simulate.ts).
 // Both judge against the interval a forecast would have had there: the spliced distribution of
@@ -26,7 +27,7 @@
 // way; empiricalCoverage and bootstrapCoverage measure the other two kinds.
 import { tQuantileFrom, tQuantileTable } from './dist.js';
 import { ErrorSpreadSums, sharedShocks } from './errorspread.js';
-import { DEFAULT_MIN_ERRORS, def6Quantile, splicedCovers } from './forecast.js';
+import { DEFAULT_MIN_ERRORS, def6Quantile, splicedCovers, type SplicedSample } from './forecast.js';
 import { levelKey, levelTail } from './levels.js';
 import { methodLabel } from './methods.js';
 import {
@@ -37,8 +38,9 @@ import {
   meanAndSquares,
   present,
   rememberSorted,
-  sortedCopy,
   sortedIfKnown,
+  sortedRanks,
+  type Squares,
 } from './numeric.js';
 import { createRandom } from './random.js';
 import { simulateInto, type SimSpec } from './simulate.js';
@@ -92,17 +94,15 @@ export function runBacktest(y: Float64Array, methods: MethodName[], o: BacktestO
       horizon: o.horizon,
       levels: o.levels,
       analytic: kinds.includes('analytic'),
-      origins: kinds.includes('empirical'),
     });
     const coverage: MethodBacktest['coverage'] = {};
     if (scored.analytic) coverage.analytic = scored.analytic;
-    if (scored.origins)
+    if (kinds.includes('empirical'))
       coverage.empirical = empiricalCoverage({
         method,
         season: o.season,
         errors: scored.errors,
-        origins: scored.origins,
-        originStride: scored.originStride,
+        observed: observedIndices(ys),
         levels: o.levels,
         minErrors,
       });
@@ -145,25 +145,27 @@ export function measureCoverage(
       levels: o.levels,
       seed: o.seed ?? 1,
     });
-  // The origin of each stored error: step h's errors come, in order, from the latest origins whose
-  // step-h actual is observed (origins run to T - 1 - h; missing actuals leave no error).
-  const T = y.length;
-  const maxO = Math.max(0, T - o.minTrain);
-  const origins = new Int32Array(mb.errors.length * maxO);
-  mb.errors.forEach((e, k) => {
-    const h = k + 1;
-    let j = e.length - 1;
-    for (let i = T - 1 - h; j >= 0 && i >= 0; i--) if (present(y[i + h]!)) origins[k * maxO + j--] = i;
-  });
   return empiricalCoverage({
     method: mb.method,
     season: o.season,
     errors: mb.errors,
-    origins,
-    originStride: maxO,
+    observed: observedIndices(y),
     levels: o.levels,
     minErrors: o.minErrors ?? DEFAULT_MIN_ERRORS,
   });
+}
+
+/**
+ * The indices of the observed (present) values of y, ascending (workspace scratch, `count` of them).
+ * Step h's errors are those of the actuals at the last observed indices, in order (origins run to
+ * T - 1 - h and a missing actual leaves no error), so error j of N has its origin at
+ * at[count - N + j] - h.
+ */
+function observedIndices(y: Float64Array): { at: Int32Array; count: number } {
+  const at = scratch.i32('backtest.observed', y.length);
+  let count = 0;
+  for (let i = 0; i < y.length; i++) if (present(y[i]!)) at[count++] = i;
+  return { at, count };
 }
 
 /**
@@ -599,17 +601,12 @@ interface ScoreOptions {
   levels: number[];
   /** Count analytic coverage. */
   analytic: boolean;
-  /** Record each error's origin (for empirical coverage). */
-  origins: boolean;
 }
 
 interface Scored {
   steps: StepMeasures[];
   /** Errors per step in actual units, in origin order. */
   errors: Float64Array[];
-  /** Origin (last training index) of error j of step h at (h - 1) * originStride + j. */
-  origins: Int32Array | null;
-  originStride: number;
   analytic: Record<string, number> | null;
 }
 
@@ -626,7 +623,6 @@ function scoreSteps(s: Prepared, method: MethodName, scoring: Scoring, o: ScoreO
   // Step by step: each origin's forecast and variance factor for step h, then the error and every
   // running sum in scalars.
   const errBuf = new Float64Array(H * maxO);
-  const origins = o.origins ? new Int32Array(H * maxO) : null;
   const fcol = scratch.f64('backtest.forecast', T);
   const vcol = scratch.f64('backtest.factor', T);
   const e2col = scratch.f64('backtest.e2', T);
@@ -652,7 +648,6 @@ function scoreSteps(s: Prepared, method: MethodName, scoring: Scoring, o: ScoreO
         }
         const e = a - fcol[i]!;
         errBuf[off + c] = e;
-        if (origins) origins[off + c] = i;
         c++;
         sE += e;
         const e2 = e * e;
@@ -674,7 +669,7 @@ function scoreSteps(s: Prepared, method: MethodName, scoring: Scoring, o: ScoreO
     if (unit !== 1) for (let j = 0; j < c; j++) e[j] = e[j]! * unit;
     errors.push(e);
   }
-  return { steps, errors, origins, originStride: maxO, analytic: analytic?.shares() ?? null };
+  return { steps, errors, analytic: analytic?.shares() ?? null };
 }
 
 /** A step's running sums over its errors: count, sum, sum of squares and of absolutes, and the same for percentage errors. */
@@ -796,9 +791,8 @@ interface EmpiricalCoverageOptions {
   season: number;
   /** Errors per step, in origin order. */
   errors: Float64Array[];
-  /** Origin of error j of step h at (h - 1) * originStride + j. */
-  origins: Int32Array;
-  originStride: number;
+  /** The series' observed indices (observedIndices): where each error's origin comes from. */
+  observed: { at: Int32Array; count: number };
   levels: number[];
   /** Errors that must be known before an origin is judged. */
   minErrors: number;
@@ -812,6 +806,7 @@ interface EmpiricalCoverageOptions {
  */
 function empiricalCoverage(o: EmpiricalCoverageOptions): Record<string, number> {
   const { errors, levels, minErrors } = o;
+  const { at, count } = o.observed;
   const L = levels.length;
   const alphas = levels.map(levelTail);
   const inside = new Int32Array(L);
@@ -821,41 +816,49 @@ function empiricalCoverage(o: EmpiricalCoverageOptions): Record<string, number> 
     const e = errors[h]!;
     const N = e.length;
     if (N <= minErrors) continue;
-    const orig = o.origins.subarray(h * o.originStride, h * o.originStride + N);
-    const sorted = sortedCopy(e);
-    // Each error's first position among the sorted errors (ties share it): the tree counts the
-    // errors known so far at these positions, so its k-th counted position is their k-th smallest.
-    const lo = scratch.i32('empirical.lo', N);
-    for (let j = 0; j < N; j++) lo[j] = lowerBound(sorted, e[j]!);
+    // Error j's actual is at[first + j], its origin h + 1 steps before.
+    const first = count - N;
+    const lead = h + 1;
+    // Each error's first position among the sorted errors (ties share it), from the sort itself: the
+    // tree counts the errors known so far at these positions, so its k-th counted position is their
+    // k-th smallest.
+    const { sorted, first: lo } = sortedRanks(e);
     tree.reset(N);
     const order = (k: number): number => sorted[tree.kth(k)]!;
     const stats = new Welford();
-    const spread = new ErrorSpreadSums(o.method, o.season, h + 1, orig[0]!);
-    const shared = sharedShocks(o.method, o.season, h + 1);
+    const spread = new ErrorSpreadSums(o.method, o.season, lead, at[first]! - lead);
+    const shared = sharedShocks(o.method, o.season, lead);
+    // One sample, updated before each judgement (its fields are what splicedCovers reads).
+    const sq: Squares = { n: 0, mean: 0, ss: 0, sd: (df: number) => Math.sqrt(Math.max(0, stats.m2) / df) };
+    const sample: SplicedSample = {
+      q6: (p: number): number => def6Quantile(order, sq.n, p),
+      sq,
+      offset: 0,
+      base: 0,
+      df: 0,
+      observed: null,
+    };
     // Judge at most about EMPIRICAL_COVERAGE_POINTS errors per step, evenly spread over the origins
     // (every error of a short series): the share is a calibration check, and this bounds its cost.
+    // Only the judged errors need the known ones counted: an error is known at origin i once its
+    // actual is at or before i, and origins grow with j.
     const stride = Math.max(1, Math.floor(N / EMPIRICAL_COVERAGE_POINTS));
     let known = 0;
-    for (let j = 0; j < N; j++) {
-      const oj = orig[j]!;
-      while (known < j && orig[known]! + h + 1 <= oj) {
+    for (let j = 0; j < N; j += stride) {
+      const actual = at[first + j]!; // the judged error's actual; its origin is actual - lead
+      while (known < j && at[first + known]! <= actual - lead) {
         tree.add(lo[known]!);
         stats.add(e[known]!);
         spread.add();
         known++;
       }
-      if (known < minErrors || j % stride !== 0) continue;
-      const x = e[j]!;
-      const n = known;
-      const sq = {
-        n,
-        mean: stats.mean,
-        ss: stats.m2,
-        sd: (df: number) => Math.sqrt(Math.max(0, stats.m2) / df),
-      };
-      const q6 = (p: number): number => def6Quantile(order, n, p);
-      const observed = spread.spread(oj + 1);
-      splicedCovers({ q6, sq, offset: 0, base: n / shared, df: 0, observed }, x, alphas, inside);
+      if (known < minErrors) continue;
+      sq.n = known;
+      sq.mean = stats.mean;
+      sq.ss = stats.m2;
+      sample.base = known / shared;
+      sample.observed = spread.spread(actual - lead + 1);
+      splicedCovers(sample, e[j]!, alphas, inside);
       total++;
     }
   }

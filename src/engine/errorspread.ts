@@ -86,8 +86,10 @@ export class ErrorSpreadSums {
   private total = 0;
   private frob = 0;
   private rows2 = 0;
-  private readonly rows: number[] = [];
+  /** Row sums of the last `reach` errors, error q at q % reach (older rows no longer change). */
+  private readonly rows: Float64Array;
   private readonly m: number;
+  private readonly k: number;
   private readonly reach: number;
 
   constructor(
@@ -97,31 +99,51 @@ export class ErrorSpreadSums {
     private readonly first: number,
   ) {
     this.m = Math.max(1, Math.floor(season));
-    this.reach = method === 'seasonal-naive' ? this.m * Math.ceil(h / this.m) : h;
+    this.k = Math.ceil(h / this.m);
+    this.reach = method === 'seasonal-naive' ? this.m * this.k : h;
+    this.rows = new Float64Array(this.reach);
   }
 
-  /** Adds the next error (origin first + count so far). */
+  /**
+   * Adds the next error (origin first + count so far): the covariances of the file comment with its
+   * earlier neighbours within reach, nearest first (the same values and order as covariance()).
+   * Seasonal-naive errors share shocks only a whole number of seasons apart: the pairs between are 0.
+   */
   add(): void {
-    const { method, m, h, rows } = this;
-    const j = this.first + this.n;
+    const { method, m, h, k, rows, reach } = this;
+    const n = this.n;
+    const j = this.first + n;
     const cjj = covariance(method, m, h, j, j);
     let rj = cjj;
     this.trace += cjj;
     this.frob += cjj * cjj;
     this.total += cjj;
-    // Seasonal-naive errors share shocks only a whole number of seasons apart: the pairs between are 0.
-    const stride = method === 'seasonal-naive' ? m : 1;
-    for (let q = this.n - stride; q >= Math.max(0, this.n - this.reach + 1); q -= stride) {
-      const c = covariance(method, m, h, this.first + q, j);
+    const seasonal = method === 'seasonal-naive';
+    const stride = seasonal ? m : 1;
+    const stop = Math.max(0, n - reach + 1);
+    // Within reach every pair is d = n - q < h apart (whole seasons, fewer than k, for seasonal naive).
+    for (let q = n - stride, s = 1; q >= stop; q -= stride, s++) {
+      const d = n - q;
+      const c =
+        method === 'mean'
+          ? 1 / (j + 1)
+          : method === 'naive'
+            ? h - d
+            : method === 'drift'
+              ? j > 0
+                ? (h - d) * (1 + h / j)
+                : NaN
+              : Math.max(0, k - s);
       if (c === 0) continue;
-      const r = rows[q]!;
+      const slot = q % reach;
+      const r = rows[slot]!;
       this.rows2 += (r + c) * (r + c) - r * r;
-      rows[q] = r + c;
+      rows[slot] = r + c;
       rj += c;
       this.frob += 2 * c * c;
       this.total += 2 * c;
     }
-    rows.push(rj);
+    rows[n % reach] = rj;
     this.rows2 += rj * rj;
     this.n++;
   }

@@ -134,13 +134,22 @@ export function upperBound(a: ArrayLike<number>, x: number, n = a.length): numbe
  * the built-in sort on the few hundred to few thousand entries the engine sorts.
  */
 export function sortAscending(a: Float64Array): Float64Array {
+  return sortInPlace(a, null);
+}
+
+/**
+ * sortAscending, moving `idx` along with `a` (idx[k] travels with a[k]) unless `a` holds NaN (then
+ * the built-in sort, and idx unchanged: the caller checks with hasNaN). Zeros of both signs end
+ * together, -0 first; which index lands on which zero is unspecified.
+ */
+function sortInPlace(a: Float64Array, idx: Int32Array | null): Float64Array {
   let zeros = 0;
   for (let i = 0; i < a.length; i++) {
     const x = a[i]!;
     if (x !== x) return a.sort(); // NaN: the built-in order
     if (x === 0) zeros++;
   }
-  quicksort(a, 0, a.length - 1);
+  quicksort(a, idx, 0, a.length - 1);
   if (zeros > 1) {
     // Equal under <, so the zeros lie together in some order: put -0 first, as the built-in sort does.
     let i = lowerBound(a, 0);
@@ -158,9 +167,9 @@ let partitionRight = 0;
 /**
  * Hoare's partition of a[lo..hi] around the median of a[lo], a[mid], a[hi]: afterwards a[lo..j] <=
  * pivot <= a[partitionRight..hi] (and anything between equals the pivot). Returns j. Shared by the
- * sort and the selection.
+ * sort and the selection; `idx`, when given, is swapped along with `a`.
  */
-function partition(a: Float64Array, lo: number, hi: number): number {
+function partition(a: Float64Array, idx: Int32Array | null, lo: number, hi: number): number {
   const mid = (lo + hi) >>> 1;
   let x = a[lo]!;
   let y = a[mid]!;
@@ -178,6 +187,11 @@ function partition(a: Float64Array, lo: number, hi: number): number {
       const t = a[i]!;
       a[i] = a[j]!;
       a[j] = t;
+      if (idx !== null) {
+        const u = idx[i]!;
+        idx[i] = idx[j]!;
+        idx[j] = u;
+      }
       i++;
       j--;
     }
@@ -186,43 +200,89 @@ function partition(a: Float64Array, lo: number, hi: number): number {
   return j;
 }
 
-function quicksort(a: Float64Array, lo: number, hi: number): void {
+function quicksort(a: Float64Array, idx: Int32Array | null, lo: number, hi: number): void {
   while (hi - lo > 16) {
-    const j = partition(a, lo, hi);
+    const j = partition(a, idx, lo, hi);
     const i = partitionRight;
     // Recurse into the smaller part, loop on the larger: the stack stays O(log n).
     if (j - lo < hi - i) {
-      quicksort(a, lo, j);
+      quicksort(a, idx, lo, j);
       lo = i;
     } else {
-      quicksort(a, i, hi);
+      quicksort(a, idx, i, hi);
       hi = j;
     }
   }
-  for (let i = lo + 1; i <= hi; i++) {
-    const x = a[i]!;
-    let j = i - 1;
-    while (j >= lo && a[j]! > x) {
-      a[j + 1] = a[j]!;
-      j--;
+  if (idx === null)
+    for (let i = lo + 1; i <= hi; i++) {
+      const x = a[i]!;
+      let j = i - 1;
+      while (j >= lo && a[j]! > x) {
+        a[j + 1] = a[j]!;
+        j--;
+      }
+      a[j + 1] = x;
     }
-    a[j + 1] = x;
-  }
+  else
+    for (let i = lo + 1; i <= hi; i++) {
+      const x = a[i]!;
+      const u = idx[i]!;
+      let j = i - 1;
+      while (j >= lo && a[j]! > x) {
+        a[j + 1] = a[j]!;
+        idx[j + 1] = idx[j]!;
+        j--;
+      }
+      a[j + 1] = x;
+      idx[j + 1] = u;
+    }
 }
 
 const sortedCache = new WeakMap<Float64Array, Float64Array | (() => Float64Array)>();
+const rankCache = new WeakMap<Float64Array, Int32Array>();
 
 /**
  * An ascending copy of `xs`, computed once per array (the backtest's errors are sorted for the
  * empirical intervals, their coverage and every later tail probability). Callers must not change
- * `xs` afterwards, nor the copy.
+ * `xs` afterwards, nor the copy. The same sort also records each entry's rank (see sortedRanks).
  */
 export function sortedCopy(xs: Float64Array): Float64Array {
   const known = sortedIfKnown(xs);
   if (known) return known;
-  const s = sortAscending(xs.slice());
+  const n = xs.length;
+  const s = xs.slice();
+  const idx = new Int32Array(n);
+  for (let k = 0; k < n; k++) idx[k] = k;
+  sortInPlace(s, idx);
   sortedCache.set(xs, s);
+  if (n === 0 || s[n - 1] === s[n - 1]) {
+    // No NaN (it sorts last): idx says where each entry went; ties share their first position.
+    const first = new Int32Array(n);
+    let g = 0;
+    for (let k = 0; k < n; k++) {
+      if (k > 0 && s[k] !== s[k - 1]) g = k;
+      first[idx[k]!] = g;
+    }
+    rankCache.set(xs, first);
+  }
   return s;
+}
+
+/**
+ * The ascending copy of `xs` (sortedCopy) and, for each entry xs[j], the first position of its
+ * value among the sorted ones: lowerBound(sorted, xs[j]), the number of entries below it (ties, and
+ * -0 with +0, share it). From the sort itself when sortedCopy made the copy; by binary search
+ * otherwise. Callers must not change either array.
+ */
+export function sortedRanks(xs: Float64Array): { sorted: Float64Array; first: Int32Array } {
+  const sorted = sortedCopy(xs);
+  let first = rankCache.get(xs);
+  if (!first) {
+    first = new Int32Array(xs.length);
+    for (let j = 0; j < xs.length; j++) first[j] = lowerBound(sorted, xs[j]!);
+    rankCache.set(xs, first);
+  }
+  return { sorted, first };
 }
 
 /** The ascending copy of `xs` when sortedCopy already made it (or was told how), else undefined. */
@@ -361,7 +421,7 @@ export function selectQuantiles(work: Float64Array, probs: ArrayLike<number>, ou
 /** Puts the k-th smallest of a[lo..hi] at a[k], smaller ones left of it, larger right (Hoare). */
 function select(a: Float64Array, lo: number, hi: number, k: number): void {
   while (hi > lo) {
-    const j = partition(a, lo, hi);
+    const j = partition(a, null, lo, hi);
     const i = partitionRight;
     if (k <= j) hi = j;
     else if (k >= i) lo = i;

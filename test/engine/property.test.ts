@@ -12,7 +12,13 @@ import {
   simulatePaths,
   type MethodName,
 } from '../../src/engine/index.js';
-import { sortAscending, sortedCopy } from '../../src/engine/numeric.js';
+import {
+  lowerBound,
+  rememberSorted,
+  sortAscending,
+  sortedCopy,
+  sortedRanks,
+} from '../../src/engine/numeric.js';
 
 const METHODS: MethodName[] = ['mean', 'naive', 'seasonal-naive', 'drift'];
 
@@ -227,12 +233,14 @@ describe('backtest equals a plain refit at every origin', () => {
 });
 
 describe('the engine sort', () => {
+  // Ties, -0 and +0, NaN and any double.
+  const value = fc.oneof(
+    fc.constantFrom(0, -0, NaN, 1, -1),
+    fc.integer({ min: -3, max: 3 }),
+    fc.double({ noNaN: false }),
+  );
+
   it('orders exactly as the built-in typed-array sort (ties, -0 and +0, NaN)', () => {
-    const value = fc.oneof(
-      fc.constantFrom(0, -0, NaN, 1, -1),
-      fc.integer({ min: -3, max: 3 }),
-      fc.double({ noNaN: false }),
-    );
     fc.assert(
       fc.property(fc.array(value, { maxLength: 300 }), (xs) => {
         const a = Float64Array.from(xs);
@@ -240,6 +248,30 @@ describe('the engine sort', () => {
         const want = Array.from(a.slice().sort());
         expect(got.length).toBe(want.length);
         got.forEach((x, i) => expect(Object.is(x, want[i])).toBe(true));
+      }),
+      { numRuns: 300 },
+    );
+  });
+
+  it('gives each entry the first position of its value among the sorted ones, from the sort itself or by search', () => {
+    // The reference: the built-in sort, and the count of entries below each value found by
+    // scanning it (ties, and -0 with +0, share a position; NaN is below nothing).
+    fc.assert(
+      fc.property(fc.array(value, { maxLength: 300 }), fc.boolean(), (xs, told) => {
+        const a = Float64Array.from(xs);
+        const want = a.slice().sort();
+        // Told the sorted copy beforehand (as the prefix backtest does), the ranks come by search.
+        if (told) rememberSorted(a, want.slice());
+        const { sorted, first } = sortedRanks(a);
+        expect(sorted.length).toBe(a.length);
+        sorted.forEach((x, i) => expect(Object.is(x, want[i])).toBe(true));
+        a.forEach((x, j) => {
+          let below = 0;
+          for (const w of want) if (w < x) below++;
+          expect(first[j]).toBe(below);
+          expect(first[j]).toBe(lowerBound(want, x));
+        });
+        expect(sortedRanks(a).first).toBe(first);
       }),
       { numRuns: 300 },
     );
