@@ -849,7 +849,6 @@ function empiricalCoverage(o: EmpiricalCoverageOptions): Record<string, number> 
       while (known < j && at[first + known]! <= actual - lead) {
         tree.add(lo[known]!);
         stats.add(e[known]!);
-        spread.add();
         known++;
       }
       if (known < minErrors) continue;
@@ -857,7 +856,7 @@ function empiricalCoverage(o: EmpiricalCoverageOptions): Record<string, number> 
       sq.mean = stats.mean;
       sq.ss = stats.m2;
       sample.base = known / shared;
-      sample.observed = spread.spread(actual - lead + 1);
+      sample.observed = spread.spreadAfter(known, actual - lead + 1);
       splicedCovers(sample, e[j]!, alphas, inside);
       total++;
     }

@@ -37,23 +37,6 @@ export function sharedShocks(method: MethodName, season: number, h: number): num
   return h;
 }
 
-/** Covariance of the step-h errors at origins i <= j, in units of sigma^2 (file comment). */
-function covariance(method: MethodName, m: number, h: number, i: number, j: number): number {
-  const d = j - i;
-  switch (method) {
-    case 'mean':
-      return d === 0 ? 1 + 1 / (i + 1) : d < h ? 1 / (j + 1) : 0;
-    case 'naive':
-      return Math.max(0, h - d);
-    case 'drift':
-      return j > 0 ? Math.max(0, h - d) * (1 + h / j) : NaN;
-    case 'seasonal-naive': {
-      const k = Math.ceil(h / m);
-      return d % m === 0 ? Math.max(0, k - d / m) : 0;
-    }
-  }
-}
-
 /** Var(e*) of the next step-h error from a prefix of T values, in units of sigma^2. */
 function nextVariance(method: MethodName, m: number, h: number, T: number): number {
   switch (method) {
@@ -73,6 +56,10 @@ export interface NextErrorSpread {
   ratio: number;
   df: number;
 }
+
+/** Answers of spreadAfter kept across series (a few thousand at most: the memo is emptied when full). */
+const spreadMemo = new Map<string, NextErrorSpread>();
+const SPREAD_MEMO_SIZE = 4096;
 
 /**
  * The sums behind R and the Satterthwaite df (nextErrorSpread) for errors added one at a time in
@@ -105,24 +92,38 @@ export class ErrorSpreadSums {
   }
 
   /**
-   * Adds the next error (origin first + count so far): the covariances of the file comment with its
-   * earlier neighbours within reach, nearest first (the same values and order as covariance()).
+   * Adds the next error (origin first + count so far): its covariances (file comment) with itself
+   * and with its earlier neighbours within reach, nearest first.
    * Seasonal-naive errors share shocks only a whole number of seasons apart: the pairs between are 0.
    */
   add(): void {
-    const { method, m, h, k, rows, reach } = this;
+    const { method, h, k, rows, reach } = this;
     const n = this.n;
     const j = this.first + n;
-    const cjj = covariance(method, m, h, j, j);
+    // C_jj here, and below C_ij (i = first + q) for the neighbours within reach: every such pair is
+    // d = n - q < h apart (s whole seasons, fewer than k, for seasonal naive), so each case of the
+    // file comment is its in-range branch.
+    const cjj =
+      method === 'mean'
+        ? 1 + 1 / (j + 1)
+        : method === 'naive'
+          ? h
+          : method === 'drift'
+            ? j > 0
+              ? h * (1 + h / j)
+              : NaN
+            : k;
     let rj = cjj;
     this.trace += cjj;
     this.frob += cjj * cjj;
     this.total += cjj;
-    const seasonal = method === 'seasonal-naive';
-    const stride = seasonal ? m : 1;
+    // Seasonal-naive errors share shocks only a whole number of seasons apart: the pairs between are 0.
+    const stride = method === 'seasonal-naive' ? this.m : 1;
     const stop = Math.max(0, n - reach + 1);
-    // Within reach every pair is d = n - q < h apart (whole seasons, fewer than k, for seasonal naive).
+    let slot = n % reach; // rows[slot] is error q's row sum; the slots run down with q
     for (let q = n - stride, s = 1; q >= stop; q -= stride, s++) {
+      slot -= stride;
+      if (slot < 0) slot += reach;
       const d = n - q;
       const c =
         method === 'mean'
@@ -135,7 +136,6 @@ export class ErrorSpreadSums {
                 : NaN
               : Math.max(0, k - s);
       if (c === 0) continue;
-      const slot = q % reach;
       const r = rows[slot]!;
       this.rows2 += (r + c) * (r + c) - r * r;
       rows[slot] = r + c;
@@ -146,6 +146,29 @@ export class ErrorSpreadSums {
     rows[n % reach] = rj;
     this.rows2 += rj * rj;
     this.n++;
+  }
+
+  /**
+   * spread(T) once the first `count` errors are added (adding up to there; counts only grow). For
+   * naive and seasonal naive the covariances depend on the origins' distance only, and Var(e*) not
+   * on T, so the answer depends on (method, season, h, count) alone: it is kept for the next series
+   * that asks (a fleet's series often share a length), and the errors are added only on a miss.
+   * `share` false: always from this object's own sums.
+   */
+  spreadAfter(count: number, T: number, share = true): NextErrorSpread {
+    const key =
+      share && this.first >= 0 && (this.method === 'naive' || this.method === 'seasonal-naive')
+        ? `${this.method} ${this.m} ${this.h} ${count}`
+        : null;
+    const known = key === null ? undefined : spreadMemo.get(key);
+    if (known) return known;
+    while (this.n < count) this.add();
+    const r = this.spread(T);
+    if (key !== null) {
+      if (spreadMemo.size >= SPREAD_MEMO_SIZE) spreadMemo.clear();
+      spreadMemo.set(key, Object.freeze(r));
+    }
+    return r;
   }
 
   /** R and the df for the errors added so far, the next error made from a prefix of T values. */
@@ -176,8 +199,6 @@ export function nextErrorSpread(
   n: number,
   T: number,
 ): NextErrorSpread {
-  const sums = new ErrorSpreadSums(method, season, h, T - h - n);
   if (T - h - n < 0) return { ratio: NaN, df: NaN };
-  for (let k = 0; k < n; k++) sums.add();
-  return sums.spread(T);
+  return new ErrorSpreadSums(method, season, h, T - h - n).spreadAfter(n, T);
 }

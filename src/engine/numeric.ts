@@ -69,16 +69,21 @@ export function meanAndSquares(xs: ArrayLike<number>, center?: number): Squares 
     const x = xs[i]!;
     if (Number.isFinite(x)) big = Math.max(big, Math.abs(x - m));
   }
-  if (big === 0 || !Number.isFinite(big))
-    return { n, mean, ss: big === 0 ? 0 : Infinity, sd: () => (big === 0 ? 0 : Infinity) };
+  if (big === 0 || !Number.isFinite(big)) {
+    const spread = big === 0 ? 0 : Infinity;
+    return { n, mean, ss: spread, sd: () => spread };
+  }
   const k = powerOfTwoBelow(big);
-  let ss = 0;
+  let sum = 0;
   for (let i = 0; i < xs.length; i++) {
     const x = xs[i]!;
     if (!Number.isFinite(x)) continue;
     const d = (x - m) / k;
-    ss += d * d;
+    sum += d * d;
   }
+  // Only final values are captured by sd: a variable a closure captures lives boxed on the heap, and
+  // a loop updating it would allocate at every step (so `big` and `sum` stay uncaptured).
+  const ss = sum;
   return { n, mean, ss: ss * k * k, sd: (df: number) => Math.sqrt(ss / df) * k };
 }
 

@@ -2,7 +2,7 @@
 // checked against plain linear algebra on the real backtest: every error is linear in the shocks,
 // so the backtest of a series made by one unit shock gives that shock's coefficient in every error.
 import { describe, expect, it } from 'vitest';
-import { nextErrorSpread, sharedShocks } from '../../src/engine/errorspread.js';
+import { ErrorSpreadSums, nextErrorSpread, sharedShocks } from '../../src/engine/errorspread.js';
 import { fitMethod, isFit, runBacktest, type MethodName } from '../../src/engine/index.js';
 
 /** The series a single unit shock at time s makes under the method's own model (all else zero). */
@@ -93,6 +93,39 @@ describe('next-error spread of backtest errors', () => {
       expect(got.ratio).toBeCloseTo((1 + 1 / n) / (n - 1), 14);
       expect(got.df).toBeCloseTo(n - 1, 10);
     }
+  });
+
+  it('sums added one at a time equal fresh ones; naive and seasonal naive depend on the count alone', () => {
+    // Derivation (file comment of errorspread.ts): their covariances depend on the distance between
+    // origins only and Var(e*) not on T, so a series may reuse another's answer for the same count;
+    // the mean's and drift's depend on where the origins lie. `count` errors from origin `first`
+    // forecast the next from T = first + count + h.
+    const same = (a: { ratio: number; df: number }, b: { ratio: number; df: number }): void => {
+      expect(Object.is(a.ratio, b.ratio) && Object.is(a.df, b.df)).toBe(true);
+    };
+    for (const [method, season] of [
+      ['naive', 1],
+      ['seasonal-naive', 7],
+      ['mean', 1],
+      ['drift', 1],
+    ] as const)
+      for (const h of [1, 5, 14]) {
+        const growing = new ErrorSpreadSums(method, season, h, 3);
+        for (const count of [0, 1, 2, 3, 20, 21, 60, 200]) {
+          const own = growing.spreadAfter(count, 3 + count + h, false);
+          same(own, new ErrorSpreadSums(method, season, h, 3).spreadAfter(count, 3 + count + h, false));
+          same(own, new ErrorSpreadSums(method, season, h, 3).spreadAfter(count, 3 + count + h));
+          same(own, nextErrorSpread(method, season, h, count, 3 + count + h));
+          const elsewhere = new ErrorSpreadSums(method, season, h, 40).spreadAfter(
+            count,
+            40 + count + h,
+            false,
+          );
+          same(elsewhere, new ErrorSpreadSums(method, season, h, 40).spreadAfter(count, 40 + count + h));
+          if (method === 'naive' || method === 'seasonal-naive') same(elsewhere, own);
+          else if (count >= 2) expect(elsewhere.ratio).not.toBe(own.ratio);
+        }
+      }
   });
 
   it('overlapping errors: more df than n / k - 1 independent blocks, and undefined below 2 errors', () => {
