@@ -57,9 +57,24 @@ export interface NextErrorSpread {
   df: number;
 }
 
-/** Answers of spreadAfter kept across series (a few thousand at most: the memo is emptied when full). */
-const spreadMemo = new Map<string, NextErrorSpread>();
-const SPREAD_MEMO_SIZE = 4096;
+/**
+ * Answers of spreadAfter kept across series for naive and seasonal naive, one table per (method,
+ * season, h) indexed by the error count (emptied when there are many tables).
+ */
+const spreadTables = new Map<string, NextErrorSpread[]>();
+const SPREAD_TABLES = 256;
+
+function spreadTable(method: MethodName, m: number, h: number): NextErrorSpread[] | null {
+  if (method !== 'naive' && method !== 'seasonal-naive') return null;
+  const key = `${method} ${m} ${h}`;
+  let table = spreadTables.get(key);
+  if (!table) {
+    if (spreadTables.size >= SPREAD_TABLES) spreadTables.clear();
+    table = [];
+    spreadTables.set(key, table);
+  }
+  return table;
+}
 
 /**
  * The sums behind R and the Satterthwaite df (nextErrorSpread) for errors added one at a time in
@@ -78,6 +93,8 @@ export class ErrorSpreadSums {
   private readonly m: number;
   private readonly k: number;
   private readonly reach: number;
+  /** Shared answers by count (spreadAfter), or null where they depend on the origins. */
+  private readonly table: NextErrorSpread[] | null;
 
   constructor(
     private readonly method: MethodName,
@@ -89,6 +106,7 @@ export class ErrorSpreadSums {
     this.k = Math.ceil(h / this.m);
     this.reach = method === 'seasonal-naive' ? this.m * this.k : h;
     this.rows = new Float64Array(this.reach);
+    this.table = first >= 0 ? spreadTable(method, this.m, h) : null;
   }
 
   /**
@@ -156,18 +174,12 @@ export class ErrorSpreadSums {
    * `share` false: always from this object's own sums.
    */
   spreadAfter(count: number, T: number, share = true): NextErrorSpread {
-    const key =
-      share && this.first >= 0 && (this.method === 'naive' || this.method === 'seasonal-naive')
-        ? `${this.method} ${this.m} ${this.h} ${count}`
-        : null;
-    const known = key === null ? undefined : spreadMemo.get(key);
+    const table = share ? this.table : null;
+    const known = table?.[count];
     if (known) return known;
     while (this.n < count) this.add();
     const r = this.spread(T);
-    if (key !== null) {
-      if (spreadMemo.size >= SPREAD_MEMO_SIZE) spreadMemo.clear();
-      spreadMemo.set(key, Object.freeze(r));
-    }
+    if (table) table[count] = Object.freeze(r);
     return r;
   }
 
