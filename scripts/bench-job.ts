@@ -3,7 +3,7 @@
 // markdown report. In the same run it parses the same files with csv-parse alone (parse-only), so
 // the job's CPU is reported as a ratio to that, which holds on a busy machine where seconds do not.
 // Prints one block: series, points, workers, seconds per stage, CPU, parse-only CPU and the ratio,
-// series per second, peak RSS, results bytes per series, and the machine's load (uptime).
+// series per second, peak RSS, results and spool bytes per series, and the machine's load (uptime).
 //
 // Usage: npm run bench:job [-- SERIES POINTS [--jobs N]] (runs as a bundle: scripts/run-bundled.mjs)
 // The fleet is generated once per size into the system's temp folder and reused.
@@ -13,11 +13,11 @@ import path from 'node:path';
 import { parse } from 'csv-parse';
 import { loadPlan } from '../src/config/index.js';
 import { createRandom } from '../src/engine/random.js';
-import { inputGuard, resultsJson, writeOutput } from '../src/files.js';
+import { inputGuard, resultsJsonStream, writeOutput } from '../src/files.js';
 import { ingest } from '../src/ingest/index.js';
 import { analyseFleet, finishResults } from '../src/job.js';
 import { defaultJobs, isPoolWorker } from '../src/pool.js';
-import { renderMarkdown } from '../src/report/index.js';
+import { renderMarkdown, reportDetail } from '../src/report/index.js';
 
 const args = process.argv.slice(2);
 const flag = (name: string): string | undefined => {
@@ -118,12 +118,24 @@ async function benchmark(): Promise<void> {
   const t2 = performance.now();
   const analysed = await analyseFleet(plan, outcome, { jobs: JOBS });
   const t3 = performance.now();
-  const results = finishResults(plan, outcome, analysed, { failOn: 'both' });
+  // As the command does (src/cli/main.ts): the results file streamed from the spool, and the report
+  // from the run with only the series it can show read back in full.
+  const run = finishResults(plan, outcome, analysed, { failOn: 'both' });
+  const { series: _series, ...head } = run.lean;
   const guard = await inputGuard(dir, 'leadline.yml');
-  const jsonPath = await writeOutput(path.join(out, 'results.json'), resultsJson(results), guard, 'bench');
+  const jsonPath = await writeOutput(
+    path.join(out, 'results.json'),
+    resultsJsonStream(head, run.series()),
+    guard,
+    'bench',
+  );
   const t4 = performance.now();
-  await writeOutput(path.join(out, 'report.md'), renderMarkdown(results), guard, 'bench');
+  const shown = await run.detailed(reportDetail(run.lean, [{ markdown: {} }]));
+  await writeOutput(path.join(out, 'report.md'), renderMarkdown(shown), guard, 'bench');
   const t5 = performance.now();
+  const spoolBytes = analysed.spool.bytes;
+  run.close();
+  const results = run.lean;
   const jobCpu = cpu(c0);
   const loadAfter = os.loadavg();
 
@@ -145,7 +157,7 @@ async function benchmark(): Promise<void> {
   );
   console.log(`series per second ${(results.series.length / (wall / 1000)).toFixed(0)}`);
   console.log(
-    `peak RSS ${(peakRss / 2 ** 20).toFixed(0)} MiB; results ${n(Math.round(jsonBytes / results.series.length))} bytes per series (${(jsonBytes / 2 ** 20).toFixed(1)} MiB)`,
+    `peak RSS ${(peakRss / 2 ** 20).toFixed(0)} MiB; results ${n(Math.round(jsonBytes / results.series.length))} bytes per series (${(jsonBytes / 2 ** 20).toFixed(1)} MiB); spool ${n(Math.round(spoolBytes / results.series.length))} bytes per series`,
   );
   console.log(
     `load (1/5/15 min) before ${loadBefore.map((x) => x.toFixed(2)).join(' ')}, after ${loadAfter.map((x) => x.toFixed(2)).join(' ')}; ${os.availableParallelism()} cores; verdict ${results.verdict}, ${results.summary.alarms} alarms`,

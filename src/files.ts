@@ -224,10 +224,13 @@ export function* resultsJson(results: Results): Generator<string> {
   yield resultsJsonEnd(series.length);
 }
 
-/** The same text as resultsJson, with the series coming from a stream (a merge writes them as it reads). */
+/**
+ * The same text as resultsJson, with the series coming from a stream (a run reads them back from its
+ * spool, a merge from the shards' files as it reads them), so one series at a time is held.
+ */
 export async function* resultsJsonStream(
   head: Omit<Results, 'series'>,
-  series: AsyncIterable<SeriesResult>,
+  series: Iterable<SeriesResult> | AsyncIterable<SeriesResult>,
 ): AsyncGenerator<string> {
   yield resultsJsonHead(head);
   let i = 0;

@@ -15,6 +15,8 @@ import {
   baseFindings,
   compactDraft,
   concludeRun,
+  leanDraft,
+  settleFull,
   countObserved,
   failedDraft,
   lastObserved,
@@ -23,10 +25,11 @@ import {
   seriesName,
   type SeriesDraft,
 } from './outcome.js';
-import type { FailOn, Origin, Problem, Results } from './results.js';
+import type { FailOn, Origin, Problem, Results, RunOutput, SeriesResult } from './results.js';
 import { RESULTS_SCHEMA_ID } from './results.js';
 import { defaultJobs, defineTask, runPool } from './pool.js';
 import { shardOf, type Shard } from './shard.js';
+import { fileSpool, memorySpool, type Spool } from './spool.js';
 import { timeAfterLast, timeAtIndex } from './time.js';
 import { VERSION } from './version.js';
 
@@ -64,12 +67,38 @@ export interface JobOptions {
   fullHistory?: boolean;
 }
 
-export async function runJob(o: JobOptions): Promise<Results> {
+/**
+ * A run, concluded. Each series went to a spool (src/spool.ts) as soon as it was analysed; the run
+ * holds only what concluding needs, so a fleet of any size fits in memory. Call close() when done.
+ */
+export interface JobRun extends RunOutput {
+  /** Every verdict and count; the series without their charts and tables (results.ts withoutDetail). */
+  lean: Results;
+  /** The full series in the run's order, read again from the spool, with what concluding decided. */
+  series: () => Generator<SeriesResult>;
+  /** The whole run in memory. */
+  full: () => Results;
+  /** Removes the spool. */
+  close: () => void;
+}
+
+/** The whole job: config, ingest, analysis (worker threads), alarms and results. */
+export async function startJob(o: JobOptions): Promise<JobRun> {
   const plan = await loadPlan(o.configPath, o.cwd); // config
   const configHash = await fileHash(path.resolve(o.cwd, o.configPath));
   const outcome = await ingest(plan, o.cwd); // ingest
   const analysed = await analyseFleet(plan, outcome, o); // analyse (in worker threads)
   return finishResults(plan, outcome, analysed, { ...o, configHash }); // alarms, results
+}
+
+/** The whole job's results in memory (a small run, tests). */
+export async function runJob(o: JobOptions): Promise<Results> {
+  const run = await startJob(o);
+  try {
+    return run.full();
+  } finally {
+    run.close();
+  }
 }
 
 type BuildOptions = Pick<
@@ -86,16 +115,16 @@ type BuildOptions = Pick<
   | 'fullHistory'
 > & { configHash?: string | null };
 
-/** Pure: the plan and what ingestion produced -> Results, on this thread. */
+/** Pure: the plan and what ingestion produced -> Results, on this thread, in memory. */
 export function buildResults(plan: Plan, outcome: IngestOutcome, o: BuildOptions): Results {
   const init = analyseInit(plan, o);
   const todo = toAnalyse(plan, outcome, o.shard);
-  const analysed = todo.map((item, done) => {
-    const r = analyseTask.run(init, item);
+  const analysed = keepAnalysed(memorySpool<SeriesDraft>());
+  todo.forEach((item, done) => {
+    analysed.add(analyseTask.run(init, item));
     o.onProgress?.(done + 1, todo.length);
-    return r;
   });
-  return finishResults(plan, outcome, analysed, o);
+  return finishResults(plan, outcome, analysed, o).full();
 }
 
 /** A series to analyse: the series, its metric's place in the plan, its place in the run. */
@@ -157,35 +186,65 @@ const analyseTask = defineTask(
 export const SERIES_PER_WORKER = 20;
 
 /**
+ * What the analysis hands on: each series in full in a spool, and without its charts and tables
+ * (outcome.ts leanDraft) in memory, both in the run's order.
+ */
+export interface Analysed {
+  drafts: SeriesDraft[];
+  spool: Spool<SeriesDraft>;
+  add: (draft: SeriesDraft) => void;
+}
+
+function keepAnalysed(spool: Spool<SeriesDraft>): Analysed {
+  const drafts: SeriesDraft[] = [];
+  return {
+    drafts,
+    spool,
+    add(d) {
+      spool.add(d);
+      drafts.push(leanDraft(d));
+    },
+  };
+}
+
+/**
  * The series this run (or shard) analyses, in the run's order, by `jobs` worker threads (fewer for
  * a small fleet; none for one). The same results whatever the number: each series is analysed alone,
- * with its own seed, and results are handed back in input order.
+ * with its own seed, and results are handed back in input order. Each goes to a spool on disk as it
+ * comes (the caller closes it, through the JobRun finishResults makes).
  */
 export async function analyseFleet(
   plan: Plan,
   outcome: IngestOutcome,
   o: Pick<JobOptions, 'newRows' | 'onProgress' | 'jobs' | 'shard' | 'fullHistory'>,
-): Promise<SeriesDraft[]> {
+): Promise<Analysed> {
   const todo = toAnalyse(plan, outcome, o.shard);
   const jobs = Math.min(o.jobs ?? defaultJobs(), Math.floor(todo.length / SERIES_PER_WORKER));
-  const analysed: SeriesDraft[] = [];
-  await runPool(analyseTask, todo, { jobs, init: analyseInit(plan, o) }, (r, i) => {
-    analysed.push(jobs > 1 ? compactDraft(r) : r);
-    o.onProgress?.(i + 1, todo.length);
-  });
+  // Read back from the spool, a draft's per-level records are rebuilt small (see compactDraft).
+  const analysed = keepAnalysed(fileSpool<SeriesDraft>(compactDraft));
+  try {
+    await runPool(analyseTask, todo, { jobs, init: analyseInit(plan, o) }, (r, i) => {
+      analysed.add(r);
+      o.onProgress?.(i + 1, todo.length);
+    });
+  } catch (e) {
+    analysed.spool.close();
+    throw e;
+  }
   return analysed;
 }
 
 /**
- * The analysed series (analyseFleet's, in its order) and ingestion's failures -> Results: run-wide
- * alarm control, verdicts, summary and gate (concludeRun), and for a shard each series' place.
+ * The analysed series (analyseFleet's, in its order) and ingestion's failures -> the concluded run:
+ * run-wide alarm control, verdicts, summary and gate (concludeRun) over the lean series, and for a
+ * shard each series' place; the full series are read back from the spool when an output asks.
  */
 export function finishResults(
   plan: Plan,
   outcome: IngestOutcome,
-  analysed: SeriesDraft[],
+  analysed: Analysed,
   o: BuildOptions,
-): Results {
+): JobRun {
   // Every series of the run in the run's order (analysed ones, then the ones that could not be read);
   // a shard keeps its own, remembering each one's place so a merge restores the order.
   const shard = o.shard && o.shard.count > 1 ? o.shard : null;
@@ -194,10 +253,10 @@ export function finishResults(
   const failed = outcome.failures
     .map((f, j) => ({ f, i: outcome.series.length + j }))
     .filter(({ f }) => mine(seriesName(f.metric, f.column, f.key)));
-  const drafts: SeriesDraft[] = [
-    ...analysed.map((d, k) => (shard ? { ...d, position: todo[k]!.position } : d)),
-    ...failed.map(({ f, i }) => ({ ...failedDraft(f), ...(shard ? { position: i } : {}) })),
-  ];
+  const placed = (d: SeriesDraft, k: number): SeriesDraft =>
+    shard ? { ...d, position: todo[k]!.position } : d;
+  const failedDrafts = failed.map(({ f, i }) => ({ ...failedDraft(f), ...(shard ? { position: i } : {}) }));
+  const drafts: SeriesDraft[] = [...analysed.drafts.map(placed), ...failedDrafts.map(leanDraft)];
   const problems = failed
     .map(({ f, i }) => {
       const p = problemOf(f);
@@ -213,7 +272,7 @@ export function finishResults(
     falseAlarms: plan.falseAlarms,
     failOn: o.failOn,
   });
-  const out: Results = {
+  const lean: Results = {
     $schema: RESULTS_SCHEMA_ID,
     version: 1,
     generator: { name: 'leadline', version: VERSION },
@@ -231,9 +290,37 @@ export function finishResults(
     series,
     problems,
   };
-  if (o.baseNote) out.notes = [o.baseNote];
-  out.scope = scope;
-  return out;
+  if (o.baseNote) lean.notes = [o.baseNote];
+  lean.scope = scope;
+
+  // The full series: the analysed ones from the spool, then the failed ones (small, kept here).
+  function* fullSeries(wanted?: ReadonlySet<number>): Generator<[number, SeriesResult]> {
+    let k = 0;
+    if (!wanted || [...wanted].some((i) => i < analysed.drafts.length))
+      for (const d of analysed.spool.read()) {
+        if (!wanted || wanted.has(k)) yield [k, settleFull(placed(d, k), series[k]!)];
+        k++;
+      }
+    else k = analysed.drafts.length;
+    for (const d of failedDrafts) {
+      if (!wanted || wanted.has(k)) yield [k, settleFull(d, series[k]!)];
+      k++;
+    }
+  }
+  const inFull = (wanted: ReadonlySet<number>): Results => {
+    const out = [...series];
+    for (const [k, s] of fullSeries(wanted)) out[k] = s;
+    return { ...lean, series: out };
+  };
+  return {
+    lean,
+    *series() {
+      for (const [, s] of fullSeries()) yield s;
+    },
+    detailed: async (wanted) => inFull(wanted),
+    full: () => inFull(new Set(series.keys())),
+    close: () => analysed.spool.close(),
+  };
 }
 
 /** One series through the stages: season (ingest), analysis (engine), checks and limit (alarms), shape (results). */

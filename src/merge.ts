@@ -21,6 +21,7 @@ import {
   type Problem,
   type Results,
   type SeriesResult,
+  withoutDetail,
 } from './results.js';
 import { MAX_SHARDS, shardLabel } from './shard.js';
 import { VERSION } from './version.js';
@@ -52,13 +53,15 @@ export interface MergeOptions {
 
 export interface Merged {
   /**
-   * The run's results without their series' charts and tables (history, residuals, forecast,
-   * backtest, residual checks are empty): enough for the terminal summary, the outputs and the gate.
+   * The run's results without their series' charts and tables (results.ts withoutDetail): enough for
+   * the terminal summary, the outputs and the gate.
    */
   lean: Results;
   /** The full series in the run's order, read again from the files. */
   series: () => AsyncGenerator<SeriesResult>;
-  /** The whole merged Results in memory (for the report renderers). */
+  /** The merged Results with the series at these places in full, the others lean (for the reports). */
+  detailed: (indices: ReadonlySet<number>) => Promise<Results>;
+  /** The whole merged Results in memory. */
   full: () => Promise<Results>;
 }
 
@@ -232,11 +235,6 @@ function validSeries(file: string, value: unknown, line: number): SeriesResult {
   return r.data;
 }
 
-/** A series without its charts and tables: what concluding the run reads. */
-function lean(s: SeriesResult): SeriesResult {
-  return { ...s, forecast: [], residualChecks: null, backtest: null, history: [], residuals: [] };
-}
-
 const short = (x: string | null) => (x === null ? 'none' : x.length > 24 ? `${x.slice(0, 19)}…` : x);
 
 /** Checks that the heads come from one run and cover every shard exactly once. */
@@ -401,7 +399,7 @@ export async function mergeResults(files: string[], o: MergeOptions): Promise<Me
         last = p;
         place = p;
       }
-      all.push({ s: lean(piece.series), place });
+      all.push({ s: withoutDetail(piece.series), place });
       fileOf.push(f);
     }
     if (count !== heads[f]!.summary.series)
@@ -465,14 +463,20 @@ export async function mergeResults(files: string[], o: MergeOptions): Promise<Me
     }
   }
 
+  const detailed = async (indices: ReadonlySet<number>): Promise<Results> => {
+    const out = [...settledSeries];
+    let k = 0;
+    for await (const s of fullSeries()) {
+      if (indices.has(k)) out[k] = s;
+      k++;
+    }
+    return { ...leanResults, series: out };
+  };
   return {
     lean: leanResults,
     series: fullSeries,
-    full: async () => {
-      const out: SeriesResult[] = [];
-      for await (const s of fullSeries()) out.push(s);
-      return { ...leanResults, series: out };
-    },
+    detailed,
+    full: () => detailed(new Set(settledSeries.keys())),
   };
 }
 

@@ -33,6 +33,7 @@ import type {
   Results,
   SeriesResult,
 } from './results.js';
+import { keepDetailMark, withoutDetail } from './results.js';
 import { plural } from './text/index.js';
 import { timeAfterLast, timeAtIndex } from './time.js';
 import { decideGate, isJudged, runVerdict, seriesVerdict, type SeriesFindings } from './verdict.js';
@@ -53,11 +54,14 @@ export interface SeriesDraft {
   decided: Pick<SeriesResult, 'verdict' | 'reason'> | null;
   /** Only in a shard: the series' place in the whole run (see SeriesResult.position). */
   position?: number;
+  /** The CSV line of the newest history point, kept by leanDraft when the history is emptied. */
+  lastRow?: number | null;
 }
 
 /** A series read back from a results file (a shard's, for merge) as a draft: errors and too little data keep their verdict. */
 export function draftOf(r: SeriesResult): SeriesDraft {
   const { verdict, reason, position, ...findings } = r;
+  keepDetailMark(r, findings);
   const decided = verdict === 'error' || verdict === 'too-short' ? { verdict, reason } : null;
   return { findings, decided, ...(position !== undefined ? { position } : {}) };
 }
@@ -225,6 +229,41 @@ export function analysedFindings(
   };
 }
 
+/** A draft and its verdict as a series of the results (key order as in the results format: verdict
+ * and reason before notes, position last). */
+function shapeSeries(d: SeriesDraft, v: Pick<SeriesResult, 'verdict' | 'reason'>): SeriesResult {
+  const { notes, ...rest } = d.findings;
+  return keepDetailMark(d.findings, {
+    ...rest,
+    ...v,
+    notes,
+    ...(d.position !== undefined ? { position: d.position } : {}),
+  });
+}
+
+/** A draft without its charts and tables (withoutDetail), remembering its newest CSV line. */
+export function leanDraft(d: SeriesDraft): SeriesDraft {
+  return { ...d, findings: withoutDetail(d.findings), lastRow: lastRowOf(d) };
+}
+
+/** The CSV line of a draft's newest history point, or null. */
+function lastRowOf(d: SeriesDraft): number | null {
+  return d.lastRow !== undefined ? d.lastRow : (d.findings.history.at(-1)?.row ?? null);
+}
+
+/**
+ * A series in full once its run is concluded: its charts and tables from the draft the analysis made
+ * (`full`), and what concluding the run decided from the lean series (`settled`, concludeRun's for the
+ * same draft made lean): the adjusted checked observations, whether it is judged, verdict and reason.
+ * The same result as concluding the full draft itself, key order included.
+ */
+export function settleFull(full: SeriesDraft, settled: SeriesResult): SeriesResult {
+  const f = full.findings;
+  f.checked = settled.checked;
+  if (settled.judged !== undefined) f.judged = settled.judged;
+  return shapeSeries(full, { verdict: settled.verdict, reason: settled.reason });
+}
+
 /**
  * What a run concludes once every series is analysed, the same for a single run and for a merge of
  * shards: run-wide false-alarm control over every checked observation of every series (so the
@@ -240,16 +279,7 @@ export function concludeRun(
     drafts.map((d) => d.findings),
     o.falseAlarms,
   );
-  const series: SeriesResult[] = drafts.map((d) => {
-    // Key order as in the results format: verdict and reason before notes, position last.
-    const { notes, ...rest } = d.findings;
-    return {
-      ...rest,
-      ...(d.decided ?? seriesVerdict(d.findings)),
-      notes,
-      ...(d.position !== undefined ? { position: d.position } : {}),
-    };
-  });
+  const series: SeriesResult[] = drafts.map((d) => shapeSeries(d, d.decided ?? seriesVerdict(d.findings)));
   // Series a pull request leaves alone (judged: false) count for neither the verdict nor the gate.
   const judged = series.filter(isJudged);
   const summary: Results['summary'] = {
@@ -283,10 +313,11 @@ export function pullRequestScope(
 ): Scope {
   if (!newRows) return { kind: 'latest', files: [], gate: 'all' };
   const lastRow = new Map<string, number>();
-  for (const { findings: r } of drafts) {
+  for (const d of drafts) {
+    const r = d.findings;
     const changed = Object.hasOwn(newRows, r.file);
     if (gate === 'changed') r.judged = changed;
-    const row = r.history.at(-1)?.row ?? null;
+    const row = lastRowOf(d);
     if (row !== null && changed) lastRow.set(r.file, Math.max(row, lastRow.get(r.file) ?? 0));
   }
   const added = new Set(addedFiles);

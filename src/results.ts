@@ -471,3 +471,49 @@ export type Results = z.output<typeof resultsSchema>;
 export function resultsJsonSchema(): Record<string, unknown> {
   return z.toJSONSchema(resultsSchema, { target: 'draft-2020-12', io: 'input' }) as Record<string, unknown>;
 }
+
+/** Series and findings made by withoutDetail (and what was copied from them), by identity. */
+const detailElsewhere = new WeakSet<object>();
+
+/**
+ * A series (or a draft's findings) without its charts and tables (forecast, backtest, history,
+ * residuals are emptied; every verdict input is kept): what a run holds of each series while the
+ * full ones wait on disk (src/spool.ts), and what concluding a run or a merge reads. hasDetail tells
+ * the two apart, so no report draws an emptied chart as if the series had no data.
+ */
+export function withoutDetail<
+  T extends Pick<SeriesResult, 'forecast' | 'backtest' | 'history' | 'residuals'>,
+>(s: T): T {
+  const out = { ...s, forecast: [], backtest: null, history: [], residuals: [] };
+  detailElsewhere.add(out);
+  return out;
+}
+
+/** False for a series made by withoutDetail (or copied from one): its charts and tables are elsewhere. */
+export function hasDetail(s: object): boolean {
+  return !detailElsewhere.has(s);
+}
+
+/** `to`, copied from `from`, marked as `from` is (see withoutDetail). */
+export function keepDetailMark<T extends object>(from: object, to: T): T {
+  if (detailElsewhere.has(from)) detailElsewhere.add(to);
+  return to;
+}
+
+/**
+ * What a run (job.ts `startJob`) or a merge hands its outputs: the concluded run with lean series,
+ * every full series in order (for the results file), and the run with chosen series in full (for
+ * the reports, report/index.ts `reportDetail`).
+ */
+export interface RunOutput {
+  lean: Results;
+  series: () => Iterable<SeriesResult> | AsyncIterable<SeriesResult>;
+  detailed: (indices: ReadonlySet<number>) => Promise<Results>;
+  /** Removes what the run kept on disk, when it kept anything. */
+  close?: () => void;
+}
+
+/** A RunOutput over results already in memory (a run that failed before analysing, a test's). */
+export function heldRun(results: Results): RunOutput {
+  return { lean: results, series: () => results.series, detailed: async () => results };
+}

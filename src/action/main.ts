@@ -7,12 +7,19 @@ import { glob } from 'tinyglobby';
 import { isLeadlineError, LeadlineError } from '../errors.js';
 import { mergeResults, type ExpectedEvent } from '../merge.js';
 import { shardLabel } from '../shard.js';
-import { filesRead, outputProblems, inputGuard, InputGuard, resultsJson, writeOutput } from '../files.js';
+import {
+  filesRead,
+  outputProblems,
+  inputGuard,
+  InputGuard,
+  resultsJsonStream,
+  writeOutput,
+} from '../files.js';
 import { escapeMessage as escapeText, logSafe, plural, visible } from '../text/index.js';
-import { runJob, type JobOptions } from '../job.js';
+import { startJob, type JobOptions } from '../job.js';
 import { VERDICT_LABEL } from '../report/format.js';
-import { renderHtml, renderMarkdown } from '../report/index.js';
-import { RESULTS_SCHEMA_ID, type Results } from '../results.js';
+import { renderHtml, renderMarkdown, reportDetail, type ReportRequest } from '../report/index.js';
+import { heldRun, RESULTS_SCHEMA_ID, type Results, type RunOutput } from '../results.js';
 import { VERSION } from '../version.js';
 import { planAnnotations, type Annotation } from './annotations.js';
 import {
@@ -54,7 +61,7 @@ export interface ActionDeps {
   env: NodeJS.ProcessEnv;
   git: GitRunner;
   github: (s: OctokitSettings) => IssueApi;
-  job: (o: JobOptions) => Promise<Results>;
+  job: (o: JobOptions) => Promise<RunOutput>;
   renderMarkdown: typeof renderMarkdown;
   renderHtml: typeof renderHtml;
 }
@@ -68,7 +75,7 @@ export async function run(deps: Partial<ActionDeps> = {}): Promise<void> {
     env: process.env,
     git: systemGit,
     github: octokitApi,
-    job: runJob,
+    job: startJob,
     renderMarkdown,
     renderHtml,
     ...deps,
@@ -142,6 +149,8 @@ function failedRun(e: unknown, s: Settings): Results {
 
 /** Room kept in the job summary for the lines appended after publishing. */
 const SUMMARY_FOOTER_ROOM = 8 * 1024;
+/** The job summary's first rendering is asked to fit this many characters (fitRendering then shrinks it to the bytes allowed). */
+const SUMMARY_FIRST_TRY = 1_000_000;
 
 async function runAction(d: ActionDeps): Promise<void> {
   used.warning = 0;
@@ -205,7 +214,7 @@ async function runAction(d: ActionDeps): Promise<void> {
   }
 
   // Whatever happens in the job, the results file, outputs and summary are written.
-  let results: Results;
+  let source: RunOutput;
   let jobError: unknown = null;
   const mergeFiles: string[] = [];
   try {
@@ -219,9 +228,9 @@ async function runAction(d: ActionDeps): Promise<void> {
         failOn: s.failOn,
         ...(trusted?.expect ? { expect: trusted.expect } : {}),
       });
-      results = await merged.full();
+      source = merged;
     } else
-      results = await d.job({
+      source = await d.job({
         cwd: s.workingDirectory,
         configPath: s.config,
         failOn: s.failOn,
@@ -242,8 +251,43 @@ async function runAction(d: ActionDeps): Promise<void> {
       });
   } catch (e) {
     jobError = e;
-    results = failedRun(e, s);
+    source = heldRun(failedRun(e, s));
   }
+  try {
+    await afterJob(d, s, source, jobError, mergeFiles, { before, blocked, failures, link, dest, key, token });
+  } finally {
+    source.close?.();
+  }
+}
+
+/** What runAction works out before the job and the rest of it needs after. */
+interface Context {
+  before: Awaited<ReturnType<typeof inputGuard>>;
+  blocked: Set<string>;
+  failures: string[];
+  link: string | null;
+  dest: Destination;
+  key: string;
+  token: string;
+}
+
+/** Outputs, summary, publishing, annotations and the gate, from what the job (or merge) produced. */
+async function afterJob(
+  d: ActionDeps,
+  s: Settings,
+  source: RunOutput,
+  jobError: unknown,
+  mergeFiles: string[],
+  { before, blocked, failures, link, dest, key, token }: Context,
+): Promise<void> {
+  // The series the reports show in detail are read back in full; the results file streams them all.
+  const requests: ReportRequest[] = [
+    { markdown: { maxChars: s.markdown ? Number.MAX_SAFE_INTEGER : SUMMARY_FIRST_TRY } },
+    { markdown: { maxChars: COMMENT_MAX_CHARS, detail: 'brief' } },
+    ...(s.html ? (['html'] as const) : []),
+  ];
+  const results = await source.detailed(reportDetail(source.lean, requests));
+  const { series: _series, ...head } = source.lean;
   info(`Leadline: ${VERDICT_LABEL[results.verdict]}. ${results.gate.reason}`);
 
   // Output files. A failure here fails the step after everything else is done.
@@ -251,7 +295,11 @@ async function runAction(d: ActionDeps): Promise<void> {
     ...filesRead(results),
     ...mergeFiles,
   ]);
-  const save = async (file: string, label: string, text: () => string | Iterable<string>) => {
+  const save = async (
+    file: string,
+    label: string,
+    text: () => string | Iterable<string> | AsyncIterable<string>,
+  ) => {
     if (blocked.has(label)) return;
     try {
       if (await isTracked(d.git, s.workspace, file))
@@ -264,7 +312,7 @@ async function runAction(d: ActionDeps): Promise<void> {
       failures.push(isLeadlineError(e) ? e.describe() : `${label}: ${(e as Error).message}`);
     }
   };
-  await save(s.results, 'results', () => resultsJson(results));
+  await save(s.results, 'results', () => resultsJsonStream(head, source.series()));
   if (s.markdown)
     await save(s.markdown, 'markdown', () =>
       d.renderMarkdown(results, { maxChars: Number.MAX_SAFE_INTEGER, fullReportNote: fullReportNote(link) }),
@@ -286,7 +334,7 @@ async function runAction(d: ActionDeps): Promise<void> {
       if (jobError) throw jobError;
       summary = fitRendering(
         (maxChars) => d.renderMarkdown(results, { maxChars, fullReportNote: fullReportNote(link) }),
-        1_000_000,
+        SUMMARY_FIRST_TRY,
         SUMMARY_MAX_BYTES - SUMMARY_FOOTER_ROOM,
         suffix,
       );

@@ -2,18 +2,16 @@
 import { readFile } from 'node:fs/promises';
 import path from 'node:path';
 import { isLeadlineError, LeadlineError } from '../errors.js';
-import { runJob } from '../job.js';
-import { renderHtml, renderMarkdown } from '../report/index.js';
-import type { Results } from '../results.js';
+import { startJob } from '../job.js';
 import {
-  checkOutputs,
-  filesRead,
-  inputGuard,
-  InputGuard,
-  resultsJson,
-  resultsJsonStream,
-  writeOutput,
-} from '../files.js';
+  renderHtml,
+  renderMarkdown,
+  reportDetail,
+  type MarkdownOptions,
+  type ReportRequest,
+} from '../report/index.js';
+import type { Results } from '../results.js';
+import { checkOutputs, filesRead, inputGuard, InputGuard, resultsJsonStream, writeOutput } from '../files.js';
 import { mergeResults } from '../merge.js';
 import { VERSION } from '../version.js';
 import { safeStream } from '../text/index.js';
@@ -47,7 +45,7 @@ export async function main(argv: string[], given: CliIo): Promise<number> {
     io.stdout.write(`leadline ${VERSION}\n`);
     return 0;
   }
-  let out: Outcome;
+  let out: Outcome | undefined;
   try {
     const template = settings.template
       ? await readTemplate(path.resolve(io.cwd, settings.template))
@@ -60,26 +58,39 @@ export async function main(argv: string[], given: CliIo): Promise<number> {
         [settings.comment, '--comment'],
       ] as const
     ).flatMap(([p, label]) => (p ? [{ path: path.resolve(io.cwd, p), label }] : []));
-    out =
+    const done =
       settings.command === 'merge' ? await merge(settings, io, outputs) : await run(settings, io, outputs);
-    const results = out.lean;
-    let full: Results | null = null;
-    const whole = async () => (full ??= await out.full());
-    const markdown = async () =>
-      renderMarkdown(await whole(), {
-        ...(template ? { template } : {}),
-        fullReportNote: fullNote(settings),
-      });
+    out = done;
+    const results = done.lean;
+    // The reports asked for, and the series they show in detail: only those are read back in full.
+    const markdownOptions: MarkdownOptions = {
+      ...(template ? { template } : {}),
+      fullReportNote: fullNote(settings),
+    };
+    const briefOptions: MarkdownOptions = { detail: 'brief', fullReportNote: fullNote(settings) };
+    const requests: ReportRequest[] = [
+      ...(settings.markdown || settings.print === 'markdown' ? [{ markdown: markdownOptions }] : []),
+      ...(settings.comment ? [{ markdown: briefOptions }] : []),
+      ...(settings.html ? (['html'] as const) : []),
+    ];
+    let shown: Results | null = null;
+    const detailed = async () => (shown ??= await done.detailed(reportDetail(results, requests)));
+    const markdown = async () => renderMarkdown(await detailed(), markdownOptions);
     if (settings.json)
       await writeOutput(path.resolve(io.cwd, settings.json), out.json(), out.inputs, '--json');
     if (settings.markdown)
       await writeOutput(path.resolve(io.cwd, settings.markdown), await markdown(), out.inputs, '--markdown');
     if (settings.html)
-      await writeOutput(path.resolve(io.cwd, settings.html), renderHtml(await whole()), out.inputs, '--html');
+      await writeOutput(
+        path.resolve(io.cwd, settings.html),
+        renderHtml(await detailed()),
+        out.inputs,
+        '--html',
+      );
     if (settings.comment)
       await writeOutput(
         path.resolve(io.cwd, settings.comment),
-        renderMarkdown(await whole(), { detail: 'brief', fullReportNote: fullNote(settings) }),
+        renderMarkdown(await detailed(), briefOptions),
         out.inputs,
         '--comment',
       );
@@ -105,6 +116,8 @@ export async function main(argv: string[], given: CliIo): Promise<number> {
     else if (settings.print === 'json') for await (const piece of out.json()) io.stdout.write(piece);
   } catch (e) {
     return fail(e, io);
+  } finally {
+    out?.close();
   }
   if (settings.shard) return 0;
   if (out.lean.problems.length > 0) return 2;
@@ -115,8 +128,10 @@ export async function main(argv: string[], given: CliIo): Promise<number> {
 interface Outcome {
   /** Every verdict and count; for a merge the series lack their charts and tables (see src/merge.ts). */
   lean: Results;
-  /** The whole results, for the report renderers. */
-  full: () => Promise<Results>;
+  /** The results with the series at these places in full (the others lean): what the reports need. */
+  detailed: (indices: ReadonlySet<number>) => Promise<Results>;
+  /** Removes what the run kept on disk. */
+  close: () => void;
   /** The results JSON text, in pieces. */
   json: () => Iterable<string> | AsyncIterable<string>;
   /** What the outputs must not overwrite. */
@@ -160,7 +175,7 @@ async function run(settings: CliSettings, io: CliIo, outputs: Outputs): Promise<
   let lastShown = 0;
   const started = Date.now();
   const since = settings.base ? await changedSince(cwd, settings.base) : null;
-  const results = await runJob({
+  const run = await startJob({
     cwd,
     configPath: settings.config,
     failOn: settings.failOn,
@@ -179,11 +194,13 @@ async function run(settings: CliSettings, io: CliIo, outputs: Outputs): Promise<
       }
     },
   });
+  const { series: _series, ...head } = run.lean;
   return {
-    lean: results,
-    full: async () => results,
-    json: () => resultsJson(results),
-    inputs: new InputGuard(cwd, settings.config, before.patterns, filesRead(results)),
+    lean: run.lean,
+    detailed: async (indices) => run.detailed(indices),
+    json: () => resultsJsonStream(head, run.series()),
+    inputs: new InputGuard(cwd, settings.config, before.patterns, filesRead(run.lean)),
+    close: run.close,
   };
 }
 
@@ -195,9 +212,10 @@ async function merge(settings: CliSettings, io: CliIo, outputs: Outputs): Promis
   const { series: _series, ...head } = merged.lean;
   return {
     lean: merged.lean,
-    full: merged.full,
+    detailed: merged.detailed,
     json: () => resultsJsonStream(head, merged.series()),
     inputs,
+    close: () => {},
   };
 }
 

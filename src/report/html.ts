@@ -207,7 +207,7 @@ export const HTML_SECTIONS = 250;
 
 /** The whole HTML report as one self-contained file. Metrics in report order: what needs attention first. */
 export function renderHtml(results: Results): string {
-  const view = buildView(results, { maxCharts: 0 });
+  const view = buildView(results, { maxCharts: 0, detail: HTML_SECTIONS });
   // view.series follows reportOrder, so the two lists line up index by index.
   const ordered = reportOrder(results);
   const sum = results.summary;

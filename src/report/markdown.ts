@@ -6,7 +6,8 @@ import type { Results } from '../results.js';
 import briefTemplate from './templates/brief.hbs';
 import reportTemplate from './templates/report.hbs';
 import seriesTemplate from './templates/series.hbs';
-import { buildView, type ReportView } from './view.js';
+import { buildView, DEFAULT_CHARTS, type ReportView } from './view.js';
+import { needsAttention } from '../verdict.js';
 import { plural } from '../text/index.js';
 
 export interface MarkdownOptions {
@@ -31,6 +32,11 @@ export interface MarkdownOptions {
 export const DEFAULT_MAX_CHARS = 65_536;
 /** A lower bound on one metric section's length (an error section with a short name is about 180). */
 const MIN_SECTION = 150;
+/**
+ * A lower bound on one row of the attention table: eight pipes, fourteen spaces and the newline, and
+ * at least a character in each of the icon, name, why, sparkline, latest value and place cells.
+ */
+const MIN_ROW = 29;
 
 type Render = (view: ReportView) => string;
 
@@ -42,6 +48,25 @@ const builtInBrief = hb.compile(briefTemplate, { noEscape: true, strict: false }
 
 /** Most charts in a brief report: the first few series needing attention. */
 export const BRIEF_CHARTS = 3;
+
+function chartsWanted(opts: MarkdownOptions): number {
+  return opts.maxCharts ?? (opts.detail === 'brief' ? BRIEF_CHARTS : DEFAULT_CHARTS);
+}
+
+/**
+ * How many series, from the first in report order (view.ts `reportOrder`), a markdown report can
+ * show in detail within its size limit: its charts, the attention rows (at least MIN_ROW characters
+ * each; attention items come first in that order) and, in a full report, the metric sections (at
+ * least MIN_SECTION each). Series beyond can never fit, so the report neither builds nor needs them
+ * in full: a run hands over only these with their charts and tables (`reportNeeds`).
+ */
+export function detailWanted(results: Pick<Results, 'series'>, opts: MarkdownOptions = {}): number {
+  const maxChars = Math.floor(opts.maxChars ?? DEFAULT_MAX_CHARS);
+  const attention = results.series.filter(needsAttention).length;
+  const rows = Math.min(attention, Math.ceil(maxChars / MIN_ROW));
+  const sections = opts.detail === 'brief' ? 0 : Math.ceil(maxChars / MIN_SECTION);
+  return Math.min(results.series.length, Math.max(chartsWanted(opts), rows, sections));
+}
 
 function compile(source: string): Render {
   let fn: HandlebarsTemplateDelegate;
@@ -107,20 +132,21 @@ function trimmed(view: ReportView, all: Unit[], keep: number, rows: number, note
   const totalCharts = view.charts.length + view.series.filter((s) => s.chart).length;
   const attention = view.attention.slice(0, rows);
   const limits = view.limits.slice(0, rows);
+  const { sections: allSections, attention: allAttention } = view.totals;
   const parts = [
-    `This report was cut to fit: ${series.length} of ${plural(view.series.length, 'metric section')}`,
+    `This report was cut to fit: ${series.length} of ${plural(allSections, 'metric section')}`,
     `${chartCount} of ${plural(totalCharts, 'chart')}`,
   ];
-  if (attention.length < view.attention.length)
-    parts.push(`${attention.length} of ${view.attention.length} rows needing attention`);
+  if (attention.length < allAttention)
+    parts.push(`${attention.length} of ${allAttention} rows needing attention`);
   if (limits.length < view.limits.length) parts.push(`${limits.length} of ${view.limits.length} limits`);
   return {
     ...view,
     problems: view.problems.slice(0, Math.max(rows, 5)),
     attention,
     attentionNote:
-      attention.length < view.attention.length
-        ? `…and ${view.attention.length - attention.length} more needing attention, not shown here.`
+      attention.length < allAttention
+        ? `…and ${allAttention - attention.length} more needing attention, not shown here.`
         : view.attentionNote,
     limits,
     limitsNote:
@@ -165,17 +191,20 @@ export function renderMarkdown(results: Results, opts: MarkdownOptions = {}): st
   const render = opts.template !== undefined ? compile(opts.template) : brief ? builtInBrief : builtIn;
   const head = opts.marker ? `${opts.marker}\n` : '';
   const note = opts.fullReportNote ?? 'The results JSON has every metric in full.';
-  const maxCharts = opts.maxCharts ?? (brief ? BRIEF_CHARTS : undefined);
   const built = buildView(results, {
-    ...(maxCharts === undefined ? {} : { maxCharts }),
+    maxCharts: chartsWanted(opts),
     fullReportNote: note,
+    detail: detailWanted(results, opts),
   });
   // A brief report has no per-series sections; its charts are those of the series needing attention.
-  const view = brief ? { ...built, series: [] } : built;
+  const view = brief ? { ...built, series: [], totals: { ...built.totals, sections: 0 } } : built;
   const out = (v: ReportView) => head + tidy(render(v));
 
-  // Every metric section is well over MIN_SECTION characters, so a big fleet skips the full render.
-  if (view.series.length * MIN_SECTION <= maxChars) {
+  // Every metric section is well over MIN_SECTION characters, so a big fleet skips the full render;
+  // so does a view that left series out (detailWanted: they could never fit).
+  const whole =
+    view.series.length === view.totals.sections && view.attention.length === view.totals.attention;
+  if (whole && view.series.length * MIN_SECTION <= maxChars) {
     const full = out(view);
     if (full.length <= maxChars) return full;
   }

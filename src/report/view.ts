@@ -10,6 +10,7 @@ import type {
   TestSummary,
   Verdict,
 } from '../results.js';
+import { hasDetail } from '../results.js';
 import { sideAlpha } from '../alarms/index.js';
 import { levelKey, levelOutside, levelShare, normaliseLevels } from '../engine/levels.js';
 import {
@@ -203,7 +204,10 @@ export interface ReportView {
   limitsNote: string | null;
   /** Charts for the metrics that need attention, shown outside the collapsed sections. */
   charts: ChartView[];
+  /** Metric sections: one per series in report order, or the first `detail` of them (ViewOptions). */
   series: SeriesView[];
+  /** How many metric sections and attention rows the whole run has (more than shown when cut). */
+  totals: { sections: number; attention: number };
   /** Set when the report was cut to fit: what was left out and where the full report is. */
   omitted: string | null;
   /** One line about the series that need no attention, e.g. "8 other series: 7 steady, 1 too short (x)." */
@@ -220,11 +224,27 @@ export interface ReportView {
   fullReport: string;
 }
 
+/** Most Mermaid charts in a full report unless asked otherwise. */
+export const DEFAULT_CHARTS = 5;
+
 export interface ViewOptions {
   /** Most Mermaid charts in the report (attention items first). Default 5. */
   maxCharts?: number;
   /** Where the full report is, for `fullReport`. */
   fullReportNote?: string;
+  /**
+   * How many series, from the first in report order, the view may show in detail (sections,
+   * attention rows, charts); only those need their charts and tables (results.ts hasDetail). A report
+   * that cannot show more (markdown.ts `detailWanted`) builds no more. Default: every series.
+   */
+  detail?: number;
+}
+
+/** The series itself, when it carries its charts and tables; a lean one here is a fault of the caller. */
+function detailed(s: SeriesResult): SeriesResult {
+  if (!hasDetail(s))
+    throw new Error(`internal: the report was given ${s.name} without its charts and tables to show`);
+  return s;
 }
 
 /** A series' name or key as the markdown report shows it: cut (format.ts `reportName`), then escaped. */
@@ -255,7 +275,7 @@ export function failedChecks(s: SeriesResult): string[] {
 export { needsAttention };
 
 /** Series in report order: attention items first, most severe first (src/verdict.ts), then the rest as given. */
-export function reportOrder(results: Results): SeriesResult[] {
+export function reportOrder(results: Pick<Results, 'series'>): SeriesResult[] {
   const indexed = results.series.map((s, i) => ({ s, i, att: needsAttention(s) }));
   indexed.sort((a, b) => {
     if (a.att !== b.att) return a.att ? -1 : 1;
@@ -263,6 +283,19 @@ export function reportOrder(results: Results): SeriesResult[] {
     return a.i - b.i;
   });
   return indexed.map((x) => x.s);
+}
+
+/**
+ * The places (indices in results.series) of the first `count` series in report order: those a report
+ * showing `count` in detail needs with their charts and tables (see ViewOptions.detail).
+ */
+export function firstInReportOrder(results: Pick<Results, 'series'>, count: number): Set<number> {
+  const place = new Map(results.series.map((s, i) => [s, i]));
+  return new Set(
+    reportOrder(results)
+      .slice(0, Math.max(0, count))
+      .map((s) => place.get(s)!),
+  );
 }
 
 function locate(file: string, p: { row: number | null; label?: string }): string {
@@ -687,7 +720,11 @@ function othersLine(all: SeriesResult[], afterAttention: boolean): string | null
   const rest = all.filter(isJudged);
   if (rest.length === 0) return null;
   const groups = new Map<Verdict, SeriesResult[]>();
-  for (const s of rest) groups.set(s.verdict, [...(groups.get(s.verdict) ?? []), s]);
+  for (const s of rest) {
+    const list = groups.get(s.verdict);
+    if (list) list.push(s);
+    else groups.set(s.verdict, [s]);
+  }
   const parts = [...groups.entries()].map(([v, list]) =>
     v === 'ok' ? `${list.length} ${VERDICT_LABEL[v]}` : `${list.length} ${VERDICT_LABEL[v]} (${names(list)})`,
   );
@@ -722,16 +759,18 @@ function incidentsLine(series: SeriesResult[]): string | null {
 
 /** Builds the view the markdown templates render. Pure; every string in it is escaped. */
 export function buildView(results: Results, opts: ViewOptions = {}): ReportView {
-  const maxCharts = Math.max(0, Math.floor(opts.maxCharts ?? 5));
+  const maxCharts = Math.max(0, Math.floor(opts.maxCharts ?? DEFAULT_CHARTS));
   const ordered = reportOrder(results);
   const section = new Map(ordered.map((s, i) => [s, i + 1]));
   const attention = ordered.filter(needsAttention);
+  // Attention items come first in report order, so the detailed prefix holds the first of them.
+  const shown = ordered.slice(0, Math.max(0, Math.floor(Math.min(opts.detail ?? Infinity, ordered.length))));
 
   // Charts: attention items first (shown in the open), then other series in their sections.
   const chartFor = new Map<SeriesResult, ChartView>();
-  for (const s of [...attention, ...ordered.filter((s) => !needsAttention(s))]) {
+  for (const s of shown) {
     if (chartFor.size >= maxCharts) break;
-    const c = mermaidChart(s);
+    const c = mermaidChart(detailed(s));
     if (c) chartFor.set(s, { section: section.get(s)!, name: shownName(s.name), ...c });
   }
   const charts = attention.map((s) => chartFor.get(s)).filter((c): c is ChartView => c !== undefined);
@@ -780,14 +819,15 @@ export function buildView(results: Results, opts: ViewOptions = {}): ReportView 
         (p.keyPath ? md(p.keyPath) : p.metric ? md(p.metric) : p.kind),
       message: md(p.message),
     })),
-    attention: attention.map((s) => attentionRow(s, section.get(s)!)),
+    attention: attention.slice(0, shown.length).map((s) => attentionRow(detailed(s), section.get(s)!)),
     attentionNote: null,
     limits,
     limitsNote: null,
     charts,
-    series: ordered.map((s) =>
-      seriesView(s, section.get(s)!, needsAttention(s) ? null : (chartFor.get(s) ?? null)),
+    series: shown.map((s) =>
+      seriesView(detailed(s), section.get(s)!, needsAttention(s) ? null : (chartFor.get(s) ?? null)),
     ),
+    totals: { sections: ordered.length, attention: attention.length },
     omitted: null,
     others: othersLine(
       ordered.filter((s) => !needsAttention(s)),

@@ -8,13 +8,14 @@ import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
 import { ApiFault, octokitApi, type IssueApi } from '../../src/action/github.js';
 import { marker, publishWarning, upsertComment } from '../../src/action/publish.js';
 import type { GitRunner } from '../../src/action/git.js';
-import type { Results } from '../../src/results.js';
+import { heldRun, type Results } from '../../src/results.js';
 import { FakeGitHubServer } from './fake-github.js';
 import { results, series, checked } from './helpers.js';
 
 vi.mock('../../src/report/index.js', () => ({
   renderMarkdown: (r: Results, o?: { marker?: string }) => `${o?.marker ?? ''}\n# Report: ${r.verdict}\n`,
   renderHtml: () => '',
+  reportDetail: () => new Set(),
 }));
 const { run } = await import('../../src/action/main.js');
 
@@ -174,7 +175,7 @@ describe('the Action with a stalled or broken API and job', () => {
     let summaryWhilePublishing = '';
     await run({
       git,
-      job: async () => alarm(),
+      job: async () => heldRun(alarm()),
       github: (s) => {
         const real = octokitApi(s);
         return {
@@ -231,7 +232,7 @@ describe('the Action with a stalled or broken API and job', () => {
       path.join(dir, 'event.json'),
       JSON.stringify({ pull_request: { number: 4, base: { sha: 'abcdef1' } } }),
     );
-    await run({ git: prGit, job: async () => alarm() });
+    await run({ git: prGit, job: async () => heldRun(alarm()) });
     expect(stdout).toContain('is new in this pull request');
     for (const line of stdout.split(/\r\n|\r|\n/)) expect(line.trimStart()).not.toMatch(/^::stop-commands/);
   });

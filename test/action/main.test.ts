@@ -6,12 +6,16 @@ import path from 'node:path';
 import { afterEach, beforeEach, describe, expect, it, vi } from 'vitest';
 import type { GitRunner } from '../../src/action/git.js';
 import type { ActionDeps } from '../../src/action/main.js';
-import type { Results } from '../../src/results.js';
+import { heldRun, type Results } from '../../src/results.js';
 import { FakeGitHub, checked, results, series } from './helpers.js';
 
 // The real job and renderers are exercised elsewhere; these keep this test to the Action's logic.
-vi.mock('../../src/job.js', () => ({ runJob: () => Promise.reject(new Error('not used')) }));
-vi.mock('../../src/report/index.js', () => ({ renderMarkdown: () => '', renderHtml: () => '' }));
+vi.mock('../../src/job.js', () => ({ startJob: () => Promise.reject(new Error('not used')) }));
+vi.mock('../../src/report/index.js', () => ({
+  renderMarkdown: () => '',
+  renderHtml: () => '',
+  reportDetail: () => new Set(),
+}));
 const { run } = await import('../../src/action/main.js');
 
 let dir: string;
@@ -57,7 +61,7 @@ function deps(r: Results, gh: FakeGitHub, extra: Partial<ActionDeps> = {}): Part
     env: process.env,
     git,
     github: () => gh,
-    job: async () => r,
+    job: async () => heldRun(r),
     renderMarkdown: (res, o) =>
       `${o?.marker ?? ''}\n# Report: ${res.verdict}\n${'x'.repeat(Math.min(200, o?.maxChars ?? 0))}`,
     renderHtml: (res) => `<html>${res.verdict}</html>`,
@@ -179,7 +183,7 @@ describe('run', () => {
         git: fakeGit,
         job: async (o) => {
           seen.push(o);
-          return results([series('a', 'a.csv')]);
+          return heldRun(results([series('a', 'a.csv')]));
         },
       }),
     );
