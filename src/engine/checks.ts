@@ -31,7 +31,7 @@
 // (m - j + 1) p_(j)); a test is flagged (ok false) when its adjusted p is below 0.05. A flag is a
 // caveat about the model (its intervals may be off), not a finding about the newest data.
 import { chiSquareCdf, fCdf, tCdf } from './dist.js';
-import { fmt, meanAndSquares, powerOfTwoBelow, sortedQuantile } from './numeric.js';
+import { fmt, meanAndSquares, powerOfTwoBelow, sortAscending, sortedQuantile } from './numeric.js';
 import { methodLabel } from './methods.js';
 import type { Fit, ResidualChecks, TestResult } from './types.js';
 import { pIs, plural } from '../text/index.js';
@@ -354,7 +354,7 @@ export function brownForsythe(
 }
 
 function absDeviations(x: ArrayLike<number>): Float64Array {
-  const s = Float64Array.from(x).sort();
+  const s = sortAscending(Float64Array.from(x)); // the built-in sort's order, faster
   const med = sortedQuantile(s, 0.5);
   return s.map((v) => Math.abs(v - med));
 }

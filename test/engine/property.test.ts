@@ -134,6 +134,8 @@ describe('backtest equals a plain refit at every origin', () => {
         for (const i of holes) if (i < y.length) y[i] = NaN;
         return y;
       });
+    // Three levels: the analytic count takes two levels per pass and the third alone.
+    const LEVELS = [50, 80, 95];
     fc.assert(
       fc.property(withGaps, fc.integer({ min: 1, max: 3 }), (y, m) => {
         const H = 3;
@@ -142,27 +144,31 @@ describe('backtest equals a plain refit at every origin', () => {
           season: m,
           minTrain,
           horizon: H,
-          levels: [80],
+          levels: LEVELS,
           coverage: ['analytic'],
         });
         for (const method of METHODS) {
           const errs: number[][] = [[], [], []];
-          let inside = 0;
+          // Per level: inside, and cells within rounding distance of a bound, where two correct sums
+          // may disagree.
+          const inside = LEVELS.map(() => 0);
+          const nearBound = LEVELS.map(() => 0);
           let total = 0;
-          let nearBound = 0; // cells within rounding distance of a bound, where two correct sums may disagree
           for (let n = minTrain; n <= y.length - 1; n++) {
             const f = fitMethod(method, y.subarray(0, n), m);
             if (!isFit(f)) continue;
-            const fcst = makeForecast(f, { horizon: H, levels: [80], kind: 'analytic', paths: 1, seed: 1 });
+            const fcst = makeForecast(f, { horizon: H, levels: LEVELS, kind: 'analytic', paths: 1, seed: 1 });
             for (let h = 1; h <= H && n + h <= y.length; h++) {
               const a = y[n + h - 1]!;
               if (!Number.isFinite(a)) continue;
               errs[h - 1]!.push(a - fcst.mean[h - 1]!);
               total++;
-              const lo = fcst.bands[0]!.lower[h - 1]!;
-              const hi = fcst.bands[0]!.upper[h - 1]!;
-              if (a >= lo && a <= hi) inside++;
-              if (Math.min(Math.abs(a - lo), Math.abs(a - hi)) <= 1e-9 * (1 + Math.abs(a))) nearBound++;
+              fcst.bands.forEach((band, l) => {
+                const lo = band.lower[h - 1]!;
+                const hi = band.upper[h - 1]!;
+                if (a >= lo && a <= hi) inside[l]!++;
+                if (Math.min(Math.abs(a - lo), Math.abs(a - hi)) <= 1e-9 * (1 + Math.abs(a))) nearBound[l]!++;
+              });
             }
           }
           const mb = bt.methods[method]!;
@@ -175,8 +181,10 @@ describe('backtest equals a plain refit at every origin', () => {
             });
           }
           if (total > 0)
-            expect(Math.abs(mb.coverage.analytic!['80']! - inside / total)).toBeLessThanOrEqual(
-              nearBound / total + 1e-12,
+            LEVELS.forEach((level, l) =>
+              expect(
+                Math.abs(mb.coverage.analytic![String(level)]! - inside[l]! / total),
+              ).toBeLessThanOrEqual(nearBound[l]! / total + 1e-12),
             );
         }
       }),
