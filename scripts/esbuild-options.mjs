@@ -10,6 +10,25 @@ export const pkg = JSON.parse(readFileSync(path.join(root, 'package.json'), 'utf
 export const requireShim =
   "import { createRequire as __leadlineCreateRequire } from 'node:module';\nconst require = __leadlineCreateRequire(import.meta.url);";
 
+/**
+ * @actions/core imports @actions/http-client, and with it undici (the largest package bundled, with
+ * much work at load), only for its OIDC token client, which Leadline never calls. The package does
+ * not declare itself free of side effects; declared so here, it is bundled only where something of
+ * it is used (@actions/github, in the publishing chunk), and a run that publishes nothing never
+ * loads it.
+ */
+const httpClientOnlyWhereUsed = {
+  name: 'leadline-http-client-only-where-used',
+  setup(b) {
+    b.onResolve({ filter: /^@actions\/http-client(\/|$)/ }, async (args) => {
+      if (args.pluginData === httpClientOnlyWhereUsed) return undefined;
+      const { path, resolveDir, importer, kind } = args;
+      const r = await b.resolve(path, { resolveDir, importer, kind, pluginData: httpClientOnlyWhereUsed });
+      return r.errors.length > 0 ? { errors: r.errors } : { path: r.path, sideEffects: false };
+    });
+  },
+};
+
 export const common = {
   absWorkingDir: root,
   bundle: true,
@@ -21,4 +40,5 @@ export const common = {
   legalComments: 'none',
   logLevel: 'warning',
   metafile: true,
+  plugins: [httpClientOnlyWhereUsed],
 };

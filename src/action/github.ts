@@ -1,10 +1,11 @@
 // The GitHub calls Leadline makes, behind a small interface: the publishing logic (publish.ts) takes
 // an IssueApi, so tests pass a fake; octokitApi is the real one, with retries and rate-limit handling.
 import * as core from '@actions/core';
-import { getOctokit } from '@actions/github';
-import { retry } from '@octokit/plugin-retry';
-import { throttling } from '@octokit/plugin-throttling';
 import { logSafe } from '../text/index.js';
+
+// Octokit (with undici under @actions/github) is most of the Action's code and start-up work, and
+// most runs publish nothing: it is imported at the first API call (its own chunk in the bundle).
+type Octokit = ReturnType<typeof import('@actions/github').getOctokit>;
 
 export interface IssueComment {
   id: number;
@@ -195,8 +196,14 @@ function list(raw: unknown, call: string): unknown[] {
 /** Rate-limit waits longer than this are not worth holding a runner for: give up and warn. */
 const MAX_RATE_WAIT_S = 120;
 
-export function octokitApi(s: OctokitSettings): IssueApi {
-  const octokit = getOctokit(
+/** The client for these settings, with its modules loaded now. */
+async function loadOctokit(s: OctokitSettings): Promise<Octokit> {
+  const [{ getOctokit }, { retry }, { throttling }] = await Promise.all([
+    import('@actions/github'),
+    import('@octokit/plugin-retry'),
+    import('@octokit/plugin-throttling'),
+  ]);
+  return getOctokit(
     s.token,
     {
       baseUrl: s.apiUrl,
@@ -231,10 +238,15 @@ export function octokitApi(s: OctokitSettings): IssueApi {
     retry,
     throttling,
   );
+}
+
+export function octokitApi(s: OctokitSettings): IssueApi {
+  let client: Promise<Octokit> | null = null;
   const repo = { owner: s.owner, repo: s.repo };
-  const call = async <T>(name: string, f: () => Promise<T>): Promise<T> => {
+  const call = async <T>(name: string, f: (octokit: Octokit) => Promise<T>): Promise<T> => {
+    const octokit = await (client ??= loadOctokit(s));
     try {
-      return await f();
+      return await f(octokit);
     } catch (e) {
       throw apiFault(e, name, s.requestTimeoutMs);
     }
@@ -242,7 +254,7 @@ export function octokitApi(s: OctokitSettings): IssueApi {
   let me: Promise<string> | null = null;
   return {
     identity() {
-      me ??= call('identify the token', async () => {
+      me ??= call('identify the token', async (octokit) => {
         try {
           const r = await octokit.rest.users.getAuthenticated();
           return login(r.data) ?? WORKFLOW_TOKEN_LOGIN;
@@ -256,7 +268,7 @@ export function octokitApi(s: OctokitSettings): IssueApi {
       return me;
     },
     listComments: (n) =>
-      call('list the comments', async () => {
+      call('list the comments', async (octokit) => {
         const all = await octokit.paginate(octokit.rest.issues.listComments, {
           ...repo,
           issue_number: n,
@@ -265,21 +277,21 @@ export function octokitApi(s: OctokitSettings): IssueApi {
         return list(all, 'list the comments').map((c) => comment(c, 'list the comments'));
       }),
     createComment: (n, body) =>
-      call('create the comment', async () => {
+      call('create the comment', async (octokit) => {
         const r = await octokit.rest.issues.createComment({ ...repo, issue_number: n, body });
         return comment(r.data, 'create the comment');
       }),
     updateComment: (id, body) =>
-      call('update the comment', async () => {
+      call('update the comment', async (octokit) => {
         const r = await octokit.rest.issues.updateComment({ ...repo, comment_id: id, body });
         return comment(r.data, 'update the comment');
       }),
     deleteComment: (id) =>
-      call('delete a duplicate comment', async () => {
+      call('delete a duplicate comment', async (octokit) => {
         await octokit.rest.issues.deleteComment({ ...repo, comment_id: id });
       }),
     listIssues: (label) =>
-      call('list the tracking issues', async () => {
+      call('list the tracking issues', async (octokit) => {
         const all = await octokit.paginate(octokit.rest.issues.listForRepo, {
           ...repo,
           labels: label,
@@ -291,7 +303,7 @@ export function octokitApi(s: OctokitSettings): IssueApi {
           .map((i) => issue(i, 'list the tracking issues'));
       }),
     openPullRequests: (head) =>
-      call('find the pull request of the workflow run', async () => {
+      call('find the pull request of the workflow run', async (octokit) => {
         const all = await octokit.paginate(octokit.rest.pulls.list, {
           ...repo,
           head,
@@ -305,12 +317,12 @@ export function octokitApi(s: OctokitSettings): IssueApi {
         );
       }),
     createIssue: (title, body, labels) =>
-      call('create the tracking issue', async () => {
+      call('create the tracking issue', async (octokit) => {
         const r = await octokit.rest.issues.create({ ...repo, title, body, labels });
         return issue(r.data, 'create the tracking issue');
       }),
     updateIssue: (n, p) =>
-      call('update the tracking issue', async () => {
+      call('update the tracking issue', async (octokit) => {
         const r = await octokit.rest.issues.update({
           ...repo,
           issue_number: n,
@@ -322,7 +334,7 @@ export function octokitApi(s: OctokitSettings): IssueApi {
         return issue(r.data, 'update the tracking issue');
       }),
     ensureLabel: (name, color, description) =>
-      call('create the label', async () => {
+      call('create the label', async (octokit) => {
         try {
           await octokit.rest.issues.getLabel({ ...repo, name });
           return;
