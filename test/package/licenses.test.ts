@@ -1,8 +1,9 @@
 // dist/licenses.txt covers what the committed bundles contain. The bundles name each source file
 // they include in a `// node_modules/...` comment (esbuild, unminified); every package found that
 // way must have an entry with a licence name and a licence text. scripts/bundle.mjs writes the file
-// from esbuild's metafile; this reads the bundles themselves, a second and independent source.
-import { readFileSync } from 'node:fs';
+// from esbuild's metafile; this reads the bundles themselves, a second and independent source. A
+// bundle is its entry file and every chunk it loads (dist/chunks/, by import or dynamic import()).
+import { readdirSync, readFileSync } from 'node:fs';
 import path from 'node:path';
 import { describe, expect, it } from 'vitest';
 
@@ -27,10 +28,25 @@ function entries(): Entry[] {
   });
 }
 
+/** The entry file and every chunk it loads, transitively, read from their import statements. */
+function bundleFiles(entry: string): string[] {
+  const files = [entry];
+  for (const f of files)
+    for (const [, a, b, c] of read(f).matchAll(
+      /^(?:import|export)\b[^;]*?\bfrom "(\.\/[^"]+)";$|^import "(\.\/[^"]+)";$|\bimport\("(\.\/[^"]+)"\)/gm,
+    )) {
+      const rel = a ?? b ?? c;
+      const file = path.posix.join(path.posix.dirname(f), rel!);
+      if (!files.includes(file)) files.push(file);
+    }
+  return files;
+}
+
 /** package@version of every node_modules package a bundle names in its source comments. */
 function bundledPackages(bundle: string): Set<string> {
   const found = new Set<string>();
-  for (const [, file] of read(bundle).matchAll(/^\/\/ (\S*node_modules\/\S+)$/gm)) {
+  const text = bundleFiles(bundle).map(read).join('\n');
+  for (const [, file] of text.matchAll(/^\/\/ (\S*node_modules\/\S+)$/gm)) {
     const i = file!.lastIndexOf('node_modules/');
     const [a, b] = file!.slice(i + 'node_modules/'.length).split('/');
     const dir = file!.slice(0, i) + 'node_modules/' + (a!.startsWith('@') ? `${a}/${b}` : a);
@@ -59,6 +75,13 @@ describe('dist/licenses.txt', () => {
     expect(bundled.size).toBeGreaterThan(5);
     const listed = list.filter((e) => e.bundles.includes(bundle)).map((e) => e.id);
     expect([...bundled].sort()).toEqual(listed.sort());
+  });
+
+  it('covers every file in dist/chunks/: each is loaded by a bundle', () => {
+    const loaded = new Set([...bundleFiles('dist/index.js'), ...bundleFiles('dist/cli.js')]);
+    const chunks = readdirSync(path.join(root, 'dist', 'chunks')).map((f) => `dist/chunks/${f}`);
+    expect(chunks.length).toBeGreaterThan(0);
+    expect(chunks.filter((f) => !loaded.has(f))).toEqual([]);
   });
 
   it('says how many packages it lists', () => {
