@@ -7,8 +7,39 @@ import type { Spacing } from './terms.js';
 
 const MONTHS: Partial<Record<Spacing, number>> = { month: 1, quarter: 3, year: 12 };
 
+/** "00".."99". */
+const TWO = Array.from({ length: 100 }, (_, k) => String(k).padStart(2, '0'));
+const DAY_MS = 86_400_000;
+/** 10000-01-01T00:00:00.000Z: from there on the year needs more than four digits. */
+const YEAR_10000 = 253_402_300_800_000;
+
+/**
+ * `new Date(ms).toISOString()` (an integer ms from 1970 to year 9999 written directly, the rest by
+ * Date itself): the civil date from the day count by Hinnant's days-to-civil algorithm
+ * (proleptic Gregorian, as ECMAScript's Date), then the time of day.
+ */
 export function isoTime(ms: number): string {
-  return new Date(ms).toISOString();
+  if (!(ms >= 0 && ms < YEAR_10000) || ms !== Math.floor(ms)) return new Date(ms).toISOString();
+  const days = Math.floor(ms / DAY_MS);
+  let rest = ms - days * DAY_MS;
+  const z = days + 719_468; // days since 0000-03-01
+  const era = Math.floor(z / 146_097);
+  const doe = z - era * 146_097; // day of the 400-year era
+  const yoe = Math.floor(
+    (doe - Math.floor(doe / 1460) + Math.floor(doe / 36_524) - Math.floor(doe / 146_096)) / 365,
+  );
+  const doy = doe - (365 * yoe + Math.floor(yoe / 4) - Math.floor(yoe / 100)); // from March 1
+  const mp = Math.floor((5 * doy + 2) / 153); // month from March, 0..11
+  const day = doy - Math.floor((153 * mp + 2) / 5) + 1;
+  const month = mp < 10 ? mp + 3 : mp - 9;
+  const year = yoe + era * 400 + (month <= 2 ? 1 : 0);
+  const hours = Math.floor(rest / 3_600_000);
+  rest -= hours * 3_600_000;
+  const minutes = Math.floor(rest / 60_000);
+  rest -= minutes * 60_000;
+  const seconds = Math.floor(rest / 1000);
+  const milli = rest - seconds * 1000;
+  return `${year}-${TWO[month]}-${TWO[day]}T${TWO[hours]}:${TWO[minutes]}:${TWO[seconds]}.${String(milli).padStart(3, '0')}Z`;
 }
 
 /** ISO time of the point at `index`, or null for row-order series. */
