@@ -116,8 +116,10 @@ async function benchmark(): Promise<void> {
   const t1 = performance.now();
   const outcome = await ingest(plan, dir);
   const t2 = performance.now();
+  const rss: number[] = [process.memoryUsage().rss];
   const analysed = await analyseFleet(plan, outcome, { jobs: JOBS });
   const t3 = performance.now();
+  rss.push(process.memoryUsage().rss);
   // As the command does (src/cli/main.ts): the results file streamed from the spool, and the report
   // from the run with only the series it can show read back in full.
   const run = finishResults(plan, outcome, analysed, { failOn: 'both' });
@@ -130,9 +132,11 @@ async function benchmark(): Promise<void> {
     'bench',
   );
   const t4 = performance.now();
+  rss.push(process.memoryUsage().rss);
   const shown = await run.detailed(reportDetail(run.lean, [{ markdown: {} }]));
   await writeOutput(path.join(out, 'report.md'), renderMarkdown(shown), guard, 'bench');
   const t5 = performance.now();
+  rss.push(process.memoryUsage().rss);
   const spoolBytes = analysed.spool.bytes;
   run.close();
   const results = run.lean;
@@ -157,7 +161,7 @@ async function benchmark(): Promise<void> {
   );
   console.log(`series per second ${(results.series.length / (wall / 1000)).toFixed(0)}`);
   console.log(
-    `peak RSS ${(peakRss / 2 ** 20).toFixed(0)} MiB; results ${n(Math.round(jsonBytes / results.series.length))} bytes per series (${(jsonBytes / 2 ** 20).toFixed(1)} MiB); spool ${n(Math.round(spoolBytes / results.series.length))} bytes per series`,
+    `peak RSS ${(peakRss / 2 ** 20).toFixed(0)} MiB (RSS after ingest, analysis, results, report: ${rss.map((x) => (x / 2 ** 20).toFixed(0)).join(', ')} MiB); results ${n(Math.round(jsonBytes / results.series.length))} bytes per series (${(jsonBytes / 2 ** 20).toFixed(1)} MiB); spool ${n(Math.round(spoolBytes / results.series.length))} bytes per series`,
   );
   console.log(
     `load (1/5/15 min) before ${loadBefore.map((x) => x.toFixed(2)).join(' ')}, after ${loadAfter.map((x) => x.toFixed(2)).join(' ')}; ${os.availableParallelism()} cores; verdict ${results.verdict}, ${results.summary.alarms} alarms`,

@@ -119,7 +119,7 @@ type BuildOptions = Pick<
 export function buildResults(plan: Plan, outcome: IngestOutcome, o: BuildOptions): Results {
   const init = analyseInit(plan, o);
   const todo = toAnalyse(plan, outcome, o.shard);
-  const analysed = keepAnalysed(memorySpool<SeriesDraft>());
+  const analysed = keepAnalysed(memorySpool<SeriesDraft>(), todo, outcome);
   todo.forEach((item, done) => {
     analysed.add(analyseTask.run(init, item));
     o.onProgress?.(done + 1, todo.length);
@@ -193,16 +193,27 @@ export interface Analysed {
   drafts: SeriesDraft[];
   spool: Spool<SeriesDraft>;
   add: (draft: SeriesDraft) => void;
+  /** Each analysed series' place among the series ingestion read. */
+  positions: number[];
+  /** How many series ingestion read. */
+  seriesRead: number;
 }
 
-function keepAnalysed(spool: Spool<SeriesDraft>): Analysed {
+function keepAnalysed(
+  spool: Spool<SeriesDraft>,
+  todo: readonly AnalyseItem[],
+  outcome: IngestOutcome,
+): Analysed {
   const drafts: SeriesDraft[] = [];
+  const notes = new Map<string, string>();
   return {
     drafts,
     spool,
+    positions: todo.map((t) => t.position),
+    seriesRead: outcome.series.length,
     add(d) {
       spool.add(d);
-      drafts.push(leanDraft(d));
+      drafts.push(leanDraft(d, notes));
     },
   };
 }
@@ -211,21 +222,32 @@ function keepAnalysed(spool: Spool<SeriesDraft>): Analysed {
  * The series this run (or shard) analyses, in the run's order, by `jobs` worker threads (fewer for
  * a small fleet; none for one). The same results whatever the number: each series is analysed alone,
  * with its own seed, and results are handed back in input order. Each goes to a spool on disk as it
- * comes (the caller closes it, through the JobRun finishResults makes).
+ * comes (the caller closes it, through the JobRun finishResults makes). The series are taken out of
+ * `outcome` (its list is emptied), so each one's points are let go once it is analysed.
  */
 export async function analyseFleet(
   plan: Plan,
   outcome: IngestOutcome,
   o: Pick<JobOptions, 'newRows' | 'onProgress' | 'jobs' | 'shard' | 'fullHistory'>,
 ): Promise<Analysed> {
-  const todo = toAnalyse(plan, outcome, o.shard);
-  const jobs = Math.min(o.jobs ?? defaultJobs(), Math.floor(todo.length / SERIES_PER_WORKER));
+  const todo: (AnalyseItem | undefined)[] = toAnalyse(plan, outcome, o.shard);
+  const count = todo.length;
+  const jobs = Math.min(o.jobs ?? defaultJobs(), Math.floor(count / SERIES_PER_WORKER));
   // Read back from the spool, a draft's per-level records are rebuilt small (see compactDraft).
-  const analysed = keepAnalysed(fileSpool<SeriesDraft>(compactDraft));
+  const analysed = keepAnalysed(fileSpool<SeriesDraft>(compactDraft), todo as AnalyseItem[], outcome);
+  outcome.series.length = 0;
+  // Each item is handed out once and forgotten here, so its series can be collected once analysed.
+  function* handOut(): Generator<AnalyseItem> {
+    for (let k = 0; k < count; k++) {
+      const item = todo[k]!;
+      todo[k] = undefined;
+      yield item;
+    }
+  }
   try {
-    await runPool(analyseTask, todo, { jobs, init: analyseInit(plan, o) }, (r, i) => {
+    await runPool(analyseTask, handOut(), { jobs, init: analyseInit(plan, o) }, (r, i) => {
       analysed.add(r);
-      o.onProgress?.(i + 1, todo.length);
+      o.onProgress?.(i + 1, count);
     });
   } catch (e) {
     analysed.spool.close();
@@ -249,14 +271,13 @@ export function finishResults(
   // a shard keeps its own, remembering each one's place so a merge restores the order.
   const shard = o.shard && o.shard.count > 1 ? o.shard : null;
   const mine = ownShard(shard);
-  const todo = toAnalyse(plan, outcome, shard);
   const failed = outcome.failures
-    .map((f, j) => ({ f, i: outcome.series.length + j }))
+    .map((f, j) => ({ f, i: analysed.seriesRead + j }))
     .filter(({ f }) => mine(seriesName(f.metric, f.column, f.key)));
   const placed = (d: SeriesDraft, k: number): SeriesDraft =>
-    shard ? { ...d, position: todo[k]!.position } : d;
+    shard ? { ...d, position: analysed.positions[k]! } : d;
   const failedDrafts = failed.map(({ f, i }) => ({ ...failedDraft(f), ...(shard ? { position: i } : {}) }));
-  const drafts: SeriesDraft[] = [...analysed.drafts.map(placed), ...failedDrafts.map(leanDraft)];
+  const drafts: SeriesDraft[] = [...analysed.drafts.map(placed), ...failedDrafts.map((d) => leanDraft(d))];
   const problems = failed
     .map(({ f, i }) => {
       const p = problemOf(f);
@@ -281,7 +302,7 @@ export function finishResults(
     origin: {
       configHash: o.configHash ?? null,
       commit: o.commit ?? null,
-      shard: shard ? { ...shard, series: outcome.series.length + outcome.failures.length } : null,
+      shard: shard ? { ...shard, series: analysed.seriesRead + outcome.failures.length } : null,
       event: o.event ?? null,
     },
     verdict,

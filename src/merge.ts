@@ -378,6 +378,7 @@ export async function mergeResults(files: string[], o: MergeOptions): Promise<Me
   const all: { s: SeriesResult; place: number }[] = [];
   const taken = sharded ? new Uint8Array(total) : null;
   const fileOf: number[] = [];
+  const notes = new Map<string, string>();
   for (const [f, file] of files.entries()) {
     let last = -1;
     let count = 0;
@@ -399,7 +400,7 @@ export async function mergeResults(files: string[], o: MergeOptions): Promise<Me
         last = p;
         place = p;
       }
-      all.push({ s: withoutDetail(piece.series), place });
+      all.push({ s: withoutDetail(piece.series, notes), place });
       fileOf.push(f);
     }
     if (count !== heads[f]!.summary.series)

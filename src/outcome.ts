@@ -242,8 +242,8 @@ function shapeSeries(d: SeriesDraft, v: Pick<SeriesResult, 'verdict' | 'reason'>
 }
 
 /** A draft without its charts and tables (withoutDetail), remembering its newest CSV line. */
-export function leanDraft(d: SeriesDraft): SeriesDraft {
-  return { ...d, findings: withoutDetail(d.findings), lastRow: lastRowOf(d) };
+export function leanDraft(d: SeriesDraft, shared?: Map<string, string>): SeriesDraft {
+  return { ...d, findings: withoutDetail(d.findings, shared), lastRow: lastRowOf(d) };
 }
 
 /** The CSV line of a draft's newest history point, or null. */

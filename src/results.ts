@@ -476,18 +476,40 @@ export function resultsJsonSchema(): Record<string, unknown> {
 const detailElsewhere = new WeakSet<object>();
 
 /**
- * A series (or a draft's findings) without its charts and tables (forecast, backtest, history,
- * residuals are emptied; every verdict input is kept): what a run holds of each series while the
- * full ones wait on disk (src/spool.ts), and what concluding a run or a merge reads. hasDetail tells
- * the two apart, so no report draws an emptied chart as if the series had no data.
+ * A series (or a draft's findings) without its charts and tables: forecast, backtest, history and
+ * residuals emptied, the residual checks without their wording and autocorrelations; every verdict
+ * input is kept. What a run holds of each series while the full ones wait on disk (src/spool.ts),
+ * and what concluding a run or a merge reads. hasDetail tells the two apart, so no report shows an
+ * emptied chart or check as if the series had no data. With `shared`, equal notes (most are the
+ * same sentence for every series) are kept once.
  */
-export function withoutDetail<
-  T extends Pick<SeriesResult, 'forecast' | 'backtest' | 'history' | 'residuals'>,
->(s: T): T {
-  const out = { ...s, forecast: [], backtest: null, history: [], residuals: [] };
+export function withoutDetail<T extends LeanFields>(s: T, shared?: Map<string, string>): T {
+  const c = s.residualChecks;
+  const out = {
+    ...s,
+    forecast: [],
+    // The checks' outcomes and counts stay (verdicts and caveats read them), their wording goes.
+    residualChecks: c && {
+      ...c,
+      ljungBox: { ...c.ljungBox, finding: '' },
+      bias: { ...c.bias, finding: '' },
+      normality: { ...c.normality, finding: '' },
+      spread: { ...c.spread, finding: '' },
+      acf: [],
+    },
+    backtest: null,
+    history: [],
+    residuals: [],
+    notes: shared ? s.notes.map((n) => shared.get(n) ?? (shared.set(n, n), n)) : s.notes,
+  };
   detailElsewhere.add(out);
   return out;
 }
+
+type LeanFields = Pick<
+  SeriesResult,
+  'forecast' | 'residualChecks' | 'backtest' | 'history' | 'residuals' | 'notes'
+>;
 
 /** False for a series made by withoutDetail (or copied from one): its charts and tables are elsewhere. */
 export function hasDetail(s: object): boolean {
