@@ -20,7 +20,8 @@ import {
   reportDetail,
   type MarkdownOptions,
 } from '../../src/report/index.js';
-import { hasDetail, type Results } from '../../src/results.js';
+import { concludeRun, draftOf } from '../../src/outcome.js';
+import { hasDetail, withoutDetail, type Results } from '../../src/results.js';
 
 const NOW = new Date(Date.UTC(2026, 0, 2));
 
@@ -105,6 +106,29 @@ describe('a spooled run', () => {
   it('never shows a lean series as if it had no data: the report refuses it', () => {
     expect(() => buildView(run.lean)).toThrow(/internal: the report was given gone without its charts/);
     expect(() => renderMarkdown(run.lean)).toThrow(/without its charts and tables/);
+  });
+
+  it('keeps what a verdict is decided on: a series too short for its residual checks stays too short', () => {
+    // As a merge re-concludes a shard's series: its alarm is gone after run-wide control, and its
+    // residual checks rest on 5 residuals (fewer than the 10 they need), so it is too short to judge.
+    const full = run.full().series.find((s) => s.residualChecks && s.verdict === 'ok')!;
+    const shard = {
+      ...full,
+      verdict: 'alarm' as const,
+      checked: [],
+      residualChecks: { ...full.residualChecks!, residuals: 5 },
+    };
+    for (const s of [shard, withoutDetail(shard)]) {
+      const [settled] = concludeRun([draftOf(s)], {
+        metrics: 1,
+        falseAlarms: 'bonferroni',
+        failOn: 'both',
+      }).series;
+      expect(settled!.verdict).toBe('too-short');
+      expect(settled!.reason).toMatch(
+        /need at least 10 residuals and the history before the checked rows gives 5/,
+      );
+    }
   });
 
   it('removes its spool when closed', () => {
