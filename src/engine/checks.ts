@@ -121,8 +121,10 @@ export function runResidualTests(fit: Fit, lags?: number): ResidualChecks {
     };
     family.push({
       test: ljungBox,
-      good: `No autocorrelation detected in the residuals (Ljung–Box Q = ${fmt(q)} over ${L} lags, df ${df}, ${pIs(p)})`,
-      bad: `The residuals are autocorrelated (Ljung–Box Q = ${fmt(q)} over ${L} lags, df ${df}, ${pIs(p)}): the ${label} method leaves a pattern unexplained, so the intervals are likely too narrow and neighbouring alarms are not independent`,
+      good: () =>
+        `No autocorrelation detected in the residuals (Ljung–Box Q = ${fmt(q)} over ${L} lags, df ${df}, ${pIs(p)})`,
+      bad: () =>
+        `The residuals are autocorrelated (Ljung–Box Q = ${fmt(q)} over ${L} lags, df ${df}, ${pIs(p)}): the ${label} method leaves a pattern unexplained, so the intervals are likely too narrow and neighbouring alarms are not independent`,
     });
   }
 
@@ -172,8 +174,10 @@ export function runResidualTests(fit: Fit, lags?: number): ResidualChecks {
     };
     family.push({
       test: bias,
-      good: `No bias detected: the mean residual ${fmt(mean)} is consistent with zero (t = ${fmt(t)}, df ${n - 1}, ${pIs(p)})`,
-      bad: `The residuals average ${fmt(mean)}, not zero (t = ${fmt(t)}, df ${n - 1}, ${pIs(p)}): the one-step forecasts run ${mean > 0 ? 'low' : 'high'} by about that much${fit.method === 'naive' || fit.method === 'seasonal-naive' ? ', which a trend would explain (the drift method allows for one)' : ''}, and intervals centred on them are off-centre`,
+      good: () =>
+        `No bias detected: the mean residual ${fmt(mean)} is consistent with zero (t = ${fmt(t)}, df ${n - 1}, ${pIs(p)})`,
+      bad: () =>
+        `The residuals average ${fmt(mean)}, not zero (t = ${fmt(t)}, df ${n - 1}, ${pIs(p)}): the one-step forecasts run ${mean > 0 ? 'low' : 'high'} by about that much${fit.method === 'naive' || fit.method === 'seasonal-naive' ? ', which a trend would explain (the drift method allows for one)' : ''}, and intervals centred on them are off-centre`,
     });
   }
 
@@ -220,8 +224,10 @@ export function runResidualTests(fit: Fit, lags?: number): ResidualChecks {
     };
     family.push({
       test: normality,
-      good: `The residuals are consistent with a normal distribution (Jarque–Bera = ${fmt(jb)}, ${pIs(p)}; skewness ${fmt(S, 2)}, kurtosis ${fmt(Ku, 3)})`,
-      bad: `The residuals are not normal (Jarque–Bera = ${fmt(jb)}, ${pIs(p)}; skewness ${fmt(S, 2)}, kurtosis ${fmt(Ku, 3)} against 3 for a normal): Student-t intervals may misstate the tails${Ku > 3 ? ' (heavy tails make extreme values commoner than they allow)' : ''}; bootstrap and empirical intervals do not assume normality`,
+      good: () =>
+        `The residuals are consistent with a normal distribution (Jarque–Bera = ${fmt(jb)}, ${pIs(p)}; skewness ${fmt(S, 2)}, kurtosis ${fmt(Ku, 3)})`,
+      bad: () =>
+        `The residuals are not normal (Jarque–Bera = ${fmt(jb)}, ${pIs(p)}; skewness ${fmt(S, 2)}, kurtosis ${fmt(Ku, 3)} against 3 for a normal): Student-t intervals may misstate the tails${Ku > 3 ? ' (heavy tails make extreme values commoner than they allow)' : ''}; bootstrap and empirical intervals do not assume normality`,
     });
   }
 
@@ -256,12 +262,14 @@ export function runResidualTests(fit: Fit, lags?: number): ResidualChecks {
       const F = bf.statistic;
       const p = 1 - fCdf(F, 1, df2);
       const grows = bf.last > bf.first;
-      const words = `Brown–Forsythe F = ${fmt(F)}, absolute deviations from the median in the last third against the first, df 1 and ${df2}, ${pIs(p)}`;
+      const words = (): string =>
+        `Brown–Forsythe F = ${fmt(F)}, absolute deviations from the median in the last third against the first, df 1 and ${df2}, ${pIs(p)}`;
       spread = { name: spreadName, statistic: F, df: df2, pValue: p, adjustedP: p, ok: true, finding: '' };
       family.push({
         test: spread,
-        good: `No change in the spread of the residuals detected (${words})`,
-        bad: `The spread of the residuals ${grows ? 'grows' : 'shrinks'} over time (${words}): intervals use one sigma for the whole history, so they are likely too ${grows ? 'narrow' : 'wide'} for the next observations`,
+        good: () => `No change in the spread of the residuals detected (${words()})`,
+        bad: () =>
+          `The spread of the residuals ${grows ? 'grows' : 'shrinks'} over time (${words()}): intervals use one sigma for the whole history, so they are likely too ${grows ? 'narrow' : 'wide'} for the next observations`,
       });
     }
   }
@@ -300,10 +308,11 @@ function finiteOnly(family: Pending[]): Pending[] {
   });
 }
 
+/** A computed test and its finding either way, written only for the way Holm decides. */
 interface Pending {
   test: TestResult;
-  good: string;
-  bad: string;
+  good: () => string;
+  bad: () => string;
 }
 
 /**
@@ -325,9 +334,9 @@ function holm(family: Pending[]): boolean {
     if (t.test.ok)
       t.test.finding =
         t.test.pValue < ALPHA
-          ? `${t.good}: below 5% on its own, but not once the ${m} checks run on these residuals are allowed for${adj}.`
-          : `${t.good}.`;
-    else t.test.finding = `${t.bad}${adj}. This is a caveat about the model, not about the newest data.`;
+          ? `${t.good()}: below 5% on its own, but not once the ${m} checks run on these residuals are allowed for${adj}.`
+          : `${t.good()}.`;
+    else t.test.finding = `${t.bad()}${adj}. This is a caveat about the model, not about the newest data.`;
   });
   return any;
 }

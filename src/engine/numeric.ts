@@ -1,27 +1,11 @@
 // Small numerical helpers shared by the engine: compensated sums, scaled sums of squares, and
 // sample quantiles. Missing values are anything non-finite (NaN, and also ±Infinity).
 
+import { scratch } from './workspace.js';
+
 /** True for a usable observation: finite. NaN (missing) and ±Infinity are treated as missing. */
 export function present(x: number): boolean {
   return Number.isFinite(x);
-}
-
-/**
- * Neumaier's improved Kahan summation (Neumaier 1974): the running compensation c collects the
- * low-order bits lost when adding a small term to a large sum (or the reverse), so the result is
- * as if computed in about twice the precision. Returns the sum of the finite entries of xs.
- */
-export function stableSum(xs: ArrayLike<number>): number {
-  let s = 0;
-  let c = 0;
-  for (let i = 0; i < xs.length; i++) {
-    const x = xs[i]!;
-    if (!Number.isFinite(x)) continue;
-    const t = s + x;
-    c += Math.abs(s) >= Math.abs(x) ? s - t + x : x - t + s;
-    s = t;
-  }
-  return s + c;
 }
 
 /**
@@ -41,10 +25,22 @@ export interface Squares {
 }
 
 export function meanAndSquares(xs: ArrayLike<number>, center?: number): Squares {
+  // First pass: the count and the sum by Neumaier's improved Kahan summation (Neumaier 1974): the
+  // running compensation c0 collects the low-order bits lost when adding a small term to a large
+  // sum (or the reverse), so the sum is as if computed in about twice the precision.
   let n = 0;
-  for (let i = 0; i < xs.length; i++) if (Number.isFinite(xs[i]!)) n++;
+  let s0 = 0;
+  let c0 = 0;
+  for (let i = 0; i < xs.length; i++) {
+    const x = xs[i]!;
+    if (!Number.isFinite(x)) continue;
+    n++;
+    const t = s0 + x;
+    c0 += Math.abs(s0) >= Math.abs(x) ? s0 - t + x : x - t + s0;
+    s0 = t;
+  }
   if (n === 0) return { n: 0, mean: NaN, ss: NaN, sd: () => NaN };
-  let mean = stableSum(xs) / n;
+  let mean = (s0 + c0) / n;
   if (!Number.isFinite(mean)) {
     // The sum overflowed: average the halves of each value instead.
     let s = 0;
@@ -256,7 +252,7 @@ export function sortedCopy(xs: Float64Array): Float64Array {
   if (known) return known;
   const n = xs.length;
   const s = xs.slice();
-  const idx = new Int32Array(n);
+  const idx = scratch.i32('sort.index', n); // where each sorted entry came from
   for (let k = 0; k < n; k++) idx[k] = k;
   sortInPlace(s, idx);
   sortedCache.set(xs, s);
