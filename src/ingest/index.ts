@@ -90,25 +90,34 @@ export async function ingest(plan: Plan, cwd: string): Promise<IngestOutcome> {
     }
   }
 
+  // Each file is read when a metric first needs it and let go after the last metric using it, so
+  // the tables held at once are those still needed (usually one), never every file's.
+  const lastUse = new Map<string, number>();
+  resolved.forEach(({ files }, k) => files.forEach((f) => lastUse.set(f, k)));
   const tables = new Map<string, Table | LeadlineError>();
-  for (const [file, roles] of wanted) {
+  const read = async (file: string): Promise<Table | LeadlineError> => {
     try {
-      tables.set(file, await readTable(path.join(path.resolve(cwd), file), file, roles));
+      return await readTable(path.join(path.resolve(cwd), file), file, wanted.get(file)!);
     } catch (e) {
       if (!(e instanceof LeadlineError)) throw e;
-      tables.set(file, e);
+      return e;
     }
-  }
-
-  for (const { metric, files } of resolved) {
+  };
+  let filesRead = 0;
+  for (const [k, { metric, files }] of resolved.entries()) {
     for (const file of files) {
-      const t = tables.get(file)!;
+      let t = tables.get(file);
+      if (t === undefined) {
+        tables.set(file, (t = await read(file)));
+        filesRead++;
+      }
       if (t instanceof LeadlineError)
         failures.push({ metric, column: null, key: null, error: t, verdict: 'error' });
       else buildMetric(metric, t, files.length > 1, series, failures, plan.configPath);
     }
+    for (const file of files) if (lastUse.get(file) === k) tables.delete(file);
   }
-  return { series, failures, filesRead: tables.size, parseMs: performance.now() - started };
+  return { series, failures, filesRead, parseMs: performance.now() - started };
 }
 
 /** Errors that mean "too little data" rather than "bad data". */
@@ -451,6 +460,12 @@ interface Layout {
   /** Rows of this group in file order (for scanning cells). */
   rows: Int32Array;
   notes: string[];
+  /**
+   * The CSV line each grid point's value comes from (0 for gap-filled points): which row of a slot
+   * is picked depends on the slot and `duplicates` only, never on the column, so every value column
+   * of the group shares one array (made by the first).
+   */
+  lines?: Int32Array;
 }
 
 function layoutRowOrder(rows: Int32Array): Layout {
@@ -613,7 +628,8 @@ function buildSeries(
     }
   }
   const values = new Float64Array(layout.n).fill(NaN);
-  const rows = new Int32Array(layout.n);
+  const shared = layout.lines;
+  const rows = shared ?? new Int32Array(layout.n);
   for (const slot of layout.slots) {
     let pick: number;
     let v: number;
@@ -637,7 +653,7 @@ function buildSeries(
       v = col.numbers[pick]!;
     }
     values[slot.index] = v;
-    rows[slot.index] = t.lines[pick]!;
+    if (!shared) rows[slot.index] = t.lines[pick]!;
   }
   let observed = 0;
   for (let i = 0; i < values.length; i++) if (!Number.isNaN(values[i]!)) observed++;
@@ -647,6 +663,7 @@ function buildSeries(
       t.file,
     );
   }
+  layout.lines = rows;
   const notes = [...layout.notes];
   if (blanks > 0)
     notes.push(`${plural(blanks, 'blank cell was', 'blank cells were')} read as missing (blanks: missing).`);
