@@ -365,7 +365,8 @@ export function brownForsythe(
 function absDeviations(x: ArrayLike<number>): Float64Array {
   const s = sortAscending(Float64Array.from(x)); // the built-in sort's order, faster
   const med = sortedQuantile(s, 0.5);
-  return s.map((v) => Math.abs(v - med));
+  for (let i = 0; i < s.length; i++) s[i] = Math.abs(s[i]! - med);
+  return s;
 }
 
 /** True when the drift residuals run without a gap from the first to the last observed value. */
