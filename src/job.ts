@@ -88,7 +88,12 @@ export async function startJob(o: JobOptions): Promise<JobRun> {
   const configHash = await fileHash(path.resolve(o.cwd, o.configPath));
   const outcome = await ingest(plan, o.cwd); // ingest
   const analysed = await analyseFleet(plan, outcome, o); // analyse (in worker threads)
-  return finishResults(plan, outcome, analysed, { ...o, configHash }); // alarms, results
+  try {
+    return finishResults(plan, outcome, analysed, { ...o, configHash }); // alarms, results
+  } catch (e) {
+    analysed.spool.close();
+    throw e;
+  }
 }
 
 /** The whole job's results in memory (a small run, tests). */

@@ -50,6 +50,9 @@ export function memorySpool<T>(): Spool<T> {
 export function fileSpool<T>(revive: (v: T) => T = (v) => v): Spool<T> {
   const dir = mkdtempSync(path.join(os.tmpdir(), 'leadline-spool-'));
   const file = path.join(dir, 'series.bin');
+  // A process that ends without close() (an error thrown past it) still removes the folder.
+  const atExit = (): void => rmSync(dir, { recursive: true, force: true });
+  process.once('exit', atExit);
   let fd: number | null = openSync(file, 'w');
   let pending: Buffer[] = [];
   let pendingBytes = 0;
@@ -119,7 +122,8 @@ export function fileSpool<T>(revive: (v: T) => T = (v) => v): Spool<T> {
       closed = true;
       if (fd !== null) closeSync(fd);
       fd = null;
-      rmSync(dir, { recursive: true, force: true });
+      process.removeListener('exit', atExit);
+      atExit();
     },
   };
   return spool;
