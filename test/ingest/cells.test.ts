@@ -91,6 +91,12 @@ describe('ISO times', () => {
       '9999-12-31T23:59:59.999Z',
     ])
       expect(isoTime(Date.parse(iso))).toBe(iso);
+    // Days met again (their date part is kept), at other times of day.
+    for (const day of [0, 19_723, 2_932_896])
+      for (const rest of [0, 1, 999, 59_999, 3_600_000, 86_399_999, 0, 45_296_789]) {
+        const t = day * 86_400_000 + rest;
+        expect(isoTime(t)).toBe(new Date(t).toISOString());
+      }
     expect(isoTime(Date.UTC(10000, 0, 1))).toBe('+010000-01-01T00:00:00.000Z');
     expect(isoTime(-1)).toBe('1969-12-31T23:59:59.999Z');
     expect(() => isoTime(NaN)).toThrow(RangeError);
