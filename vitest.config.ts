@@ -1,5 +1,6 @@
 import { readFileSync } from 'node:fs';
 import { configDefaults, defineConfig } from 'vitest/config';
+import { hbsModule } from './scripts/hbs-module.mjs';
 import { browserPlan } from './test/chromium.js';
 
 const pkg = JSON.parse(readFileSync(new URL('./package.json', import.meta.url), 'utf8')) as {
@@ -22,10 +23,10 @@ export default defineConfig({
   define: { __LEADLINE_VERSION__: JSON.stringify(pkg.version) },
   plugins: [
     {
-      // Same as esbuild's 'text' loader in scripts/bundle.mjs: a .hbs import is its text.
-      name: 'leadline-hbs-text',
+      // As in the bundles: a .hbs import is its text and its compiled template (scripts/hbs-module.mjs).
+      name: 'leadline-hbs',
       transform(code, id) {
-        if (id.endsWith('.hbs')) return { code: `export default ${JSON.stringify(code)};`, map: null };
+        if (id.endsWith('.hbs')) return { code: hbsModule(code), map: null };
         return null;
       },
     },

@@ -1,7 +1,9 @@
 // The esbuild options every Leadline bundle is built with: the shipped ones (scripts/bundle.mjs) and
 // the benchmarks run as bundles (scripts/run-bundled.mjs), so both measure and ship the same code.
 import { readFileSync } from 'node:fs';
+import { readFile } from 'node:fs/promises';
 import path from 'node:path';
+import { hbsModule } from './hbs-module.mjs';
 
 export const root = path.resolve(import.meta.dirname, '..');
 export const pkg = JSON.parse(readFileSync(path.join(root, 'package.json'), 'utf8'));
@@ -50,16 +52,26 @@ const noSourceMapForHandlebars = {
   },
 };
 
+/** A .hbs import: the template's text and the template compiled ahead (scripts/hbs-module.mjs). */
+const handlebarsTemplates = {
+  name: 'leadline-hbs',
+  setup(b) {
+    b.onLoad({ filter: /\.hbs$/ }, async (args) => ({
+      contents: hbsModule(await readFile(args.path, 'utf8')),
+      loader: 'js',
+    }));
+  },
+};
+
 export const common = {
   absWorkingDir: root,
   bundle: true,
   platform: 'node',
   format: 'esm',
   target: 'node20',
-  loader: { '.hbs': 'text' },
   define: { __LEADLINE_VERSION__: JSON.stringify(pkg.version) },
   legalComments: 'none',
   logLevel: 'warning',
   metafile: true,
-  plugins: [httpClientOnlyWhereUsed, noSourceMapForHandlebars],
+  plugins: [handlebarsTemplates, httpClientOnlyWhereUsed, noSourceMapForHandlebars],
 };

@@ -3,9 +3,9 @@
 import Handlebars from 'handlebars';
 import { LeadlineError } from '../errors.js';
 import type { Results } from '../results.js';
-import briefTemplate from './templates/brief.hbs';
-import reportTemplate from './templates/report.hbs';
-import seriesTemplate from './templates/series.hbs';
+import { template as briefTemplate } from './templates/brief.hbs';
+import { template as reportTemplate } from './templates/report.hbs';
+import { template as seriesTemplate } from './templates/series.hbs';
 import { buildView, DEFAULT_CHARTS, type ReportView } from './view.js';
 import { needsAttention } from '../verdict.js';
 import { plural } from '../text/index.js';
@@ -42,9 +42,10 @@ type Render = (view: ReportView) => string;
 
 // An isolated Handlebars environment so helpers and partials never leak into other users of the package.
 const hb = Handlebars.create();
-hb.registerPartial('series', seriesTemplate);
-const builtIn = hb.compile(reportTemplate, { noEscape: true, strict: false });
-const builtInBrief = hb.compile(briefTemplate, { noEscape: true, strict: false });
+// The built-in templates come compiled (scripts/hbs-module.mjs, with the options compile() uses).
+hb.registerPartial('series', hb.template(seriesTemplate));
+const builtIn = hb.template<ReportView>(reportTemplate);
+const builtInBrief = hb.template<ReportView>(briefTemplate);
 
 /** Most charts in a brief report: the first few series needing attention. */
 export const BRIEF_CHARTS = 3;

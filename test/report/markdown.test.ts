@@ -5,6 +5,8 @@ import { mermaidChart, mermaidNumber } from '../../src/report/mermaid.js';
 import { sparkline } from '../../src/report/sparkline.js';
 import { calibrationWords } from '../../src/report/view.js';
 import type { Results } from '../../src/results.js';
+import briefTemplate from '../../src/report/templates/brief.hbs';
+import reportTemplate from '../../src/report/templates/report.hbs';
 import { mermaidBlocks } from './helpers.js';
 import { mixedRun, results, series, shortSeries } from './results.js';
 
@@ -191,6 +193,14 @@ describe('user templates', () => {
       template: '{{verdict.label}}:{{#each series}} {{name}} ({{verdict.label}}){{/each}}',
     });
     expect(out).toBe('steady: a&#124;b &#60;i&#62;c&#60;/i&#62; (steady)\n');
+  });
+
+  it('compile as the built-in templates were compiled ahead of time: same options, same text', () => {
+    for (const [template, detail] of [
+      [reportTemplate, 'full'],
+      [briefTemplate, 'brief'],
+    ] as const)
+      expect(renderMarkdown(run, { template, detail })).toBe(renderMarkdown(run, { detail }));
   });
 
   it('can use the series partial', () => {
