@@ -311,26 +311,42 @@ export function rememberSorted(xs: Float64Array, sorted: Float64Array | (() => F
  */
 export class Fenwick {
   private tree: Int32Array;
+  /** The count at each position, and 1 at position n (where a scan past the last item stops). */
+  private counts: Int32Array;
   private n = 0;
   private top = 1;
+  /** The last kth answer (0: none since the last change): k, its position, its rank there. */
+  private lastK = 0;
+  private lastPos = 0;
+  private lastWithin = 0;
 
   constructor(capacity: number) {
     this.tree = new Int32Array(capacity + 1);
+    this.counts = new Int32Array(capacity + 1);
   }
 
   reset(n: number): void {
-    if (n + 1 > this.tree.length) this.tree = new Int32Array(n + 1);
-    else this.tree.fill(0, 0, n + 1);
+    if (n + 1 > this.tree.length) {
+      this.tree = new Int32Array(n + 1);
+      this.counts = new Int32Array(n + 1);
+    } else {
+      this.tree.fill(0, 0, n + 1);
+      this.counts.fill(0, 0, n);
+    }
+    this.counts[n] = 1;
     this.n = n;
     let top = 1;
     while (top * 2 <= n) top *= 2;
     this.top = top;
+    this.lastK = 0;
   }
 
   /** Counts one more at position p (0-based). */
   add(p: number): void {
     const t = this.tree;
     for (let k = p + 1; k <= this.n; k += k & -k) t[k]!++;
+    this.counts[p]!++;
+    this.lastK = 0;
   }
 
   /** The count at positions 0..k-1. */
@@ -341,17 +357,38 @@ export class Fenwick {
     return s;
   }
 
-  /** The position (0-based) holding the k-th counted item (k from 1). */
+  /**
+   * The position (0-based) holding the k-th counted item (k from 1; n when fewer are counted).
+   * Asked for the item after the last one asked for (a quantile's two neighbours), it steps on from
+   * there instead of descending the tree again.
+   */
   kth(k: number): number {
+    if (k === this.lastK + 1 && this.lastK > 0 && this.lastPos < this.n) {
+      let pos = this.lastPos;
+      if (this.lastWithin < this.counts[pos]!) this.lastWithin++;
+      else {
+        do pos++;
+        while (this.counts[pos] === 0);
+        this.lastPos = pos;
+        this.lastWithin = 1;
+      }
+      this.lastK = k;
+      return pos;
+    }
     const t = this.tree;
     let pos = 0;
+    let rest = k;
     for (let step = this.top; step > 0; step >>= 1) {
       const nx = pos + step;
-      if (nx <= this.n && t[nx]! < k) {
+      if (nx <= this.n && t[nx]! < rest) {
         pos = nx;
-        k -= t[nx]!;
+        rest -= t[nx]!;
       }
     }
+    // rest is now k's rank among the items at pos.
+    this.lastK = k;
+    this.lastPos = pos;
+    this.lastWithin = rest;
     return pos;
   }
 }

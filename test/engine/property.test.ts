@@ -13,6 +13,7 @@ import {
   type MethodName,
 } from '../../src/engine/index.js';
 import {
+  Fenwick,
   lowerBound,
   rememberSorted,
   sortAscending,
@@ -413,6 +414,45 @@ describe('interval properties', () => {
         }
       }),
       { numRuns: 60 },
+    );
+  });
+});
+
+describe('the Fenwick tree of counts', () => {
+  it('finds the k-th counted item as a scan of the counts does, asked in order or at random', () => {
+    // The reference: the counts per position kept in a plain array and scanned from the left.
+    fc.assert(
+      fc.property(
+        fc.integer({ min: 1, max: 60 }),
+        fc.array(fc.nat(), { maxLength: 120 }),
+        fc.array(fc.nat(), { maxLength: 40 }),
+        (n, adds, asks) => {
+          const tree = new Fenwick(0);
+          tree.reset(n);
+          const counts = new Array<number>(n).fill(0);
+          const kthByScan = (k: number): number => {
+            let seen = 0;
+            for (let p = 0; p < n; p++) if ((seen += counts[p]!) >= k) return p;
+            return n;
+          };
+          let total = 0;
+          adds.forEach((a, i) => {
+            const p = a % n;
+            tree.add(p);
+            counts[p]!++;
+            total++;
+            if (i % 7 !== 0) return;
+            // Every k in order (each after the previous: the step-on path), then some at random.
+            for (let k = 1; k <= total + 1; k++) expect(tree.kth(k)).toBe(kthByScan(k));
+            for (const q of asks) {
+              const k = 1 + (q % (total + 1));
+              expect(tree.kth(k)).toBe(kthByScan(k));
+            }
+            expect(tree.below(n)).toBe(total);
+          });
+        },
+      ),
+      { numRuns: 300 },
     );
   });
 });
