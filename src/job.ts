@@ -3,6 +3,7 @@
 // ingestion is pure and goes through buildResults, which tests call directly. Each step belongs to
 // the stage named beside it; this file only calls them in order.
 import path from 'node:path';
+import { serialize } from 'node:v8';
 import { adoptDefaults, backtestFor, defaultsOf, fileHash, loadPlan } from './config/index.js';
 import type { MetricPlan, Plan } from './config/types.js';
 import { analyse } from './engine/index.js';
@@ -126,7 +127,7 @@ export function buildResults(plan: Plan, outcome: IngestOutcome, o: BuildOptions
   const todo = toAnalyse(plan, outcome, o.shard);
   const analysed = keepAnalysed(memorySpool<SeriesDraft>(), todo, outcome);
   todo.forEach((item, done) => {
-    analysed.add(analyseTask.run(init, item));
+    analysed.add(analyseItem(init, item));
     o.onProgress?.(done + 1, todo.length);
   });
   return finishResults(plan, outcome, analysed, o).full();
@@ -174,16 +175,32 @@ function analyseInit(plan: Plan, o: Pick<JobOptions, 'newRows' | 'fullHistory'>)
 
 const adopted = new WeakSet<AnalyseInit>();
 
+/** One series' analysis. */
+function analyseItem(init: AnalyseInit, item: AnalyseItem): SeriesDraft {
+  if (!adopted.has(init)) {
+    adoptDefaults(init.plan, init.defaulted);
+    adopted.add(init);
+  }
+  return analyseSeries(item.series, init.plan.metrics[item.metric]!, init);
+}
+
+/**
+ * An analysed series as the analysis hands it over: its lean form, and the whole draft already
+ * serialised for the spool (src/spool.ts), so a worker thread's result crosses to the main thread
+ * as bytes plus a small object, and the main thread never rebuilds nor serialises the whole draft.
+ */
+interface Packed {
+  lean: SeriesDraft;
+  bytes: Uint8Array;
+}
+
 /** One series' analysis, on this thread or in a worker thread (this module is the worker's script). */
 const analyseTask = defineTask(
   'analyse',
   new URL(import.meta.url),
-  (init: AnalyseInit, item: AnalyseItem): SeriesDraft => {
-    if (!adopted.has(init)) {
-      adoptDefaults(init.plan, init.defaulted);
-      adopted.add(init);
-    }
-    return analyseSeries(item.series, init.plan.metrics[item.metric]!, init);
+  (init: AnalyseInit, item: AnalyseItem): Packed => {
+    const draft = analyseItem(init, item);
+    return { lean: leanDraft(draft), bytes: serialize(draft) };
   },
 );
 
@@ -198,6 +215,8 @@ export interface Analysed {
   drafts: SeriesDraft[];
   spool: Spool<SeriesDraft>;
   add: (draft: SeriesDraft) => void;
+  /** The same for a draft the analysis task packed (its lean form made, the whole serialised). */
+  addPacked: (packed: Packed) => void;
   /** Each analysed series' place among the series ingestion read. */
   positions: number[];
   /** How many series ingestion read. */
@@ -219,6 +238,11 @@ function keepAnalysed(
     add(d) {
       spool.add(d);
       drafts.push(leanDraft(d, notes));
+    },
+    addPacked(p) {
+      spool.addSerialized(p.bytes);
+      // Made lean again here: the mark and the run's shared notes are this thread's.
+      drafts.push(leanDraft(p.lean, notes));
     },
   };
 }
@@ -251,7 +275,7 @@ export async function analyseFleet(
   }
   try {
     await runPool(analyseTask, handOut(), { jobs, init: analyseInit(plan, o) }, (r, i) => {
-      analysed.add(r);
+      analysed.addPacked(r);
       o.onProgress?.(i + 1, count);
     });
   } catch (e) {

@@ -12,6 +12,8 @@ import { deserialize, serialize } from 'node:v8';
 export interface Spool<T> {
   /** Appends one record. */
   add(value: T): void;
+  /** Appends one record given as v8.serialize made it (e.g. in a worker thread); file spools only. */
+  addSerialized(bytes: Uint8Array): void;
   /** Every record in the order added, read again (each call reads from the start). */
   read(): Generator<T>;
   /** Bytes held (on disk or, for the memory spool, 0). */
@@ -32,6 +34,9 @@ export function memorySpool<T>(): Spool<T> {
   let items: T[] | null = [];
   return {
     add: (v) => void items!.push(v),
+    addSerialized: () => {
+      throw new Error('internal: a memory spool holds values, not serialised records');
+    },
     *read() {
       if (!items) throw new Error('internal: the spool is closed');
       yield* items;
@@ -43,9 +48,9 @@ export function memorySpool<T>(): Spool<T> {
 }
 
 /**
- * A spool in a temporary folder of its own (under the system's temp folder: RUNNER_TEMP's on a
- * hosted runner is the same place), removed by close(). `revive` is applied to each record read
- * back (e.g. to compact what the deserialiser rebuilt large).
+ * A spool in a temporary folder of its own under the system's temp folder (os.tmpdir(): TMPDIR,
+ * else /tmp), removed by close(). `revive` is applied to each record read back (e.g. to compact
+ * what the deserialiser rebuilt large).
  */
 export function fileSpool<T>(revive: (v: T) => T = (v) => v): Spool<T> {
   const dir = mkdtempSync(path.join(os.tmpdir(), 'leadline-spool-'));
@@ -54,7 +59,7 @@ export function fileSpool<T>(revive: (v: T) => T = (v) => v): Spool<T> {
   const atExit = (): void => rmSync(dir, { recursive: true, force: true });
   process.once('exit', atExit);
   let fd: number | null = openSync(file, 'w');
-  let pending: Buffer[] = [];
+  let pending: Uint8Array[] = [];
   let pendingBytes = 0;
   let written = 0;
   let closed = false;
@@ -68,8 +73,10 @@ export function fileSpool<T>(revive: (v: T) => T = (v) => v): Spool<T> {
   };
   const spool: Spool<T> = {
     add(value) {
+      spool.addSerialized(serialize(value));
+    },
+    addSerialized(body) {
       if (fd === null) throw new Error('internal: the spool is closed or being read');
-      const body = serialize(value);
       const head = Buffer.allocUnsafe(HEADER);
       head.writeUInt32LE(body.length, 0);
       pending.push(head, body);
