@@ -61,6 +61,27 @@ describe('numbers for people', () => {
   });
 });
 
+describe('num without the locale data', () => {
+  it('prints every whole number below 1,000 as Intl.NumberFormat does, at any digits, grouped or not', () => {
+    // Oracle: the built-in Intl.NumberFormat('en-US') with the options num uses, for each value.
+    const wrong: string[] = [];
+    for (const grouping of [true, false])
+      for (let d = 1; d <= 6; d++) {
+        const intl = new Intl.NumberFormat('en-US', { maximumSignificantDigits: d, useGrouping: grouping });
+        for (let x = -1_005; x <= 1_005; x++) {
+          const got = num(x, d, { grouping });
+          if (got !== intl.format(x))
+            wrong.push(`${x} at ${d} digits${grouping ? '' : ' ungrouped'}: ${got}`);
+        }
+      }
+    expect(wrong).toEqual([]);
+    expect(num(-0)).toBe('0');
+    expect(num(1000)).toBe('1,000');
+    expect(num(120, 2)).toBe('120');
+    expect(num(123, 2)).toBe('120');
+  });
+});
+
 describe('did you mean', () => {
   it('suggests a near word, or the one option a word starts or is the start of', () => {
     expect(nearest('valeu', ['value', 'time', 'key'])).toBe('value');
