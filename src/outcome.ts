@@ -54,8 +54,6 @@ export interface SeriesDraft {
   decided: Pick<SeriesResult, 'verdict' | 'reason'> | null;
   /** Only in a shard: the series' place in the whole run (see SeriesResult.position). */
   position?: number;
-  /** The CSV line of the newest history point, kept by leanDraft when the history is emptied. */
-  lastRow?: number | null;
 }
 
 /** A series read back from a results file (a shard's, for merge) as a draft: errors and too little data keep their verdict. */
@@ -241,14 +239,9 @@ function shapeSeries(d: SeriesDraft, v: Pick<SeriesResult, 'verdict' | 'reason'>
   });
 }
 
-/** A draft without its charts and tables (withoutDetail), remembering its newest CSV line. */
+/** A draft without its charts and tables (withoutDetail). */
 export function leanDraft(d: SeriesDraft, shared?: Map<string, string>): SeriesDraft {
-  return { ...d, findings: withoutDetail(d.findings, shared), lastRow: lastRowOf(d) };
-}
-
-/** The CSV line of a draft's newest history point, or null. */
-function lastRowOf(d: SeriesDraft): number | null {
-  return d.lastRow !== undefined ? d.lastRow : (d.findings.history.at(-1)?.row ?? null);
+  return { ...d, findings: withoutDetail(d.findings, shared) };
 }
 
 /**
@@ -313,11 +306,10 @@ export function pullRequestScope(
 ): Scope {
   if (!newRows) return { kind: 'latest', files: [], gate: 'all' };
   const lastRow = new Map<string, number>();
-  for (const d of drafts) {
-    const r = d.findings;
+  for (const { findings: r } of drafts) {
     const changed = Object.hasOwn(newRows, r.file);
     if (gate === 'changed') r.judged = changed;
-    const row = lastRowOf(d);
+    const row = r.history.at(-1)?.row ?? null;
     if (row !== null && changed) lastRow.set(r.file, Math.max(row, lastRow.get(r.file) ?? 0));
   }
   const added = new Set(addedFiles);

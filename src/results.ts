@@ -476,9 +476,9 @@ export function resultsJsonSchema(): Record<string, unknown> {
 const detailElsewhere = new WeakSet<object>();
 
 /**
- * A series (or a draft's findings) without its charts and tables: forecast, backtest, history and
- * residuals emptied, the residual checks without their wording and autocorrelations; every verdict
- * input is kept. What a run holds of each series while the full ones wait on disk (src/spool.ts),
+ * A series (or a draft's findings) without its charts and tables: forecast, backtest and residuals
+ * emptied, the history cut to its newest point, the residual checks without their wording and
+ * autocorrelations; every verdict input is kept. What a run holds of each series while the full ones wait on disk (src/spool.ts),
  * and what concluding a run or a merge reads. hasDetail tells the two apart, so no report shows an
  * emptied chart or check as if the series had no data. With `shared`, equal notes (most are the
  * same sentence for every series) are kept once.
@@ -498,7 +498,9 @@ export function withoutDetail<T extends LeanFields>(s: T, shared?: Map<string, s
       acf: [],
     },
     backtest: null,
-    history: [],
+    // The newest point stays: where the series ends (its CSV line, for annotations and the
+    // pull-request scope) is a fact about the series, not a chart.
+    history: s.history.slice(-1),
     residuals: [],
     notes: shared ? s.notes.map((n) => shared.get(n) ?? (shared.set(n, n), n)) : s.notes,
   };

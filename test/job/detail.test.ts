@@ -73,7 +73,10 @@ describe('a spooled run', () => {
   it('keeps its series lean and writes the same results file as the run held in memory', async () => {
     expect(run.lean.series).toHaveLength(271);
     expect(run.lean.summary.alarms).toBeGreaterThan(10);
-    expect(run.lean.series.every((s) => !hasDetail(s) && s.history.length === 0)).toBe(true);
+    expect(run.lean.series.every((s) => !hasDetail(s) && s.forecast.length === 0)).toBe(true);
+    // Where each series ends stays (annotations point at that CSV line): the newest point only.
+    const full = run.full().series;
+    run.lean.series.forEach((s, k) => expect(s.history).toStrictEqual(full[k]!.history.slice(-1)));
     expect(run.lean.series.filter((s) => s.verdict === 'error')).toHaveLength(1);
     const { series: _s, ...head } = run.lean;
     // configHash differs: startJob hashes the config file, buildResults is not given one.
