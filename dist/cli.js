@@ -38,7 +38,7 @@ import {
   visible,
   withUnit,
   writeOutput
-} from "./chunks/chunk-JOAZ26VE.js";
+} from "./chunks/chunk-EDJBVOIU.js";
 import "./chunks/chunk-65SWZLSQ.js";
 
 // src/cli/main.ts

@@ -47,7 +47,7 @@ import {
   windowWords,
   withUnit,
   writeOutput
-} from "./chunks/chunk-JOAZ26VE.js";
+} from "./chunks/chunk-EDJBVOIU.js";
 import "./chunks/chunk-65SWZLSQ.js";
 
 // src/action/main.ts

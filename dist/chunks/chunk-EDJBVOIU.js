@@ -25097,7 +25097,9 @@ function withoutDetail(s2, shared) {
       acf: []
     },
     backtest: null,
-    history: [],
+    // The newest point stays: where the series ends (its CSV line, for annotations and the
+    // pull-request scope) is a fact about the series, not a chart.
+    history: s2.history.slice(-1),
     residuals: [],
     notes: shared ? s2.notes.map((n) => shared.get(n) ?? (shared.set(n, n), n)) : s2.notes
   };
@@ -29190,10 +29192,7 @@ function shapeSeries(d, v) {
   });
 }
 function leanDraft(d, shared) {
-  return { ...d, findings: withoutDetail(d.findings, shared), lastRow: lastRowOf(d) };
-}
-function lastRowOf(d) {
-  return d.lastRow !== void 0 ? d.lastRow : d.findings.history.at(-1)?.row ?? null;
+  return { ...d, findings: withoutDetail(d.findings, shared) };
 }
 function settleFull(full, settled) {
   const f2 = full.findings;
@@ -29224,11 +29223,10 @@ function concludeRun(drafts, o) {
 function pullRequestScope(drafts, gate, newRows, addedFiles = []) {
   if (!newRows) return { kind: "latest", files: [], gate: "all" };
   const lastRow = /* @__PURE__ */ new Map();
-  for (const d of drafts) {
-    const r = d.findings;
+  for (const { findings: r } of drafts) {
     const changed = Object.hasOwn(newRows, r.file);
     if (gate === "changed") r.judged = changed;
-    const row = lastRowOf(d);
+    const row = r.history.at(-1)?.row ?? null;
     if (row !== null && changed) lastRow.set(r.file, Math.max(row, lastRow.get(r.file) ?? 0));
   }
   const added = new Set(addedFiles);
