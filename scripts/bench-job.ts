@@ -13,7 +13,7 @@ import path from 'node:path';
 import { parse } from 'csv-parse';
 import { loadPlan } from '../src/config/index.js';
 import { createRandom } from '../src/engine/random.js';
-import { inputGuard, resultsJsonStream, writeOutput } from '../src/files.js';
+import { inputGuard, resultsJsonOf, writeOutput } from '../src/files.js';
 import { ingest } from '../src/ingest/index.js';
 import { analyseFleet, finishResults } from '../src/job.js';
 import { defaultJobs, isPoolWorker } from '../src/pool.js';
@@ -123,11 +123,10 @@ async function benchmark(): Promise<void> {
   // As the command does (src/cli/main.ts): the results file streamed from the spool, and the report
   // from the run with only the series it can show read back in full.
   const run = finishResults(plan, outcome, analysed, { failOn: 'both' });
-  const { series: _series, ...head } = run.lean;
   const guard = await inputGuard(dir, 'leadline.yml');
   const jsonPath = await writeOutput(
     path.join(out, 'results.json'),
-    resultsJsonStream(head, run.series()),
+    resultsJsonOf(run),
     guard,
     'bench',
   );

@@ -9,7 +9,7 @@ import { isDynamicPattern } from 'tinyglobby';
 import { loadPlan } from './config/index.js';
 import { LeadlineError } from './errors.js';
 import { visible } from './text/index.js';
-import { seriesForFile, type Results, type SeriesResult } from './results.js';
+import { seriesForFile, type Results, type RunOutput, type SeriesResult } from './results.js';
 
 /** Resolves a path and follows symlinks as far as they exist (the file itself may not exist yet). */
 function canonical(p: string): string {
@@ -225,16 +225,15 @@ export function* resultsJson(results: Results): Generator<string> {
 }
 
 /**
- * The same text as resultsJson, with the series coming from a stream (a run reads them back from its
- * spool, a merge from the shards' files as it reads them), so one series at a time is held.
+ * The same text as resultsJson for a run or a merge (RunOutput): its head from the lean results, its
+ * series streamed in full (a run reads them back from its spool, a merge from the shards' files), so
+ * one series at a time is held.
  */
-export async function* resultsJsonStream(
-  head: Omit<Results, 'series'>,
-  series: Iterable<SeriesResult> | AsyncIterable<SeriesResult>,
-): AsyncGenerator<string> {
+export async function* resultsJsonOf(run: RunOutput): AsyncGenerator<string> {
+  const { series: _series, ...head } = run.lean;
   yield resultsJsonHead(head);
   let i = 0;
-  for await (const s of series) yield resultsJsonSeries(s, i++);
+  for await (const s of run.series()) yield resultsJsonSeries(s, i++);
   yield resultsJsonEnd(i);
 }
 

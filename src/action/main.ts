@@ -12,7 +12,7 @@ import {
   outputProblems,
   inputGuard,
   InputGuard,
-  resultsJsonStream,
+  resultsJsonOf,
   writeOutput,
 } from '../files.js';
 import { escapeMessage as escapeText, logSafe, plural, visible } from '../text/index.js';
@@ -287,7 +287,6 @@ async function afterJob(
     ...(s.html ? (['html'] as const) : []),
   ];
   const results = await source.detailed(reportDetail(source.lean, requests));
-  const { series: _series, ...head } = source.lean;
   info(`Leadline: ${VERDICT_LABEL[results.verdict]}. ${results.gate.reason}`);
 
   // Output files. A failure here fails the step after everything else is done.
@@ -312,7 +311,7 @@ async function afterJob(
       failures.push(isLeadlineError(e) ? e.describe() : `${label}: ${(e as Error).message}`);
     }
   };
-  await save(s.results, 'results', () => resultsJsonStream(head, source.series()));
+  await save(s.results, 'results', () => resultsJsonOf(source));
   if (s.markdown)
     await save(s.markdown, 'markdown', () =>
       d.renderMarkdown(results, { maxChars: Number.MAX_SAFE_INTEGER, fullReportNote: fullReportNote(link) }),

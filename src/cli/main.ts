@@ -10,8 +10,8 @@ import {
   type MarkdownOptions,
   type ReportRequest,
 } from '../report/index.js';
-import type { Results } from '../results.js';
-import { checkOutputs, filesRead, inputGuard, InputGuard, resultsJsonStream, writeOutput } from '../files.js';
+import type { Results, RunOutput } from '../results.js';
+import { checkOutputs, filesRead, inputGuard, InputGuard, resultsJsonOf, writeOutput } from '../files.js';
 import { mergeResults } from '../merge.js';
 import { VERSION } from '../version.js';
 import { safeStream } from '../text/index.js';
@@ -77,7 +77,7 @@ export async function main(argv: string[], given: CliIo): Promise<number> {
     const detailed = async () => (shown ??= await done.detailed(reportDetail(results, requests)));
     const markdown = async () => renderMarkdown(await detailed(), markdownOptions);
     if (settings.json)
-      await writeOutput(path.resolve(io.cwd, settings.json), out.json(), out.inputs, '--json');
+      await writeOutput(path.resolve(io.cwd, settings.json), resultsJsonOf(out), out.inputs, '--json');
     if (settings.markdown)
       await writeOutput(path.resolve(io.cwd, settings.markdown), await markdown(), out.inputs, '--markdown');
     if (settings.html)
@@ -113,11 +113,11 @@ export async function main(argv: string[], given: CliIo): Promise<number> {
       ] as const)
         if (p) io.stdout.write(`${what}: ${p}\n`);
     } else if (settings.print === 'markdown') io.stdout.write(await markdown());
-    else if (settings.print === 'json') for await (const piece of out.json()) io.stdout.write(piece);
+    else if (settings.print === 'json') for await (const piece of resultsJsonOf(out)) io.stdout.write(piece);
   } catch (e) {
     return fail(e, io);
   } finally {
-    out?.close();
+    out?.close?.();
   }
   if (settings.shard) return 0;
   if (out.lean.problems.length > 0) return 2;
@@ -125,15 +125,7 @@ export async function main(argv: string[], given: CliIo): Promise<number> {
 }
 
 /** What a command produced: the run's results, and the files it must not write to. */
-interface Outcome {
-  /** Every verdict and count; for a merge the series lack their charts and tables (see src/merge.ts). */
-  lean: Results;
-  /** The results with the series at these places in full (the others lean): what the reports need. */
-  detailed: (indices: ReadonlySet<number>) => Promise<Results>;
-  /** Removes what the run kept on disk. */
-  close: () => void;
-  /** The results JSON text, in pieces. */
-  json: () => Iterable<string> | AsyncIterable<string>;
+interface Outcome extends RunOutput {
   /** What the outputs must not overwrite. */
   inputs: InputGuard;
 }
@@ -194,14 +186,7 @@ async function run(settings: CliSettings, io: CliIo, outputs: Outputs): Promise<
       }
     },
   });
-  const { series: _series, ...head } = run.lean;
-  return {
-    lean: run.lean,
-    detailed: async (indices) => run.detailed(indices),
-    json: () => resultsJsonStream(head, run.series()),
-    inputs: new InputGuard(cwd, settings.config, before.patterns, filesRead(run.lean)),
-    close: run.close,
-  };
+  return { ...run, inputs: new InputGuard(cwd, settings.config, before.patterns, filesRead(run.lean)) };
 }
 
 async function merge(settings: CliSettings, io: CliIo, outputs: Outputs): Promise<Outcome> {
@@ -209,14 +194,7 @@ async function merge(settings: CliSettings, io: CliIo, outputs: Outputs): Promis
   const inputs = new InputGuard(io.cwd, files[0]!, [], files);
   checkOutputs(outputs, inputs);
   const merged = await mergeResults(files, { failOn: settings.failOn });
-  const { series: _series, ...head } = merged.lean;
-  return {
-    lean: merged.lean,
-    detailed: merged.detailed,
-    json: () => resultsJsonStream(head, merged.series()),
-    inputs,
-    close: () => {},
-  };
+  return { ...merged, inputs };
 }
 
 async function readTemplate(file: string): Promise<string> {
