@@ -262,8 +262,7 @@ export async function analyseFleet(
   const todo: (AnalyseItem | undefined)[] = toAnalyse(plan, outcome, o.shard);
   const count = todo.length;
   const jobs = Math.min(o.jobs ?? defaultJobs(), Math.floor(count / SERIES_PER_WORKER));
-  // Read back from the spool, a draft's per-level records are rebuilt small (see compactDraft).
-  const analysed = keepAnalysed(fileSpool<SeriesDraft>(compactDraft), todo as AnalyseItem[], outcome);
+  const analysed = keepAnalysed(fileSpool<SeriesDraft>(), todo as AnalyseItem[], outcome);
   outcome.series.length = 0;
   // Each item is handed out once and forgotten here, so its series can be collected once analysed.
   function* handOut(): Generator<AnalyseItem> {
@@ -344,28 +343,25 @@ export function finishResults(
   lean.scope = scope;
 
   // The full series: the analysed ones from the spool, then the failed ones (small, kept here).
-  function* fullSeries(wanted?: ReadonlySet<number>): Generator<[number, SeriesResult]> {
-    let k = 0;
-    if (!wanted || [...wanted].some((i) => i < analysed.drafts.length))
-      for (const d of analysed.spool.read()) {
-        if (!wanted || wanted.has(k)) yield [k, settleFull(placed(d, k), series[k]!)];
-        k++;
-      }
-    else k = analysed.drafts.length;
-    for (const d of failedDrafts) {
-      if (!wanted || wanted.has(k)) yield [k, settleFull(d, series[k]!)];
-      k++;
-    }
-  }
+  const settled = (d: SeriesDraft, k: number): SeriesResult =>
+    settleFull(k < analysed.drafts.length ? placed(d, k) : d, series[k]!);
   const inFull = (wanted: ReadonlySet<number>): Results => {
     const out = [...series];
-    for (const [k, s] of fullSeries(wanted)) out[k] = s;
+    // Held, unlike the stream's: per-level records rebuilt small (the deserialiser makes them large).
+    const fromSpool = new Set([...wanted].filter((k) => k < analysed.drafts.length));
+    for (const [k, d] of analysed.spool.readSome(fromSpool)) out[k] = settled(compactDraft(d), k);
+    failedDrafts.forEach((d, j) => {
+      const k = analysed.drafts.length + j;
+      if (wanted.has(k)) out[k] = settled(d, k);
+    });
     return { ...lean, series: out };
   };
   return {
     lean,
     *series() {
-      for (const [, s] of fullSeries()) yield s;
+      let k = 0;
+      for (const d of analysed.spool.read()) yield settled(d, k++);
+      for (const d of failedDrafts) yield settled(d, k++);
     },
     detailed: async (wanted) => inFull(wanted),
     full: () => inFull(new Set(series.keys())),

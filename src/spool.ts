@@ -16,6 +16,11 @@ export interface Spool<T> {
   addSerialized(bytes: Uint8Array): void;
   /** Every record in the order added, read again (each call reads from the start). */
   read(): Generator<T>;
+  /**
+   * The records at these places (0-based, in the order added) with their places, in order; the
+   * others are skipped unread (not deserialised), and reading stops after the last one asked for.
+   */
+  readSome(places: ReadonlySet<number>): Generator<[number, T]>;
   /** Bytes held (on disk or, for the memory spool, 0). */
   readonly bytes: number;
   /** The temporary folder holding the records, or null in memory. */
@@ -41,6 +46,10 @@ export function memorySpool<T>(): Spool<T> {
       if (!items) throw new Error('internal: the spool is closed');
       yield* items;
     },
+    *readSome(places) {
+      if (!items) throw new Error('internal: the spool is closed');
+      for (const [k, v] of items.entries()) if (places.has(k)) yield [k, v];
+    },
     bytes: 0,
     folder: null,
     close: () => void (items = null),
@@ -49,10 +58,9 @@ export function memorySpool<T>(): Spool<T> {
 
 /**
  * A spool in a temporary folder of its own under the system's temp folder (os.tmpdir(): TMPDIR,
- * else /tmp), removed by close(). `revive` is applied to each record read back (e.g. to compact
- * what the deserialiser rebuilt large).
+ * else /tmp), removed by close().
  */
-export function fileSpool<T>(revive: (v: T) => T = (v) => v): Spool<T> {
+export function fileSpool<T>(): Spool<T> {
   const dir = mkdtempSync(path.join(os.tmpdir(), 'leadline-spool-'));
   const file = path.join(dir, 'series.bin');
   // A process that ends without close() (an error thrown past it) still removes the folder.
@@ -84,42 +92,9 @@ export function fileSpool<T>(revive: (v: T) => T = (v) => v): Spool<T> {
       if (pendingBytes >= BATCH_BYTES) flush();
     },
     *read() {
-      if (closed) throw new Error('internal: the spool is closed');
-      if (fd !== null) {
-        flush();
-        closeSync(fd);
-        fd = null;
-      }
-      const input = openSync(file, 'r');
-      try {
-        let buf = Buffer.alloc(BATCH_BYTES);
-        let have = 0; // bytes of buf filled
-        let at = 0; // start of the next record in buf
-        for (;;) {
-          const room = buf.length - have;
-          const got = room > 0 ? readSync(input, buf, have, room, null) : 0;
-          have += got;
-          while (have - at >= HEADER) {
-            const size = buf.readUInt32LE(at);
-            if (have - at - HEADER < size) break;
-            yield revive(deserialize(buf.subarray(at + HEADER, at + HEADER + size)) as T);
-            at += HEADER + size;
-          }
-          if (got === 0 && room > 0) break;
-          // Keep the unread part at the front; grow the buffer when one record is larger than it.
-          const left = have - at;
-          const need = left >= HEADER ? HEADER + buf.readUInt32LE(at) : HEADER;
-          const next = need > buf.length ? Buffer.alloc(need) : buf;
-          buf.copy(next, 0, at, have);
-          buf = next;
-          have = left;
-          at = 0;
-        }
-        if (have - at > 0) throw new Error(`internal: the spool ${file} ends inside a record`);
-      } finally {
-        closeSync(input);
-      }
+      for (const [, v] of records(null)) yield v;
     },
+    readSome: (places) => records(places),
     get bytes() {
       return written + pendingBytes;
     },
@@ -133,5 +108,49 @@ export function fileSpool<T>(revive: (v: T) => T = (v) => v): Spool<T> {
       atExit();
     },
   };
+  /** The records in order with their places: every one (`places` null) or only those in `places`. */
+  function* records(places: ReadonlySet<number> | null): Generator<[number, T]> {
+    if (closed) throw new Error('internal: the spool is closed');
+    if (fd !== null) {
+      flush();
+      closeSync(fd);
+      fd = null;
+    }
+    let last = places ? -1 : Infinity;
+    for (const p of places ?? []) last = Math.max(last, p);
+    if (last < 0) return;
+    let k = 0; // place of the next record
+    const input = openSync(file, 'r');
+    try {
+      let buf = Buffer.alloc(BATCH_BYTES);
+      let have = 0; // bytes of buf filled
+      let at = 0; // start of the next record in buf
+      for (;;) {
+        const room = buf.length - have;
+        const got = room > 0 ? readSync(input, buf, have, room, null) : 0;
+        have += got;
+        while (have - at >= HEADER) {
+          const size = buf.readUInt32LE(at);
+          if (have - at - HEADER < size) break;
+          if (!places || places.has(k))
+            yield [k, deserialize(buf.subarray(at + HEADER, at + HEADER + size)) as T];
+          if (++k > last) return;
+          at += HEADER + size;
+        }
+        if (got === 0 && room > 0) break;
+        // Keep the unread part at the front; grow the buffer when one record is larger than it.
+        const left = have - at;
+        const need = left >= HEADER ? HEADER + buf.readUInt32LE(at) : HEADER;
+        const next = need > buf.length ? Buffer.alloc(need) : buf;
+        buf.copy(next, 0, at, have);
+        buf = next;
+        have = left;
+        at = 0;
+      }
+      if (have - at > 0) throw new Error(`internal: the spool ${file} ends inside a record`);
+    } finally {
+      closeSync(input);
+    }
+  }
   return spool;
 }

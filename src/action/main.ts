@@ -7,14 +7,7 @@ import { glob } from 'tinyglobby';
 import { isLeadlineError, LeadlineError } from '../errors.js';
 import { mergeResults, type ExpectedEvent } from '../merge.js';
 import { shardLabel } from '../shard.js';
-import {
-  filesRead,
-  outputProblems,
-  inputGuard,
-  InputGuard,
-  resultsJsonOf,
-  writeOutput,
-} from '../files.js';
+import { filesRead, outputProblems, inputGuard, InputGuard, resultsJsonOf, writeOutput } from '../files.js';
 import { escapeMessage as escapeText, logSafe, plural, visible } from '../text/index.js';
 import { startJob, type JobOptions } from '../job.js';
 import { VERDICT_LABEL } from '../report/format.js';

@@ -32,11 +32,19 @@ describe('fileSpool', () => {
     expect(() => [...spool.read()]).toThrow(/closed/);
   });
 
-  it('applies revive to each record read back', () => {
-    const spool = fileSpool<{ n: number }>((r) => ({ n: r.n * 2 }));
-    [1, 2, 3].forEach((n) => spool.add({ n }));
-    expect([...spool.read()].map((r) => r.n)).toEqual([2, 4, 6]);
-    spool.close();
+  it('reads only the records asked for, with their places, in order', () => {
+    for (const spool of [fileSpool<unknown>(), memorySpool<unknown>()]) {
+      records.forEach((r) => spool.add(r));
+      const back = [...spool.readSome(new Set([2_001, 1, 7]))];
+      expect(back).toStrictEqual([
+        [1, records[1]],
+        [7, records[7]],
+        [2_001, records[2_001]],
+      ]);
+      expect([...spool.readSome(new Set())]).toEqual([]);
+      expect([...spool.readSome(new Set([records.length + 5]))]).toEqual([]);
+      spool.close();
+    }
   });
 
   it('is empty when nothing was added', () => {
