@@ -29,7 +29,7 @@ import {
   renderMarkdown,
   reportDetail,
   reportOrder,
-  resultsJsonStream,
+  resultsJsonOf,
   safeStream,
   shardLabel,
   shorten,
@@ -38,7 +38,7 @@ import {
   visible,
   withUnit,
   writeOutput
-} from "./chunks/chunk-EDJBVOIU.js";
+} from "./chunks/chunk-J3FEWN2H.js";
 import "./chunks/chunk-65SWZLSQ.js";
 
 // src/cli/main.ts
@@ -289,7 +289,7 @@ async function main(argv, given) {
     const detailed = async () => shown ??= await done.detailed(reportDetail(results, requests));
     const markdown = async () => renderMarkdown(await detailed(), markdownOptions);
     if (settings.json)
-      await writeOutput(path.resolve(io.cwd, settings.json), out.json(), out.inputs, "--json");
+      await writeOutput(path.resolve(io.cwd, settings.json), resultsJsonOf(out), out.inputs, "--json");
     if (settings.markdown)
       await writeOutput(path.resolve(io.cwd, settings.markdown), await markdown(), out.inputs, "--markdown");
     if (settings.html)
@@ -325,11 +325,11 @@ async function main(argv, given) {
         if (p) io.stdout.write(`${what}: ${p}
 `);
     } else if (settings.print === "markdown") io.stdout.write(await markdown());
-    else if (settings.print === "json") for await (const piece of out.json()) io.stdout.write(piece);
+    else if (settings.print === "json") for await (const piece of resultsJsonOf(out)) io.stdout.write(piece);
   } catch (e) {
     return fail(e, io);
   } finally {
-    out?.close();
+    out?.close?.();
   }
   if (settings.shard) return 0;
   if (out.lean.problems.length > 0) return 2;
@@ -378,29 +378,14 @@ async function run(settings, io, outputs) {
       }
     }
   });
-  const { series: _series, ...head } = run2.lean;
-  return {
-    lean: run2.lean,
-    detailed: async (indices) => run2.detailed(indices),
-    json: () => resultsJsonStream(head, run2.series()),
-    inputs: new InputGuard(cwd, settings.config, before.patterns, filesRead(run2.lean)),
-    close: run2.close
-  };
+  return { ...run2, inputs: new InputGuard(cwd, settings.config, before.patterns, filesRead(run2.lean)) };
 }
 async function merge(settings, io, outputs) {
   const files = settings.files.map((f) => path.resolve(io.cwd, f));
   const inputs = new InputGuard(io.cwd, files[0], [], files);
   checkOutputs(outputs, inputs);
   const merged = await mergeResults(files, { failOn: settings.failOn });
-  const { series: _series, ...head } = merged.lean;
-  return {
-    lean: merged.lean,
-    detailed: merged.detailed,
-    json: () => resultsJsonStream(head, merged.series()),
-    inputs,
-    close: () => {
-    }
-  };
+  return { ...merged, inputs };
 }
 async function readTemplate(file) {
   try {

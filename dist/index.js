@@ -37,7 +37,7 @@ import {
   renderHtml,
   renderMarkdown,
   reportDetail,
-  resultsJsonStream,
+  resultsJsonOf,
   rowRef,
   runNeedsAttention,
   shardLabel,
@@ -47,7 +47,7 @@ import {
   windowWords,
   withUnit,
   writeOutput
-} from "./chunks/chunk-EDJBVOIU.js";
+} from "./chunks/chunk-J3FEWN2H.js";
 import "./chunks/chunk-65SWZLSQ.js";
 
 // src/action/main.ts
@@ -1399,7 +1399,6 @@ async function afterJob(d, s, source, jobError, mergeFiles, { before, blocked, f
     ...s.html ? ["html"] : []
   ];
   const results = await source.detailed(reportDetail(source.lean, requests));
-  const { series: _series, ...head } = source.lean;
   info2(`Leadline: ${VERDICT_LABEL[results.verdict]}. ${results.gate.reason}`);
   const guard = new InputGuard(s.workingDirectory, s.config, before.patterns, [
     ...filesRead(results),
@@ -1418,7 +1417,7 @@ async function afterJob(d, s, source, jobError, mergeFiles, { before, blocked, f
       failures.push(isLeadlineError(e) ? e.describe() : `${label}: ${e.message}`);
     }
   };
-  await save(s.results, "results", () => resultsJsonStream(head, source.series()));
+  await save(s.results, "results", () => resultsJsonOf(source));
   if (s.markdown)
     await save(
       s.markdown,

@@ -29904,10 +29904,11 @@ async function writeOutput(target, text2, guard, label) {
 function filesRead(results) {
   return [...new Set((results?.series ?? []).map((s2) => s2.file))];
 }
-async function* resultsJsonStream(head, series) {
+async function* resultsJsonOf(run) {
+  const { series: _series, ...head } = run.lean;
   yield resultsJsonHead(head);
   let i = 0;
-  for await (const s2 of series) yield resultsJsonSeries(s2, i++);
+  for await (const s2 of run.series()) yield resultsJsonSeries(s2, i++);
   yield resultsJsonEnd(i);
 }
 function resultsJsonHead(head) {
@@ -32829,7 +32830,7 @@ import path5 from "node:path";
 import { deserialize, serialize } from "node:v8";
 var BATCH_BYTES = 1 << 20;
 var HEADER = 4;
-function fileSpool(revive = (v) => v) {
+function fileSpool() {
   const dir = mkdtempSync(path5.join(os2.tmpdir(), "leadline-spool-"));
   const file = path5.join(dir, "series.bin");
   const atExit = () => rmSync2(dir, { recursive: true, force: true });
@@ -32860,41 +32861,9 @@ function fileSpool(revive = (v) => v) {
       if (pendingBytes >= BATCH_BYTES) flush();
     },
     *read() {
-      if (closed) throw new Error("internal: the spool is closed");
-      if (fd !== null) {
-        flush();
-        closeSync(fd);
-        fd = null;
-      }
-      const input = openSync(file, "r");
-      try {
-        let buf = Buffer.alloc(BATCH_BYTES);
-        let have = 0;
-        let at = 0;
-        for (; ; ) {
-          const room = buf.length - have;
-          const got = room > 0 ? readSync(input, buf, have, room, null) : 0;
-          have += got;
-          while (have - at >= HEADER) {
-            const size = buf.readUInt32LE(at);
-            if (have - at - HEADER < size) break;
-            yield revive(deserialize(buf.subarray(at + HEADER, at + HEADER + size)));
-            at += HEADER + size;
-          }
-          if (got === 0 && room > 0) break;
-          const left = have - at;
-          const need = left >= HEADER ? HEADER + buf.readUInt32LE(at) : HEADER;
-          const next = need > buf.length ? Buffer.alloc(need) : buf;
-          buf.copy(next, 0, at, have);
-          buf = next;
-          have = left;
-          at = 0;
-        }
-        if (have - at > 0) throw new Error(`internal: the spool ${file} ends inside a record`);
-      } finally {
-        closeSync(input);
-      }
+      for (const [, v] of records(null)) yield v;
     },
+    readSome: (places) => records(places),
     get bytes() {
       return written + pendingBytes;
     },
@@ -32908,6 +32877,48 @@ function fileSpool(revive = (v) => v) {
       atExit();
     }
   };
+  function* records(places) {
+    if (closed) throw new Error("internal: the spool is closed");
+    if (fd !== null) {
+      flush();
+      closeSync(fd);
+      fd = null;
+    }
+    let last = places ? -1 : Infinity;
+    for (const p of places ?? []) last = Math.max(last, p);
+    if (last < 0) return;
+    let k2 = 0;
+    const input = openSync(file, "r");
+    try {
+      let buf = Buffer.alloc(BATCH_BYTES);
+      let have = 0;
+      let at = 0;
+      for (; ; ) {
+        const room = buf.length - have;
+        const got = room > 0 ? readSync(input, buf, have, room, null) : 0;
+        have += got;
+        while (have - at >= HEADER) {
+          const size = buf.readUInt32LE(at);
+          if (have - at - HEADER < size) break;
+          if (!places || places.has(k2))
+            yield [k2, deserialize(buf.subarray(at + HEADER, at + HEADER + size))];
+          if (++k2 > last) return;
+          at += HEADER + size;
+        }
+        if (got === 0 && room > 0) break;
+        const left = have - at;
+        const need = left >= HEADER ? HEADER + buf.readUInt32LE(at) : HEADER;
+        const next = need > buf.length ? Buffer.alloc(need) : buf;
+        buf.copy(next, 0, at, have);
+        buf = next;
+        have = left;
+        at = 0;
+      }
+      if (have - at > 0) throw new Error(`internal: the spool ${file} ends inside a record`);
+    } finally {
+      closeSync(input);
+    }
+  }
   return spool;
 }
 
@@ -32982,7 +32993,7 @@ async function analyseFleet(plan, outcome, o) {
   const todo = toAnalyse(plan, outcome, o.shard);
   const count2 = todo.length;
   const jobs = Math.min(o.jobs ?? defaultJobs(), Math.floor(count2 / SERIES_PER_WORKER));
-  const analysed = keepAnalysed(fileSpool(compactDraft), todo, outcome);
+  const analysed = keepAnalysed(fileSpool(), todo, outcome);
   outcome.series.length = 0;
   function* handOut() {
     for (let k2 = 0; k2 < count2; k2++) {
@@ -33039,28 +33050,23 @@ function finishResults(plan, outcome, analysed, o) {
   };
   if (o.baseNote) lean.notes = [o.baseNote];
   lean.scope = scope;
-  function* fullSeries(wanted) {
-    let k2 = 0;
-    if (!wanted || [...wanted].some((i) => i < analysed.drafts.length))
-      for (const d of analysed.spool.read()) {
-        if (!wanted || wanted.has(k2)) yield [k2, settleFull(placed(d, k2), series[k2])];
-        k2++;
-      }
-    else k2 = analysed.drafts.length;
-    for (const d of failedDrafts) {
-      if (!wanted || wanted.has(k2)) yield [k2, settleFull(d, series[k2])];
-      k2++;
-    }
-  }
+  const settled = (d, k2) => settleFull(k2 < analysed.drafts.length ? placed(d, k2) : d, series[k2]);
   const inFull = (wanted) => {
     const out = [...series];
-    for (const [k2, s2] of fullSeries(wanted)) out[k2] = s2;
+    const fromSpool = new Set([...wanted].filter((k2) => k2 < analysed.drafts.length));
+    for (const [k2, d] of analysed.spool.readSome(fromSpool)) out[k2] = settled(compactDraft(d), k2);
+    failedDrafts.forEach((d, j) => {
+      const k2 = analysed.drafts.length + j;
+      if (wanted.has(k2)) out[k2] = settled(d, k2);
+    });
     return { ...lean, series: out };
   };
   return {
     lean,
     *series() {
-      for (const [, s2] of fullSeries()) yield s2;
+      let k2 = 0;
+      for (const d of analysed.spool.read()) yield settled(d, k2++);
+      for (const d of failedDrafts) yield settled(d, k2++);
     },
     detailed: async (wanted) => inFull(wanted),
     full: () => inFull(new Set(series.keys())),
@@ -38785,7 +38791,7 @@ export {
   checkOutputs,
   writeOutput,
   filesRead,
-  resultsJsonStream,
+  resultsJsonOf,
   startJob,
   VERDICT_LABEL,
   reportOrder,
