@@ -124,12 +124,7 @@ async function benchmark(): Promise<void> {
   // from the run with only the series it can show read back in full.
   const run = finishResults(plan, outcome, analysed, { failOn: 'both' });
   const guard = await inputGuard(dir, 'leadline.yml');
-  const jsonPath = await writeOutput(
-    path.join(out, 'results.json'),
-    resultsJsonOf(run),
-    guard,
-    'bench',
-  );
+  const jsonPath = await writeOutput(path.join(out, 'results.json'), resultsJsonOf(run), guard, 'bench');
   const t4 = performance.now();
   rss.push(process.memoryUsage().rss);
   const shown = await run.detailed(reportDetail(run.lean, [{ markdown: {} }]));
